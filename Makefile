@@ -1,0 +1,40 @@
+# shotplan: the two set-up commands are `make run` and `make test`.
+PYTHON ?= python3
+VENV   := .venv
+PY     := $(VENV)/bin/python
+STAMP  := $(VENV)/.installed
+TSTAMP := $(VENV)/.installed-test
+DEMO   := assets/layouts/club-night-1-straight-in.json
+
+.PHONY: run test bench check clean screenshots
+
+$(PY):
+	$(PYTHON) -m venv $(VENV)
+	$(PY) -m pip install --quiet --upgrade pip
+
+$(STAMP): pyproject.toml | $(PY)
+	$(PY) -m pip install --quiet -e .
+	touch $@
+
+$(TSTAMP): pyproject.toml | $(PY)
+	$(PY) -m pip install --quiet -e ".[test,dev]"
+	touch $(STAMP) $@
+
+run: $(STAMP)
+	$(VENV)/bin/shotplan view $(DEMO)
+
+test: $(TSTAMP)
+	$(PY) -m pytest
+
+bench: $(STAMP)
+	$(PY) benchmarks/run_all.py
+
+check: $(TSTAMP)
+	$(VENV)/bin/ruff check shotplan tests benchmarks
+	$(VENV)/bin/mypy shotplan
+
+screenshots: $(STAMP)
+	$(PY) tools/make_screenshots.py
+
+clean:
+	rm -rf $(VENV) build *.egg-info

@@ -1,0 +1,27 @@
+"""shotplan: plan shots on billiard tables.
+
+The public names are handed on from their modules; see each module's
+docstring for details.
+"""
+
+from .equipment import PRESETS, TableSpec
+from .errors import InputError, LayoutError, PhysicsError, ShotplanError, StrokeError
+from .physics import Physics
+from .stroke import Stroke
+from .table import Table
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "__version__",
+    "PRESETS",
+    "TableSpec",
+    "Table",
+    "Stroke",
+    "Physics",
+    "ShotplanError",
+    "LayoutError",
+    "StrokeError",
+    "PhysicsError",
+    "InputError",
+]

@@ -1,0 +1,563 @@
+"""Equipment standards: balls, cloth, cushions, pockets and tables as frozen values.
+
+Every number here is data with its source beside it. Where a standard gives a
+range, the range is kept (``*_range`` fields) and the nominal value the model
+uses is stated. Sources, by the short names used below:
+
+WPA
+    World Pool-Billiard Association, *Tournament Table & Equipment
+    Specifications* (the world pool governing body's equipment standard).
+WSF
+    The snooker governing body's *Official Rules of the Games of Snooker and
+    English Billiards* (table and ball section).
+UMB
+    Union Mondiale de Billard (the carom governing body), *Statutes and
+    sporting code*, equipment section.
+memory
+    A value recalled from general trade knowledge, not read from a document
+    during this work. Measure your table and override it in the layout.
+
+A table that is not a preset is a preset plus measured overrides, see
+:meth:`TableSpec.with_overrides`. This module imports nothing of the package
+except :mod:`shotplan.units`.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from typing import Any
+
+from .errors import LayoutError
+from .units import inches, mm
+
+__all__ = [
+    "Range",
+    "BallSpec",
+    "ClothSpec",
+    "CushionSpec",
+    "PocketSpec",
+    "Spot",
+    "TableSpec",
+    "PRESETS",
+    "preset_names",
+    "OVERRIDE_KEYS",
+    "POOL_BALL_IDS",
+    "SNOOKER_BALL_IDS",
+    "CAROM_BALL_IDS",
+]
+
+
+@dataclass(frozen=True, slots=True)
+class Range:
+    """A closed tolerance band ``[low, high]`` from a standard, in SI units."""
+
+    low: float
+    """Lowest allowed value."""
+    high: float
+    """Highest allowed value."""
+
+    def __contains__(self, value: object) -> bool:
+        return isinstance(value, int | float) and self.low <= value <= self.high
+
+    @classmethod
+    def around(cls, nominal: float, tol: float) -> Range:
+        """The band ``nominal +- tol``."""
+        return cls(nominal - tol, nominal + tol)
+
+    @property
+    def mid(self) -> float:
+        """The middle of the band."""
+        return 0.5 * (self.low + self.high)
+
+
+POOL_BALL_IDS: tuple[str, ...] = ("cue",) + tuple(str(i) for i in range(1, 16))
+"""Pool: the cue ball and object balls 1 to 15."""
+
+SNOOKER_BALL_IDS: tuple[str, ...] = (
+    ("cue",)
+    + tuple(f"red{i}" for i in range(1, 16))
+    + ("yellow", "green", "brown", "blue", "pink", "black")
+)
+"""Snooker: the cue ball, fifteen reds and the six colours."""
+
+CAROM_BALL_IDS: tuple[str, ...] = ("cue", "yellow", "red")
+"""Carom: the struck ball (white), the other player's ball (yellow), the red."""
+
+
+@dataclass(frozen=True, slots=True)
+class BallSpec:
+    """One ball of a set (all balls of a set are alike)."""
+
+    diameter_m: float
+    """Nominal diameter, m."""
+    mass_kg: float
+    """Nominal mass, kg."""
+    diameter_range_m: Range
+    """The standard's band for the diameter, m."""
+    mass_range_kg: Range
+    """The standard's band for the mass, kg."""
+    ids: tuple[str, ...]
+    """The ball ids of this set; ``cue`` is always the ball the cue strikes."""
+
+    @property
+    def radius_m(self) -> float:
+        """Radius, m."""
+        return 0.5 * self.diameter_m
+
+
+@dataclass(frozen=True, slots=True)
+class ClothSpec:
+    """Measured cloth values; ``None`` means "use the physics default"."""
+
+    sliding_friction: float | None = None
+    """Ball-cloth sliding friction coefficient mu_s (dimensionless)."""
+    rolling_resistance: float | None = None
+    """Rolling resistance coefficient mu_r (deceleration / g)."""
+    spin_friction: float | None = None
+    """Spin friction coefficient (deceleration of spin about the vertical,
+    as in :class:`shotplan.physics.Physics`)."""
+
+
+@dataclass(frozen=True, slots=True)
+class CushionSpec:
+    """The cushion rubber: its nose height and measured values."""
+
+    nose_height_m: float
+    """Height of the cushion nose (the contact line) above the bed, m."""
+    nose_height_range_m: Range
+    """The standard's band for the nose height, m."""
+    rubber_width_m: float
+    """Depth of the rubber from the nose to the rail, m (drawing only)."""
+    rail_width_m: float
+    """Width of the wooden rail outside the rubber, m (drawing only)."""
+    restitution: float | None = None
+    """Measured cushion restitution; ``None`` uses the physics default."""
+    restitution_slope: float | None = None
+    """Measured fall of restitution with normal speed, 1/(m/s); ``None`` uses
+    the physics default."""
+    friction: float | None = None
+    """Measured ball-cushion friction; ``None`` uses the physics default."""
+
+
+@dataclass(frozen=True, slots=True)
+class PocketSpec:
+    """The shape of one kind of pocket (corner or side)."""
+
+    mouth_m: float
+    """Mouth width between the jaw points (where the jaw faces meet the
+    extensions of the cushion noses), m."""
+    mouth_range_m: Range
+    """The standard's band for the mouth, m."""
+    jaw_angle_deg: float
+    """Angle between the cushion nose and the jaw face, measured through the
+    rubber, degrees (135 for a corner or 90 for a side pocket means faces
+    parallel to the pocket's axis; more means a throat narrower than the mouth)."""
+    jaw_angle_range_deg: Range
+    """The standard's band for the jaw angle, degrees."""
+    shelf_m: float
+    """Shelf depth: from the mouth line to the drop line, along the pocket axis, m."""
+    shelf_range_m: Range
+    """The standard's band for the shelf, m."""
+    jaw_tip_radius_m: float
+    """Radius of the rounded jaw tip in plan view, m."""
+    back_draft_deg: float
+    """Back draft of the pocket liner, degrees (recorded; not modelled)."""
+
+
+@dataclass(frozen=True, slots=True)
+class Spot:
+    """A named spot on the table, in table coordinates (m)."""
+
+    name: str
+    """Trade name of the spot (``foot spot``, ``black``...)."""
+    x: float
+    """Along the length from the head cushion nose, m."""
+    y: float
+    """Across from the right cushion nose, m."""
+
+
+@dataclass(frozen=True, slots=True)
+class TableSpec:
+    """A whole table: playing surface, ball set, cushions, cloth, pockets, markings.
+
+    Build one with :meth:`preset` and change it with :meth:`with_overrides`.
+    """
+
+    name: str
+    """Preset name this spec comes from (``pool-9ft``...)."""
+    game: str
+    """``pool``, ``snooker`` or ``carom``."""
+    length_m: float
+    """Playing surface length between cushion noses, m."""
+    width_m: float
+    """Playing surface width between cushion noses, m."""
+    size_tolerance_m: float
+    """The standard's tolerance on length and width (each), m."""
+    ball: BallSpec
+    """The ball set."""
+    cushion: CushionSpec
+    """The cushions."""
+    cloth: ClothSpec
+    """Measured cloth values (all ``None`` on the presets)."""
+    corner: PocketSpec | None
+    """Corner pockets, or ``None`` on a table without pockets."""
+    side: PocketSpec | None
+    """Side (middle) pockets, or ``None``."""
+    sight_setback_m: float | None
+    """Distance from the cushion nose back to the centre of the sights, m;
+    ``None`` where the table has no sights."""
+    spots: tuple[Spot, ...]
+    """Named spots."""
+    head_string_x_m: float | None
+    """x of the head string (pool, carom), m, or ``None``."""
+    baulk_line_x_m: float | None = None
+    """x of the baulk line (snooker), m."""
+    d_radius_m: float | None = None
+    """Radius of the D (snooker), m."""
+    source: str = ""
+    """Where the numbers come from, in words."""
+    overrides: tuple[tuple[str, Any], ...] = field(default=())
+    """The measured overrides applied to the preset, as (key, value) pairs."""
+
+    # ----------------------------------------------------------------- build
+    @classmethod
+    def preset(cls, name: str) -> TableSpec:
+        """The standard table called ``name`` (see :data:`PRESETS`)."""
+        try:
+            return PRESETS[name]
+        except KeyError:
+            raise LayoutError(
+                f"{name!r} is not a table preset, must be one of {', '.join(PRESETS)}"
+            ) from None
+
+    def with_overrides(self, values: Mapping[str, Any], where: str = "table") -> TableSpec:
+        """A copy with measured values replacing the preset's.
+
+        ``values`` maps keys of :data:`OVERRIDE_KEYS` to numbers; ``where``
+        names the place in a file for error messages. Markings that depend on
+        the size (spots, strings) follow a new length and width.
+        """
+        spec = self
+        for key, value in values.items():
+            if key not in OVERRIDE_KEYS:
+                raise LayoutError(
+                    f"{where}: unknown table field {key!r}, must be one of "
+                    f"preset, {', '.join(OVERRIDE_KEYS)}"
+                )
+            lo, hi, _doc = OVERRIDE_KEYS[key]
+            if isinstance(value, bool) or not isinstance(value, int | float):
+                raise LayoutError(f"{where}.{key}: {value!r} is not a number")
+            value = float(value)
+            if not math.isfinite(value) or not lo <= value <= hi:
+                raise LayoutError(
+                    f"{where}.{key}: {value!r} is out of range, must be between {lo} and {hi}"
+                )
+            spec = spec._set(key, value, where)
+        return dataclasses.replace(
+            spec, overrides=self.overrides + tuple((k, float(v)) for k, v in values.items())
+        )
+
+    def _set(self, key: str, value: float, where: str) -> TableSpec:
+        r = dataclasses.replace
+        if key in ("length_m", "width_m"):
+            length = value if key == "length_m" else self.length_m
+            width = value if key == "width_m" else self.width_m
+            return _rescale_markings(r(self, length_m=length, width_m=width), self)
+        if key == "ball_diameter_m":
+            return r(self, ball=r(self.ball, diameter_m=value))
+        if key == "ball_mass_kg":
+            return r(self, ball=r(self.ball, mass_kg=value))
+        if key == "cushion_nose_height_m":
+            return r(self, cushion=r(self.cushion, nose_height_m=value))
+        if key == "cushion_restitution":
+            return r(self, cushion=r(self.cushion, restitution=value))
+        if key == "cushion_restitution_slope":
+            return r(self, cushion=r(self.cushion, restitution_slope=value))
+        if key == "cushion_friction":
+            return r(self, cushion=r(self.cushion, friction=value))
+        if key.startswith("cloth_"):
+            attr = key[len("cloth_"):]
+            return r(self, cloth=r(self.cloth, **{attr: value}))
+        kind, attr = key.split("_", 1)
+        pocket = getattr(self, kind)
+        if pocket is None:
+            raise LayoutError(f"{where}.{key}: the {self.name!r} table has no {kind} pockets")
+        attr = {"mouth_m": "mouth_m", "jaw_angle_deg": "jaw_angle_deg", "shelf_m": "shelf_m",
+                "jaw_tip_radius_m": "jaw_tip_radius_m"}[attr]
+        return r(self, **{kind: r(pocket, **{attr: value})})
+
+    # ------------------------------------------------------------ properties
+    @property
+    def has_pockets(self) -> bool:
+        """Whether the table has pockets."""
+        return self.corner is not None
+
+    @property
+    def contact_offset_m(self) -> float:
+        """Horizontal distance from a ball's centre to the cushion nose at contact, m.
+
+        The nose stands above the ball's centre, so the ball touches it above
+        its equator: ``sqrt(R^2 - (h - R)^2)`` (Han 2005 geometry).
+        """
+        R = self.ball.radius_m
+        dh = self.cushion.nose_height_m - R
+        return math.sqrt(max(R * R - dh * dh, 0.0))
+
+    def to_dict(self) -> dict[str, Any]:
+        """The summary ``shotplan tables --json`` prints for this table."""
+        return {
+            "name": self.name,
+            "game": self.game,
+            "length_m": self.length_m,
+            "width_m": self.width_m,
+            "size_tolerance_m": self.size_tolerance_m,
+            "ball_diameter_m": self.ball.diameter_m,
+            "ball_mass_kg": self.ball.mass_kg,
+            "corner_mouth_m": self.corner.mouth_m if self.corner else None,
+            "side_mouth_m": self.side.mouth_m if self.side else None,
+            "corner_jaw_angle_deg": self.corner.jaw_angle_deg if self.corner else None,
+            "side_jaw_angle_deg": self.side.jaw_angle_deg if self.side else None,
+            "corner_shelf_m": self.corner.shelf_m if self.corner else None,
+            "side_shelf_m": self.side.shelf_m if self.side else None,
+            "cushion_nose_height_m": self.cushion.nose_height_m,
+            "sight_spacing_m": self.length_m / 8 if self.sight_setback_m is not None else None,
+            "ball_ids": list(self.ball.ids),
+            "source": self.source,
+        }
+
+    def __repr__(self) -> str:
+        if not self.overrides:
+            return f"TableSpec.preset({self.name!r})"
+        return f"TableSpec.preset({self.name!r}).with_overrides({dict(self.overrides)!r})"
+
+
+OVERRIDE_KEYS: dict[str, tuple[float, float, str]] = {
+    # key: (lowest, highest, what it is). The bounds only catch nonsense; they
+    # are wide enough for any real table.
+    "length_m": (0.5, 6.0, "playing surface length between cushion noses, m"),
+    "width_m": (0.25, 3.0, "playing surface width between cushion noses, m"),
+    "ball_diameter_m": (0.03, 0.1, "ball diameter, m"),
+    "ball_mass_kg": (0.05, 0.5, "ball mass, kg"),
+    "cushion_nose_height_m": (0.01, 0.08, "cushion nose height above the bed, m"),
+    "corner_mouth_m": (0.05, 0.3, "corner pocket mouth between jaw points, m"),
+    "side_mouth_m": (0.05, 0.3, "side pocket mouth between jaw points, m"),
+    "corner_jaw_angle_deg": (120.0, 160.0, "corner jaw angle through the rubber, deg"),
+    "side_jaw_angle_deg": (80.0, 125.0, "side jaw angle through the rubber, deg"),
+    "corner_shelf_m": (0.0, 0.12, "corner shelf depth, m"),
+    "side_shelf_m": (0.0, 0.08, "side shelf depth, m"),
+    "corner_jaw_tip_radius_m": (0.0005, 0.05, "corner jaw tip radius, m"),
+    "side_jaw_tip_radius_m": (0.0005, 0.05, "side jaw tip radius, m"),
+    "cushion_restitution": (0.05, 1.0, "measured cushion restitution"),
+    "cushion_restitution_slope": (0.0, 1.0, "fall of cushion restitution per m/s of normal speed"),
+    "cushion_friction": (0.0, 1.0, "measured ball-cushion friction"),
+    "cloth_sliding_friction": (0.01, 1.0, "measured ball-cloth sliding friction"),
+    "cloth_rolling_resistance": (0.0005, 0.1, "measured rolling resistance"),
+    "cloth_spin_friction": (0.0001, 0.5, "measured spin friction"),
+}
+"""Keys a layout's ``table`` object may override, with sanity bounds and meaning."""
+
+
+def _rescale_markings(new: TableSpec, old: TableSpec) -> TableSpec:
+    sx = new.length_m / old.length_m
+    sy = new.width_m / old.width_m
+    # Spots keep their distance from the nearest end for snooker (the rules
+    # measure them from the cushions); pool and carom spots scale with the table.
+    spots = tuple(Spot(s.name, s.x * sx, s.y * sy) for s in old.spots)
+    head = old.head_string_x_m * sx if old.head_string_x_m is not None else None
+    return dataclasses.replace(new, spots=spots, head_string_x_m=head)
+
+
+# ---------------------------------------------------------------- the presets
+
+# WPA: ball 2 1/4 in (57.15 mm) +- 0.005 in; 5.5 to 6 oz (156 to 170 g).
+_POOL_BALL = BallSpec(
+    diameter_m=inches(2.25),  # WPA: 2.25 in nominal
+    mass_kg=0.163,  # WPA band 156-170 g; nominal = middle of the band (our choice)
+    diameter_range_m=Range.around(inches(2.25), inches(0.005)),  # WPA +- 0.005 in
+    mass_range_kg=Range(0.156, 0.170),  # WPA 5.5-6 oz
+    ids=POOL_BALL_IDS,
+)
+
+_POOL_CUSHION = CushionSpec(
+    # WPA: nose height 63.5 % of the ball diameter, +- 1 % (i.e. 62.5-64.5 %).
+    nose_height_m=0.635 * inches(2.25),
+    nose_height_range_m=Range(0.625 * inches(2.25), 0.645 * inches(2.25)),
+    rubber_width_m=inches(2.0),  # memory: about 2 in of rubber and cloth, nose to rail
+    rail_width_m=inches(5.0),  # memory: 4.5-5.5 in rails are usual (drawing only)
+)
+
+_POOL_CORNER = PocketSpec(
+    mouth_m=inches(4.5625),  # WPA 4.5-4.625 in; nominal = middle
+    mouth_range_m=Range(inches(4.5), inches(4.625)),  # WPA
+    jaw_angle_deg=142.0,  # WPA 142 +- 1 deg
+    jaw_angle_range_deg=Range(141.0, 143.0),  # WPA
+    shelf_m=inches(1.625),  # WPA 1-2.25 in; nominal = middle
+    shelf_range_m=Range(inches(1.0), inches(2.25)),  # WPA
+    jaw_tip_radius_m=mm(6.0),  # memory: not in the WPA text; a typical rounded nose
+    back_draft_deg=13.5,  # WPA 12-15 deg; middle
+)
+
+_POOL_SIDE = PocketSpec(
+    mouth_m=inches(5.0625),  # WPA 5-5.125 in; nominal = middle
+    mouth_range_m=Range(inches(5.0), inches(5.125)),  # WPA
+    jaw_angle_deg=104.0,  # WPA 104 +- 1 deg
+    jaw_angle_range_deg=Range(103.0, 105.0),  # WPA
+    shelf_m=inches(0.1875),  # WPA 0-0.375 in; nominal = middle
+    shelf_range_m=Range(0.0, inches(0.375)),  # WPA
+    jaw_tip_radius_m=mm(6.0),  # memory, as for the corner
+    back_draft_deg=13.5,  # WPA 12-15 deg
+)
+
+
+def _pool_spots(length: float, width: float) -> tuple[Spot, ...]:
+    # WPA: head string through the second sights (L/4 from the head cushion);
+    # foot spot on the long string L/4 from the foot cushion; centre spot.
+    return (
+        Spot("head spot", length / 4, width / 2),
+        Spot("centre spot", length / 2, width / 2),
+        Spot("foot spot", 3 * length / 4, width / 2),
+    )
+
+
+def _pool_table(name: str, length: float, width: float, tol: float, source: str) -> TableSpec:
+    return TableSpec(
+        name=name,
+        game="pool",
+        length_m=length,
+        width_m=width,
+        size_tolerance_m=tol,
+        ball=_POOL_BALL,
+        cushion=_POOL_CUSHION,
+        cloth=ClothSpec(),
+        corner=_POOL_CORNER,
+        side=_POOL_SIDE,
+        sight_setback_m=inches(3 + 11 / 16),  # WPA: 3 11/16 in from nose to sight centre
+        spots=_pool_spots(length, width),
+        head_string_x_m=length / 4,  # WPA: through the second sights
+        source=source,
+    )
+
+
+# Snooker: the rules give the playing area 11 ft 8.5 in x 5 ft 10 in
+# (3569 x 1778 mm) +- 0.5 in (13 mm); balls 52.5 mm +- 0.05 mm, of equal mass
+# within 3 g (a set near 141 g is usual: memory); baulk line 29 in (737 mm)
+# from the baulk cushion face; the D a semicircle of 11.5 in (292 mm) radius;
+# black spot 12.75 in (324 mm) from the top cushion face.
+_SNOOKER_L, _SNOOKER_W = 3.569, 1.778
+_SNOOKER_BALL = BallSpec(
+    diameter_m=0.0525,  # WSF 52.5 mm
+    mass_kg=0.141,  # memory: sets are near 141 g; the rules fix only the spread
+    diameter_range_m=Range.around(0.0525, 0.00005),  # WSF +- 0.05 mm
+    mass_range_kg=Range(0.138, 0.144),  # memory: within 3 g of the nominal
+    ids=SNOOKER_BALL_IDS,
+)
+
+SNOOKER = TableSpec(
+    name="snooker",
+    game="snooker",
+    length_m=_SNOOKER_L,  # WSF 3569 mm
+    width_m=_SNOOKER_W,  # WSF 1778 mm
+    size_tolerance_m=0.013,  # WSF +- 13 mm
+    ball=_SNOOKER_BALL,
+    cushion=CushionSpec(
+        # memory: the rules do not give a number; the pool proportion (63.5 %
+        # of the ball) is used, which matches snooker cushions to about 1 mm.
+        nose_height_m=0.635 * 0.0525,
+        nose_height_range_m=Range(0.62 * 0.0525, 0.65 * 0.0525),
+        rubber_width_m=0.045,  # memory (drawing only)
+        rail_width_m=0.12,  # memory (drawing only)
+    ),
+    cloth=ClothSpec(),
+    # memory: snooker pockets are set by templates rather than numbers in the
+    # rules; about 86 mm (corner) and 105 mm (middle) between the jaw points,
+    # with strongly rounded jaws. Modelled with straight faces and big tips.
+    corner=PocketSpec(
+        mouth_m=0.086, mouth_range_m=Range(0.083, 0.089),
+        jaw_angle_deg=138.0, jaw_angle_range_deg=Range(135.0, 141.0),
+        shelf_m=0.012, shelf_range_m=Range(0.0, 0.025),
+        jaw_tip_radius_m=0.020, back_draft_deg=0.0,
+    ),
+    side=PocketSpec(
+        mouth_m=0.105, mouth_range_m=Range(0.100, 0.110),
+        jaw_angle_deg=95.0, jaw_angle_range_deg=Range(90.0, 100.0),
+        shelf_m=0.004, shelf_range_m=Range(0.0, 0.010),
+        jaw_tip_radius_m=0.025, back_draft_deg=0.0,
+    ),
+    sight_setback_m=None,  # snooker tables carry no sights
+    spots=(
+        # WSF: brown on the middle of the baulk line, yellow at its right-hand
+        # and green at its left-hand intersection with the D (seen from the
+        # baulk end); blue on the centre spot; pink midway between the centre
+        # spot and the top cushion face; black 324 mm from the top cushion.
+        Spot("yellow", 0.737, _SNOOKER_W / 2 - 0.292),
+        Spot("brown", 0.737, _SNOOKER_W / 2),
+        Spot("green", 0.737, _SNOOKER_W / 2 + 0.292),
+        Spot("blue", _SNOOKER_L / 2, _SNOOKER_W / 2),
+        Spot("pink", 0.75 * _SNOOKER_L, _SNOOKER_W / 2),
+        Spot("black", _SNOOKER_L - 0.324, _SNOOKER_W / 2),
+    ),
+    head_string_x_m=None,
+    baulk_line_x_m=0.737,  # WSF 29 in from the baulk cushion face
+    d_radius_m=0.292,  # WSF 11.5 in
+    source="snooker governing body's rules (WSF); pocket shapes from memory",
+)
+
+# Carom: UMB match table 2.84 x 1.42 m +- 5 mm between the cushion noses;
+# cushion height 37 +- 1 mm; balls 61-61.5 mm, 205-220 g.
+_CAROM_L, _CAROM_W = 2.84, 1.42
+CAROM = TableSpec(
+    name="carom",
+    game="carom",
+    length_m=_CAROM_L,  # UMB 2.84 m
+    width_m=_CAROM_W,  # UMB 1.42 m
+    size_tolerance_m=0.005,  # UMB +- 5 mm
+    ball=BallSpec(
+        diameter_m=0.06125,  # UMB 61-61.5 mm; nominal = middle
+        mass_kg=0.2125,  # UMB 205-220 g; nominal = middle
+        diameter_range_m=Range(0.061, 0.0615),  # UMB
+        mass_range_kg=Range(0.205, 0.220),  # UMB
+        ids=CAROM_BALL_IDS,
+    ),
+    cushion=CushionSpec(
+        nose_height_m=0.037,  # UMB 37 +- 1 mm
+        nose_height_range_m=Range(0.036, 0.038),  # UMB
+        rubber_width_m=0.05,  # memory (drawing only)
+        rail_width_m=0.13,  # memory (drawing only)
+    ),
+    cloth=ClothSpec(),
+    corner=None,
+    side=None,
+    sight_setback_m=inches(3 + 11 / 16),  # memory: sights set back as on pool tables
+    spots=_pool_spots(_CAROM_L, _CAROM_W),  # head, centre and foot spot on the long string
+    head_string_x_m=_CAROM_L / 4,
+    source="carom governing body's equipment rules (UMB)",
+)
+
+PRESETS: dict[str, TableSpec] = {
+    "pool-9ft": _pool_table(
+        "pool-9ft", inches(100), inches(50), inches(1 / 8),  # WPA: 100 x 50 in +- 1/8 in
+        "world pool governing body's tournament table specifications (WPA)",
+    ),
+    "pool-8ft": _pool_table(
+        "pool-8ft", inches(92), inches(46), inches(1 / 8),  # WPA: 92 x 46 in +- 1/8 in
+        "world pool governing body's tournament table specifications (WPA)",
+    ),
+    "pool-7ft": _pool_table(
+        # Not a WPA size. 76 x 38 in is a common 7-ft playing surface (memory);
+        # makers vary between about 74 x 37 and 78 x 39 in: measure and override.
+        "pool-7ft", inches(76), inches(38), inches(0.5),
+        "not a WPA size: a common 7-ft surface (76 x 38 in, makers vary) "
+        "with WPA pockets, balls and cushions",
+    ),
+    "snooker": SNOOKER,
+    "carom": CAROM,
+}
+"""The standard tables by name."""
+
+
+def preset_names() -> list[str]:
+    """Names of the table presets, in the order they are listed."""
+    return list(PRESETS)

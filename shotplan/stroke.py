@@ -1,0 +1,130 @@
+"""A cue stroke as a small value: direction, speed, tip offset, elevation.
+
+The layout file's ``stroke`` object maps onto :class:`Stroke` one to one::
+
+    {"direction_deg": 12.5, "speed_mps": 2.0, "side": 0.0, "height": -0.3,
+     "elevation_deg": 0.0}
+
+Only ``direction_deg`` and ``speed_mps`` are required. Whether a tip offset
+is beyond the miscue limit is the physics' business (it depends on the
+``miscue_limit`` parameter); here only the plain ranges are checked.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass
+from typing import Any
+
+from .errors import StrokeError
+
+__all__ = ["Stroke", "STROKE_KEYS", "speed_word"]
+
+STROKE_KEYS = ("direction_deg", "speed_mps", "side", "height", "elevation_deg")
+"""The keys of a stroke object, in file order."""
+
+MAX_SPEED_MPS = 15.0
+"""Highest launch speed accepted. A hard break is about 11-12 m/s; faster is
+beyond human play (memory: measured breaks of top players reach about 12 m/s)."""
+
+
+@dataclass(frozen=True, slots=True)
+class Stroke:
+    """One stroke of the cue on the cue ball."""
+
+    direction_deg: float
+    """Direction of the cue, degrees counter-clockwise from +x (toward the foot)."""
+    speed_mps: float
+    """Launch speed of the cue ball, m/s."""
+    side: float = 0.0
+    """Tip offset to the side, in ball radii; positive is right english."""
+    height: float = 0.0
+    """Tip offset above centre, in ball radii; positive is follow, negative draw;
+    0.4 gives natural roll."""
+    elevation_deg: float = 0.0
+    """Cue elevation above horizontal, degrees."""
+
+    @classmethod
+    def from_dict(cls, data: Any, where: str = "stroke") -> Stroke:
+        """Build from a stroke object, checking every field; ``where`` names
+        the place for messages (``'drill.json: stations[2].stroke'``)."""
+        if not isinstance(data, Mapping):
+            raise StrokeError(f"{where}: must be an object with direction_deg and speed_mps, "
+                              f"not {type(data).__name__}")
+        unknown = [k for k in data if k not in STROKE_KEYS]
+        if unknown:
+            raise StrokeError(f"{where}: unknown field {unknown[0]!r}, must be one of "
+                              f"{', '.join(STROKE_KEYS)}")
+        for key in ("direction_deg", "speed_mps"):
+            if key not in data:
+                raise StrokeError(f"{where}: missing field {key!r}")
+        values = {}
+        for key in STROKE_KEYS:
+            if key in data:
+                values[key] = _number(data[key], f"{where}.{key}")
+        return cls(**values).checked(where)
+
+    def checked(self, where: str = "stroke") -> Stroke:
+        """Self, after checking the ranges; raises :class:`StrokeError`."""
+        for key in STROKE_KEYS:
+            _number(getattr(self, key), f"{where}.{key}")
+        if not 0.0 < self.speed_mps <= MAX_SPEED_MPS:
+            raise StrokeError(f"{where}.speed_mps: {self.speed_mps!r} is out of range, "
+                              f"must be above 0 and at most {MAX_SPEED_MPS} m/s")
+        for key in ("side", "height"):
+            v = getattr(self, key)
+            if not -1.0 <= v <= 1.0:
+                raise StrokeError(f"{where}.{key}: {v!r} is out of range, must be between -1 "
+                                  "and 1 ball radius")
+        if not 0.0 <= self.elevation_deg <= 60.0:
+            raise StrokeError(f"{where}.elevation_deg: {self.elevation_deg!r} is out of range, "
+                              "must be between 0 and 60 degrees")
+        if abs(self.direction_deg) > 1e6:
+            raise StrokeError(f"{where}.direction_deg: {self.direction_deg!r} is too large")
+        return self
+
+    def to_dict(self) -> dict[str, float]:
+        """The stroke object for a file (every field written)."""
+        return {k: float(getattr(self, k)) for k in STROKE_KEYS}
+
+    def replace(self, **changes: float) -> Stroke:
+        """A copy with some fields changed (checked)."""
+        values = {k: getattr(self, k) for k in STROKE_KEYS}
+        values.update(changes)
+        return Stroke(**values).checked()
+
+    @property
+    def direction(self) -> float:
+        """Direction in radians."""
+        return math.radians(self.direction_deg)
+
+
+def _number(value: Any, where: str) -> float:
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise StrokeError(f"{where}: {value!r} is not a number")
+    value = float(value)
+    if not math.isfinite(value):
+        raise StrokeError(f"{where}: {value!r} is not a finite number")
+    return value
+
+
+# Speed words of the trade, with the launch speeds we take them to mean
+# (common practice, no source; the bands are our own reading of the usual
+# words, about a factor 1.6 apart).
+_SPEED_WORDS = (
+    (0.6, "touch"),
+    (1.2, "slow"),
+    (2.2, "medium"),
+    (3.6, "fast"),
+    (6.0, "power"),
+    (float("inf"), "break"),
+)
+
+
+def speed_word(speed_mps: float) -> str:
+    """The trade's word for a launch speed: touch, slow, medium, fast, power, break."""
+    for limit, word in _SPEED_WORDS:
+        if speed_mps < limit:
+            return word
+    return "break"

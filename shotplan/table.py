@@ -1,0 +1,468 @@
+"""Table geometry: cushion noses, pockets with jaws, the legal region, markings.
+
+Built from a :class:`~shotplan.equipment.TableSpec`. Two views of the same
+geometry are kept side by side and built from the same points:
+
+* analytic primitives for the physics engine: straight nose segments (rails
+  and jaw faces) with their inward normals, rounded jaw tips as circles, and
+  each pocket's drop line (``cushion_lines``, ``tip_circles``, ``drop_lines``);
+* shapely shapes for drawing and for area queries: the bed, the rubber of each
+  cushion with rounded tips, each pocket's throat and hole.
+
+Coordinates (m): origin at the head-end corner on the right, as seen from the
+head end, on the cushion noses; x toward the foot, y toward the left.
+
+Pocket construction (for each jaw of a pocket): the jaw point ``P`` lies on a
+cushion nose line, ``e`` is the nose direction leading away from the pocket and
+``n`` the rail's inward normal. The jaw face leaves ``P`` at the jaw angle
+``alpha`` measured through the rubber, ``f = cos(alpha) e - sin(alpha) n``, and
+runs back to the drop line, which is parallel to the mouth line at the shelf
+depth. The corner between nose and face is rounded with the jaw tip radius
+``r``: the tip circle's centre is ``P + r / sin(alpha/2)`` along the bisector of
+``e`` and ``f``, and it touches both at ``r / tan(alpha/2)`` from ``P``.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import cached_property
+
+import numpy as np
+import shapely
+from shapely.geometry import Point, Polygon
+from shapely.ops import unary_union
+
+from .equipment import PocketSpec, TableSpec
+
+__all__ = ["Pocket", "Table", "POCKET_NAMES", "Jaw"]
+
+POCKET_NAMES: tuple[str, ...] = (
+    "head-right",
+    "head-left",
+    "side-right",
+    "side-left",
+    "foot-right",
+    "foot-left",
+)
+"""Pocket names (trade words) in the order pockets are indexed."""
+
+# Element kinds in Table.cushion_lines[:, 6]
+LINE_RAIL = 0
+LINE_JAW = 1
+
+
+@dataclass(frozen=True, slots=True)
+class Jaw:
+    """One jaw of a pocket (numbers in m, directions as unit vectors)."""
+
+    point: tuple[float, float]
+    """The jaw point: where the face meets the nose line's extension."""
+    rail_dir: tuple[float, float]
+    """Nose direction leading away from the pocket."""
+    normal: tuple[float, float]
+    """The rail's inward normal (into the table)."""
+    face_dir: tuple[float, float]
+    """Direction of the jaw face from the jaw point back into the pocket."""
+    face_end: tuple[float, float]
+    """Where the jaw face meets the drop line."""
+    tip_centre: tuple[float, float]
+    """Centre of the rounded tip."""
+    tip_radius: float
+    """Radius of the rounded tip."""
+    rail_tangent: tuple[float, float]
+    """Where the tip's arc meets the nose."""
+    face_tangent: tuple[float, float]
+    """Where the tip's arc meets the jaw face."""
+    face_normal: tuple[float, float]
+    """Normal of the jaw face pointing out of the rubber into the throat."""
+
+
+@dataclass(frozen=True, slots=True)
+class Pocket:
+    """One pocket: its name, kind, jaws, mouth and drop line."""
+
+    name: str
+    """Trade name (``foot-right``...)."""
+    kind: str
+    """``corner`` or ``side``."""
+    spec: PocketSpec
+    """The spec it was built from."""
+    corner: tuple[float, float]
+    """The point the pocket is named by: the nose lines' corner or the side
+    pocket's centre on the nose line."""
+    axis: tuple[float, float]
+    """Unit vector along the pocket's axis, pointing out of the table."""
+    jaws: tuple[Jaw, Jaw]
+    """The two jaws."""
+
+    @property
+    def mouth_centre(self) -> tuple[float, float]:
+        """Middle of the mouth line (between the jaw points)."""
+        (ax, ay), (bx, by) = self.jaws[0].point, self.jaws[1].point
+        return (0.5 * (ax + bx), 0.5 * (ay + by))
+
+    @property
+    def drop_centre(self) -> tuple[float, float]:
+        """Middle of the drop line."""
+        (ax, ay), (bx, by) = self.jaws[0].face_end, self.jaws[1].face_end
+        return (0.5 * (ax + bx), 0.5 * (ay + by))
+
+    @property
+    def mouth_width_m(self) -> float:
+        """Distance between the jaw points, m."""
+        (ax, ay), (bx, by) = self.jaws[0].point, self.jaws[1].point
+        return math.hypot(ax - bx, ay - by)
+
+    @property
+    def throat(self) -> Polygon:
+        """The region between the mouth line, the jaw faces and the drop line."""
+        j0, j1 = self.jaws
+        return Polygon([j0.point, j1.point, j1.face_end, j0.face_end]).normalize()
+
+    @property
+    def hole(self) -> Polygon:
+        """The opening behind the drop line (drawing and ``pocket_at`` only):
+        a disc whose chord is the drop line."""
+        j0, j1 = self.jaws
+        half = 0.5 * math.dist(j0.face_end, j1.face_end)
+        cx, cy = self.drop_centre
+        ax, ay = self.axis
+        radius = half * 1.05
+        centre = (cx + ax * radius * 0.3, cy + ay * radius * 0.3)
+        return Point(centre).buffer(radius, quad_segs=24)
+
+
+def _unit(x: float, y: float) -> tuple[float, float]:
+    n = math.hypot(x, y)
+    return (x / n, y / n)
+
+
+def _jaw(
+    point: tuple[float, float],
+    rail_dir: tuple[float, float],
+    normal: tuple[float, float],
+    spec: PocketSpec,
+    mouth_centre: tuple[float, float],
+    axis: tuple[float, float],
+) -> Jaw:
+    alpha = math.radians(spec.jaw_angle_deg)
+    ex, ey = rail_dir
+    nx, ny = normal
+    fx, fy = math.cos(alpha) * ex - math.sin(alpha) * nx, math.cos(alpha) * ey - math.sin(alpha) * ny
+    px, py = point
+    ax, ay = axis
+    # Face end: (P + t f - M) . a = shelf
+    along = (px - mouth_centre[0]) * ax + (py - mouth_centre[1]) * ay
+    t_end = (spec.shelf_m - along) / (fx * ax + fy * ay)
+    face_end = (px + t_end * fx, py + t_end * fy)
+    r = spec.jaw_tip_radius_m
+    bx, by = _unit(ex + fx, ey + fy)
+    d_centre = r / math.sin(alpha / 2)
+    d_tangent = r / math.tan(alpha / 2)
+    if d_tangent > t_end:
+        # The shelf is too shallow for the rounding: keep the tip inside the face.
+        d_tangent = t_end
+    tip_centre = (px + bx * d_centre, py + by * d_centre)
+    rail_tangent = (px + ex * d_tangent, py + ey * d_tangent)
+    face_tangent = (px + fx * d_tangent, py + fy * d_tangent)
+    # Face normal out of the rubber: the rubber wedge contains the bisector b.
+    cand = (-fy, fx)
+    if cand[0] * bx + cand[1] * by > 0:
+        cand = (fy, -fx)
+    return Jaw(
+        point=point,
+        rail_dir=rail_dir,
+        normal=normal,
+        face_dir=(fx, fy),
+        face_end=face_end,
+        tip_centre=tip_centre,
+        tip_radius=r,
+        rail_tangent=rail_tangent,
+        face_tangent=face_tangent,
+        face_normal=cand,
+    )
+
+
+def _build_pockets(spec: TableSpec) -> tuple[Pocket, ...]:
+    if spec.corner is None:
+        return ()
+    L, W = spec.length_m, spec.width_m
+    c, s = spec.corner, spec.side
+    j = c.mouth_m / math.sqrt(2.0)
+    # (name, kind, corner, [(jaw point, rail dir, inward normal), ...])
+    layout: list[tuple[str, str, tuple[float, float], list[tuple]]] = [
+        ("head-right", "corner", (0.0, 0.0), [((j, 0.0), (1, 0), (0, 1)), ((0.0, j), (0, 1), (1, 0))]),
+        ("head-left", "corner", (0.0, W), [((0.0, W - j), (0, -1), (1, 0)), ((j, W), (1, 0), (0, -1))]),
+    ]
+    if s is not None:
+        h = s.mouth_m / 2
+        layout += [
+            ("side-right", "side", (L / 2, 0.0),
+             [((L / 2 + h, 0.0), (1, 0), (0, 1)), ((L / 2 - h, 0.0), (-1, 0), (0, 1))]),
+            ("side-left", "side", (L / 2, W),
+             [((L / 2 - h, W), (-1, 0), (0, -1)), ((L / 2 + h, W), (1, 0), (0, -1))]),
+        ]
+    layout += [
+        ("foot-right", "corner", (L, 0.0), [((L, j), (0, 1), (-1, 0)), ((L - j, 0.0), (-1, 0), (0, 1))]),
+        ("foot-left", "corner", (L, W), [((L - j, W), (-1, 0), (0, -1)), ((L, W - j), (0, -1), (-1, 0))]),
+    ]
+    pockets = []
+    for name, kind, corner, jaws in layout:
+        pspec = c if kind == "corner" else s
+        assert pspec is not None  # built above only when present
+        nsum = (sum(n[0] for _, _, n in jaws), sum(n[1] for _, _, n in jaws))
+        axis = _unit(-nsum[0], -nsum[1])
+        mouth_centre = (
+            0.5 * (jaws[0][0][0] + jaws[1][0][0]),
+            0.5 * (jaws[0][0][1] + jaws[1][0][1]),
+        )
+        built = tuple(
+            _jaw(p, (float(e[0]), float(e[1])), (float(n[0]), float(n[1])), pspec, mouth_centre, axis)
+            for p, e, n in jaws
+        )
+        pockets.append(Pocket(name, kind, pspec, corner, axis, (built[0], built[1])))
+    order = {n: i for i, n in enumerate(POCKET_NAMES)}
+    return tuple(sorted(pockets, key=lambda p: order[p.name]))
+
+
+class Table:
+    """The geometry of one table, built from its spec.
+
+    Examples
+    --------
+    >>> t = Table(TableSpec.preset("pool-9ft"))
+    >>> [p.name for p in t.pockets][:2]
+    ['head-right', 'head-left']
+    """
+
+    def __init__(self, spec: TableSpec):
+        self.spec = spec
+        self.length = spec.length_m
+        self.width = spec.width_m
+        self.ball_radius = spec.ball.radius_m
+        self.contact_offset = spec.contact_offset_m
+        self.pockets: tuple[Pocket, ...] = _build_pockets(spec)
+        self._build_elements()
+
+    def __repr__(self) -> str:
+        return f"Table({self.spec!r})"
+
+    # ----------------------------------------------------------- primitives
+    def _build_elements(self) -> None:
+        L, W = self.length, self.width
+        # Rails: (start corner, direction, inward normal, length)
+        rails = [
+            ((0.0, 0.0), (1.0, 0.0), (0.0, 1.0), L),  # right rail, y = 0
+            ((0.0, W), (1.0, 0.0), (0.0, -1.0), L),  # left rail, y = W
+            ((0.0, 0.0), (0.0, 1.0), (1.0, 0.0), W),  # head rail, x = 0
+            ((L, 0.0), (0.0, 1.0), (-1.0, 0.0), W),  # foot rail, x = L
+        ]
+        lines: list[list[float]] = []
+        for origin, d, n, length in rails:
+            # Cut points along this rail: (s, which side of the cut is open)
+            cuts: list[tuple[float, float]] = []
+            for p in self.pockets:
+                for jaw in p.jaws:
+                    if jaw.normal != n:
+                        continue
+                    tx, ty = jaw.rail_tangent
+                    s = (tx - origin[0]) * d[0] + (ty - origin[1]) * d[1]
+                    cuts.append((s, jaw.rail_dir[0] * d[0] + jaw.rail_dir[1] * d[1]))
+            cuts.sort()
+            start = 0.0
+            segments = []
+            open_start = True
+            for s, direction in cuts:
+                if direction < 0:  # nose runs from `start` up to this jaw
+                    if open_start:
+                        segments.append((start, s))
+                    open_start = False
+                else:  # a nose starts here
+                    start, open_start = s, True
+            if open_start:
+                segments.append((start, length))
+            for s0, s1 in segments:
+                lines.append([
+                    origin[0] + d[0] * s0, origin[1] + d[1] * s0,
+                    origin[0] + d[0] * s1, origin[1] + d[1] * s1,
+                    n[0], n[1], LINE_RAIL, -1,
+                ])
+        circles: list[list[float]] = []
+        drops: list[list[float]] = []
+        for k, p in enumerate(self.pockets):
+            for jaw in p.jaws:
+                lines.append([*jaw.face_tangent, *jaw.face_end, *jaw.face_normal, LINE_JAW, k])
+                circles.append([*jaw.tip_centre, jaw.tip_radius, k])
+            a, b = p.jaws[0].face_end, p.jaws[1].face_end
+            drops.append([*a, *b, -p.axis[0], -p.axis[1], k])
+        self.cushion_lines = np.array(lines, dtype=float).reshape(-1, 8)
+        """(K, 8): x0, y0, x1, y1, inward nx, ny, kind (0 rail, 1 jaw face), pocket index or -1."""
+        self.tip_circles = np.array(circles, dtype=float).reshape(-1, 4)
+        """(T, 4): centre x, y, radius, pocket index."""
+        self.drop_lines = np.array(drops, dtype=float).reshape(-1, 7)
+        """(P, 7): x0, y0, x1, y1, normal back toward the table nx, ny, pocket index."""
+
+    def pocket_index(self, name: str) -> int:
+        """Index of the pocket called ``name``."""
+        for k, p in enumerate(self.pockets):
+            if p.name == name:
+                return k
+        names = ", ".join(p.name for p in self.pockets) or "none (this table has no pockets)"
+        raise KeyError(f"{name!r} is not a pocket of this table, must be one of {names}")
+
+    def pocket(self, name: str) -> Pocket:
+        """The pocket called ``name``."""
+        return self.pockets[self.pocket_index(name)]
+
+    # --------------------------------------------------------------- shapes
+    @cached_property
+    def playing_surface(self) -> Polygon:
+        """The rectangle inside the cushion noses."""
+        return shapely.box(0.0, 0.0, self.length, self.width)
+
+    @cached_property
+    def bed(self) -> Polygon:
+        """The cloth a ball's centre can cross: the surface and every pocket's throat."""
+        return unary_union([self.playing_surface, *(p.throat for p in self.pockets)])
+
+    def _rubber_sharp(self) -> list[Polygon]:
+        """Cushion rubbers as polygons with sharp jaw points, one per nose."""
+        w = self.spec.cushion.rubber_width_m
+        if not self.pockets:
+            frame = shapely.box(-w, -w, self.length + w, self.width + w)
+            return [frame.difference(self.playing_surface)]
+        polys = []
+        pocket_jaws = [(jaw, p) for p in self.pockets for jaw in p.jaws]
+        for x0, y0, x1, y1, nx, ny, kind, _k in self.cushion_lines:
+            if kind != LINE_RAIL:
+                continue
+            ends = []
+            for (ex, ey) in ((x0, y0), (x1, y1)):
+                jaw = next(
+                    (j for j, _p in pocket_jaws
+                     if math.dist(j.rail_tangent, (ex, ey)) < 1e-12 and j.normal == (nx, ny)),
+                    None,
+                )
+                ends.append(jaw)
+            a0 = ends[0].point if ends[0] else (x0, y0)
+            a1 = ends[1].point if ends[1] else (x1, y1)
+            back = []
+            for jaw, pt in ((ends[1], a1), (ends[0], a0)):
+                if jaw is None:
+                    back.append((pt[0] - nx * w, pt[1] - ny * w))
+                else:
+                    t = w / math.sin(math.radians(jaw_angle(jaw)))
+                    back.append((pt[0] + jaw.face_dir[0] * t, pt[1] + jaw.face_dir[1] * t))
+            poly = Polygon([a0, a1, back[0], back[1]])
+            polys.append(poly.normalize())
+        return polys
+
+    @cached_property
+    def cushions(self) -> list[Polygon]:
+        """Cushion rubbers with rounded jaw tips (shapely), one per nose segment."""
+        out = []
+        r_tip = min((p.spec.jaw_tip_radius_m for p in self.pockets), default=0.0)
+        for poly in self._rubber_sharp():
+            if r_tip > 0:
+                # Round the convex corners with the tip radius: an opening then a
+                # closing by r leaves an arc of radius r tangent to both edges.
+                radius = r_tip
+                poly = poly.buffer(-radius, join_style="mitre").buffer(radius, quad_segs=32)
+            out.append(poly)
+        return out
+
+    @cached_property
+    def legal_region(self) -> Polygon:
+        """Where a ball's centre may lie (approximate arcs; queries use the exact test)."""
+        solids = unary_union(self.cushions).buffer(self.contact_offset, quad_segs=16)
+        return self.bed.difference(solids)
+
+    # -------------------------------------------------------------- markings
+    def diamonds(self) -> np.ndarray:
+        """(M, 2) sight positions, set back from the noses; empty without sights."""
+        setback = self.spec.sight_setback_m
+        if setback is None:
+            return np.zeros((0, 2))
+        L, W = self.length, self.width
+        pts = []
+        for k in range(1, 8):
+            if k == 4 and self.spec.side is not None:
+                continue  # the side pocket stands where the middle sight would
+            x = k * L / 8
+            pts += [(x, -setback), (x, W + setback)]
+        for k in range(1, 4):
+            y = k * W / 4
+            pts += [(-setback, y), (L + setback, y)]
+        return np.array(pts, dtype=float)
+
+    def strings(self) -> list[tuple[str, tuple[float, float], tuple[float, float]]]:
+        """Named lines across the table: (name, start, end)."""
+        out = []
+        if self.spec.head_string_x_m is not None:
+            x = self.spec.head_string_x_m
+            out.append(("head string", (x, 0.0), (x, self.width)))
+        if self.spec.baulk_line_x_m is not None:
+            x = self.spec.baulk_line_x_m
+            out.append(("baulk line", (x, 0.0), (x, self.width)))
+        return out
+
+    def spot(self, name: str) -> tuple[float, float]:
+        """Position of the named spot."""
+        for s in self.spec.spots:
+            if s.name == name:
+                return (s.x, s.y)
+        raise KeyError(f"{name!r} is not a spot of this table")
+
+    # --------------------------------------------------------------- queries
+    def nose_distance(self, points: np.ndarray) -> np.ndarray:
+        """Distance from each point (N, 2) to the nearest cushion nose or jaw, m.
+
+        Exact: the nose segments and the tip discs, not a polygon approximation.
+        """
+        pts = np.asarray(points, dtype=float).reshape(-1, 2)
+        best = np.full(len(pts), np.inf)
+        for x0, y0, x1, y1, *_ in self.cushion_lines:
+            best = np.minimum(best, _segment_distance(pts, x0, y0, x1, y1))
+        for cx, cy, r, _k in self.tip_circles:
+            best = np.minimum(best, np.maximum(np.hypot(pts[:, 0] - cx, pts[:, 1] - cy) - r, 0.0))
+        return best
+
+    def cushion_clearance(self, points: np.ndarray) -> np.ndarray:
+        """Gap between a ball at each point and the nearest cushion, m (< 0: overlapping)."""
+        return self.nose_distance(points) - self.contact_offset
+
+    def is_legal(self, points: np.ndarray, tol: float = 1e-9) -> np.ndarray:
+        """Whether a ball's centre may lie at each point (N, 2): on the bed, before
+        any drop line, and clear of every cushion and jaw."""
+        pts = np.asarray(points, dtype=float).reshape(-1, 2)
+        finite = np.all(np.isfinite(pts), axis=1)
+        safe = np.where(finite[:, None], pts, 0.0)
+        on_bed = shapely.contains_xy(self.bed, safe[:, 0], safe[:, 1])
+        clear = self.cushion_clearance(safe) >= -tol
+        return finite & on_bed & clear
+
+    def pocket_at(self, points: np.ndarray) -> np.ndarray:
+        """Index of the pocket each point lies in (past its mouth line), or -1."""
+        pts = np.asarray(points, dtype=float).reshape(-1, 2)
+        out = np.full(len(pts), -1, dtype=int)
+        for k, p in enumerate(self.pockets):
+            area = p.throat.union(p.hole)
+            inside = shapely.contains_xy(area, pts[:, 0], pts[:, 1])
+            out[(out < 0) & inside] = k
+        return out
+
+
+def jaw_angle(jaw: Jaw) -> float:
+    """The angle between a jaw's nose direction and its face, degrees."""
+    c = jaw.rail_dir[0] * jaw.face_dir[0] + jaw.rail_dir[1] * jaw.face_dir[1]
+    return math.degrees(math.acos(max(-1.0, min(1.0, c))))
+
+
+def _segment_distance(pts: np.ndarray, x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
+    dx, dy = x1 - x0, y1 - y0
+    L2 = dx * dx + dy * dy
+    if L2 == 0:
+        return np.hypot(pts[:, 0] - x0, pts[:, 1] - y0)
+    t = np.clip(((pts[:, 0] - x0) * dx + (pts[:, 1] - y0) * dy) / L2, 0.0, 1.0)
+    return np.hypot(pts[:, 0] - (x0 + t * dx), pts[:, 1] - (y0 + t * dy))
