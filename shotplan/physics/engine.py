@@ -1,0 +1,246 @@
+"""The event loop: jump from event to event until every ball is still.
+
+Each ball has a reference time, and its position, velocity and spin at that
+time; between events its motion is closed-form (:mod:`.motion`). The loop
+keeps, for every ball, the time of its next event of its own (change of state,
+cushion, jaw, drop) and, for every pair, the time of their next contact. After
+an event only the balls it changed get new times, and only the pairs that
+contain them (Leckie & Greenspan 2005 describe this scheme).
+
+Output goes into preallocated arrays: an event log and, for every change of a
+ball's motion, a *segment* (start time, ball, state, position, velocity,
+spin) from which any instant can be evaluated again.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from .collide import ball_ball, ball_cushion
+from .events import own_event, pair_contact_time
+from .jit import jit
+from .motion import advance, classify
+from .state import (
+    EV_COLLISION,
+    EV_CUSHION,
+    EV_JAW,
+    EV_POCKET,
+    P_E_B,
+    P_E_C,
+    P_E_C_SLOPE,
+    P_E_J,
+    P_MU_B,
+    P_MU_C,
+    P_MU_J,
+    POCKETED,
+    ROLLING,
+    SLIDING,
+)
+
+__all__ = ["run_events"]
+
+STATUS_DONE = 0
+STATUS_MAX_EVENTS = 1
+
+JAM_EVENTS = 64
+"""Events at (nearly) one instant after which the balls involved are taken as
+jammed and stopped (an inelastic collapse: infinitely many ever-smaller
+impacts in finite time, as between a jaw tip and a jaw face)."""
+
+
+@jit
+def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state, seg_pos, seg_vel,
+                    seg_om, n_seg):  # type: ignore[no-untyped-def]
+    if n_seg >= seg_t.shape[0]:
+        return n_seg
+    seg_t[n_seg] = t
+    seg_ball[n_seg] = i
+    seg_state[n_seg] = st[i]
+    seg_pos[n_seg, 0] = pos[i, 0]
+    seg_pos[n_seg, 1] = pos[i, 1]
+    seg_vel[n_seg, 0] = vel[i, 0]
+    seg_vel[n_seg, 1] = vel[i, 1]
+    seg_om[n_seg, 0] = om[i, 0]
+    seg_om[n_seg, 1] = om[i, 1]
+    seg_om[n_seg, 2] = om[i, 2]
+    return n_seg + 1
+
+
+@jit
+def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
+                  own_t, own_kind, own_elem, trans_t):  # type: ignore[no-untyped-def]
+    if st[i] == POCKETED:
+        own_t[i] = math.inf
+        own_kind[i] = 0
+        own_elem[i] = -1
+        trans_t[i] = math.inf
+        return
+    te, kind, elem, tt = own_event(i, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
+    own_t[i] = te
+    own_kind[i] = kind
+    own_elem[i] = elem
+    trans_t[i] = tt
+
+
+@jit
+def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  # type: ignore[no-untyped-def]
+    a = min(i, j)
+    b = max(i, j)
+    if st[a] == POCKETED or st[b] == POCKETED:
+        pair_t[a, b] = math.inf
+        return
+    ma = st[a] == SLIDING or st[a] == ROLLING
+    mb = st[b] == SLIDING or st[b] == ROLLING
+    if not (ma or mb):
+        pair_t[a, b] = math.inf
+        return
+    ha = trans_t[a] if ma else math.inf
+    hb = trans_t[b] if mb else math.inf
+    horizon = min(ha, hb) - t
+    pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
+
+
+@jit
+def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
+               ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b,
+               seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om):  # type: ignore[no-untyped-def]
+    """Run the simulation from t = 0 (arrays changed in place).
+
+    Returns (number of events, number of segments, status). ``st`` must hold
+    POCKETED for balls out of play; other states are set from the motion.
+    """
+    n = pos.shape[0]
+    tref = np.zeros(n)
+    own_t = np.full(n, math.inf)
+    own_kind = np.zeros(n, dtype=np.int64)
+    own_elem = np.full(n, -1, dtype=np.int64)
+    trans_t = np.full(n, math.inf)
+    pair_t = np.full((n, n), math.inf)
+    buf = np.zeros(8)
+    n_seg = 0
+    for i in range(n):
+        classify(i, vel, om, st, prm)
+        n_seg = _record_segment(i, 0.0, pos, vel, om, st, seg_t, seg_ball, seg_state, seg_pos,
+                                seg_vel, seg_om, n_seg)
+    for i in range(n):
+        _refresh_ball(i, 0.0, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
+                      own_t, own_kind, own_elem, trans_t)
+    for i in range(n):
+        for j in range(i + 1, n):
+            _refresh_pair(i, j, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+
+    e_b = prm[P_E_B]
+    mu_b = prm[P_MU_B]
+    n_ev = 0
+    t_last = 0.0
+    same_instant = 0
+    status = STATUS_DONE
+    while True:
+        # Earliest event
+        t_best = math.inf
+        a = -1
+        b = -1
+        for i in range(n):
+            if own_t[i] < t_best:
+                t_best = own_t[i]
+                a = i
+                b = -1
+        for i in range(n):
+            for j in range(i + 1, n):
+                if pair_t[i, j] < t_best:
+                    t_best = pair_t[i, j]
+                    a = i
+                    b = j
+        if a < 0 or math.isinf(t_best):
+            break
+        if n_ev >= max_events:
+            status = STATUS_MAX_EVENTS
+            break
+        t = max(t_best, t_last)
+        if t - t_last <= 1e-12:
+            same_instant += 1
+        else:
+            same_instant = 0
+        t_last = t
+        kind = 0
+        elem = -1
+        if b >= 0:
+            advance(a, t, pos, vel, om, st, tref, prm)
+            advance(b, t, pos, vel, om, st, tref, prm)
+            ball_ball(a, b, pos, vel, om, prm, e_b, mu_b)
+            kind = EV_COLLISION
+        else:
+            advance(a, t, pos, vel, om, st, tref, prm)
+            kind = own_kind[a]
+            elem = own_elem[a]
+            if kind == EV_CUSHION or kind == EV_JAW:
+                if elem >= 1000000:
+                    k = elem - 1000000
+                    hx = pos[a, 0] - circles[k, 0]
+                    hy = pos[a, 1] - circles[k, 1]
+                    hn = math.hypot(hx, hy)
+                    hx /= hn
+                    hy /= hn
+                else:
+                    hx = lines[elem, 4]
+                    hy = lines[elem, 5]
+                if kind == EV_CUSHION:
+                    ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_C], prm[P_E_C_SLOPE],
+                                 prm[P_MU_C])
+                else:
+                    ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_J], prm[P_E_C_SLOPE],
+                                 prm[P_MU_J])
+            elif kind == EV_POCKET:
+                st[a] = POCKETED
+                vel[a, 0] = 0.0
+                vel[a, 1] = 0.0
+                om[a, 0] = 0.0
+                om[a, 1] = 0.0
+                om[a, 2] = 0.0
+        if same_instant >= JAM_EVENTS:
+            # Jammed: stop the balls of this event where they are.
+            vel[a, 0] = 0.0
+            vel[a, 1] = 0.0
+            om[a, 0] = 0.0
+            om[a, 1] = 0.0
+            om[a, 2] = 0.0
+            if b >= 0:
+                vel[b, 0] = 0.0
+                vel[b, 1] = 0.0
+                om[b, 0] = 0.0
+                om[b, 1] = 0.0
+                om[b, 2] = 0.0
+            same_instant = 0
+        classify(a, vel, om, st, prm)
+        if b >= 0:
+            classify(b, vel, om, st, prm)
+        ev_t[n_ev] = t
+        ev_kind[n_ev] = kind
+        ev_a[n_ev] = a
+        ev_b[n_ev] = b
+        ev_elem[n_ev] = elem
+        ev_seg_a[n_ev] = n_seg
+        n_seg = _record_segment(a, t, pos, vel, om, st, seg_t, seg_ball, seg_state, seg_pos,
+                                seg_vel, seg_om, n_seg)
+        if b >= 0:
+            ev_seg_b[n_ev] = n_seg
+            n_seg = _record_segment(b, t, pos, vel, om, st, seg_t, seg_ball, seg_state,
+                                    seg_pos, seg_vel, seg_om, n_seg)
+        else:
+            ev_seg_b[n_ev] = -1
+        n_ev += 1
+        # New times for the changed balls and their pairs
+        _refresh_ball(a, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
+                      own_t, own_kind, own_elem, trans_t)
+        if b >= 0:
+            _refresh_ball(b, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
+                          own_t, own_kind, own_elem, trans_t)
+        for k in range(n):
+            if k != a:
+                _refresh_pair(a, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+            if b >= 0 and k != b and k != a:
+                _refresh_pair(b, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+    # Bring every ball to its final state at the end time.
+    return n_ev, n_seg, status

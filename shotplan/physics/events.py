@@ -1,0 +1,199 @@
+"""Next-event times as first roots of polynomials in time.
+
+Between events every ball moves on ``r(t) = r0 + v0 t + a t^2 / 2``, so
+
+* two balls touch when ``|dr(t)|^2 - (2R)^2 = 0``: a quartic;
+* a ball meets a straight nose (rail or jaw face) when its signed distance to
+  the nose line equals the contact offset: a quadratic (then checked to lie
+  within the segment);
+* a ball meets a rounded jaw tip when ``|r(t) - c|^2 - (rho + R_eff)^2 = 0``:
+  a quartic;
+* a ball falls when its centre crosses a pocket's drop line: a quadratic.
+
+Each search runs on ``[0, horizon]``, the horizon being the next change of
+state of the ball(s) (past it the quadratic no longer describes the motion).
+A cheap bound on the distance a ball can travel in the horizon skips the
+polynomial for anything out of reach.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from .jit import jit
+from .motion import linear_accel, state_at
+from .roots import first_down_crossing
+from .state import (
+    EV_CUSHION,
+    EV_JAW,
+    EV_POCKET,
+    EV_REST,
+    EV_ROLLING,
+    EV_SPINNING,
+    P_R,
+    P_REFF,
+    ROLLING,
+    SLIDING,
+    SPINNING,
+)
+
+__all__ = ["pair_contact_time", "own_event"]
+
+
+@jit
+def _reach(vx, vy, ax, ay, h):  # type: ignore[no-untyped-def]
+    """Upper bound on the distance travelled in time h."""
+    return math.hypot(vx, vy) * h + 0.5 * math.hypot(ax, ay) * h * h
+
+
+@jit
+def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  # type: ignore[no-untyped-def]
+    """Absolute time balls i and j next come into contact before
+    ``t_now + horizon``, or ``inf``."""
+    xi, yi, vxi, vyi, wxi, wyi, _ = state_at(i, t_now, pos, vel, om, st, tref, prm)
+    xj, yj, vxj, vyj, wxj, wyj, _ = state_at(j, t_now, pos, vel, om, st, tref, prm)
+    si = st[i]
+    sj = st[j]
+    mi = si == SLIDING or si == ROLLING
+    mj = sj == SLIDING or sj == ROLLING
+    if not (mi or mj):
+        return math.inf
+    axi, ayi = linear_accel(si, vxi, vyi, wxi, wyi, prm) if mi else (0.0, 0.0)
+    axj, ayj = linear_accel(sj, vxj, vyj, wxj, wyj, prm) if mj else (0.0, 0.0)
+    if not mi:
+        vxi = vyi = 0.0
+    if not mj:
+        vxj = vyj = 0.0
+    D = 2.0 * prm[P_R]
+    px = xj - xi
+    py = yj - yi
+    qx = vxj - vxi
+    qy = vyj - vyi
+    bx = 0.5 * (axj - axi)
+    by = 0.5 * (ayj - ayi)
+    gap = math.hypot(px, py) - D
+    h = horizon
+    if math.isinf(h):
+        h = 1e6
+    if gap > _reach(qx, qy, 2.0 * bx, 2.0 * by, h) + 1e-12:
+        return math.inf
+    c = np.empty(5)
+    c[0] = px * px + py * py - D * D
+    c[1] = 2.0 * (px * qx + py * qy)
+    c[2] = qx * qx + qy * qy + 2.0 * (px * bx + py * by)
+    c[3] = 2.0 * (qx * bx + qy * by)
+    c[4] = bx * bx + by * by
+    t = first_down_crossing(c, 4, h, buf)
+    return t_now + t
+
+
+@jit
+def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf):  # type: ignore[no-untyped-def]
+    """Ball i's next event of its own: (absolute time, kind, element index,
+    absolute time of its next change of state). ``t_now`` must equal the
+    ball's reference time. Element: line index for cushion/jaw faces,
+    1000000 + circle index for jaw tips, pocket index for a drop."""
+    s = st[i]
+    R = prm[P_R]
+    if s == SPINNING:
+        dt = abs(om[i, 2]) / (2.5 * prm[5] * prm[2] / R)
+        return t_now + dt, EV_REST, -1, t_now + dt
+    if not (s == SLIDING or s == ROLLING):
+        return math.inf, 0, -1, math.inf
+    vx, vy = vel[i, 0], vel[i, 1]
+    wx, wy, wz = om[i, 0], om[i, 1], om[i, 2]
+    ax, ay = linear_accel(s, vx, vy, wx, wy, prm)
+    # State transition
+    if s == SLIDING:
+        ux = vx - R * wy
+        uy = vy + R * wx
+        dt_tr = 2.0 * math.hypot(ux, uy) / (7.0 * prm[3] * prm[2])
+        # Velocity when the slip ends: rolls on, or stops there.
+        ex = vx + ax * dt_tr
+        ey = vy + ay * dt_tr
+        if math.hypot(ex, ey) > 1e-9:
+            kind_tr = EV_ROLLING
+        else:
+            wz_end = abs(wz) - 2.5 * prm[5] * prm[2] / R * dt_tr
+            kind_tr = EV_SPINNING if wz_end > 1e-7 else EV_REST
+    else:
+        dt_tr = math.hypot(vx, vy) / (prm[4] * prm[2])
+        wz_end = abs(wz) - 2.5 * prm[5] * prm[2] / R * dt_tr
+        kind_tr = EV_SPINNING if wz_end > 1e-7 else EV_REST
+    best = dt_tr
+    kind = kind_tr
+    elem = -1
+    reff = prm[P_REFF]
+    x, y = pos[i, 0], pos[i, 1]
+    reach = _reach(vx, vy, ax, ay, dt_tr) + 1e-9
+    c = np.empty(5)
+    # Straight noses: rails and jaw faces
+    for k in range(lines.shape[0]):
+        x0, y0, x1, y1 = lines[k, 0], lines[k, 1], lines[k, 2], lines[k, 3]
+        nx, ny = lines[k, 4], lines[k, 5]
+        dist = (x - x0) * nx + (y - y0) * ny - reff
+        if dist > reach or dist < -reff:
+            continue  # out of reach, or behind this nose (elsewhere on the table)
+        c[0] = dist
+        c[1] = vx * nx + vy * ny
+        c[2] = 0.5 * (ax * nx + ay * ny)
+        h = min(best, dt_tr)
+        t = first_down_crossing(c, 2, h, buf)
+        if t < best:
+            # Within the segment?
+            px = x + vx * t + 0.5 * ax * t * t
+            py = y + vy * t + 0.5 * ay * t * t
+            dx, dy = x1 - x0, y1 - y0
+            L2 = dx * dx + dy * dy
+            s_along = ((px - x0) * dx + (py - y0) * dy) / L2
+            if 0.0 <= s_along <= 1.0:
+                best = t
+                kind = EV_CUSHION if lines[k, 6] == 0.0 else EV_JAW
+                elem = k
+    # Rounded jaw tips
+    for k in range(circles.shape[0]):
+        cx, cy, rho = circles[k, 0], circles[k, 1], circles[k, 2]
+        qx = x - cx
+        qy = y - cy
+        rr = rho + reff
+        if math.hypot(qx, qy) - rr > reach:
+            continue
+        bx = 0.5 * ax
+        by = 0.5 * ay
+        c[0] = qx * qx + qy * qy - rr * rr
+        c[1] = 2.0 * (qx * vx + qy * vy)
+        c[2] = vx * vx + vy * vy + 2.0 * (qx * bx + qy * by)
+        c[3] = 2.0 * (vx * bx + vy * by)
+        c[4] = bx * bx + by * by
+        t = first_down_crossing(c, 4, best, buf)
+        if t < best:
+            best = t
+            kind = EV_JAW
+            elem = 1000000 + k
+    # Drop lines
+    for k in range(drops.shape[0]):
+        x0, y0, x1, y1 = drops[k, 0], drops[k, 1], drops[k, 2], drops[k, 3]
+        nx, ny = drops[k, 4], drops[k, 5]
+        dist = (x - x0) * nx + (y - y0) * ny
+        if dist > reach:
+            continue
+        dx, dy = x1 - x0, y1 - y0
+        L2 = dx * dx + dy * dy
+        s0 = ((x - x0) * dx + (y - y0) * dy) / L2
+        if s0 < -1.0 or s0 > 2.0:
+            continue  # far to the side: another part of the table
+        c[0] = dist
+        c[1] = vx * nx + vy * ny
+        c[2] = 0.5 * (ax * nx + ay * ny)
+        t = first_down_crossing(c, 2, best, buf)
+        if t < best:
+            px = x + vx * t + 0.5 * ax * t * t
+            py = y + vy * t + 0.5 * ay * t * t
+            s_along = ((px - x0) * dx + (py - y0) * dy) / L2
+            if -0.05 <= s_along <= 1.05:
+                best = t
+                kind = EV_POCKET
+                elem = int(drops[k, 6])
+    return t_now + best, kind, elem, t_now + dt_tr

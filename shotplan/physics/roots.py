@@ -1,0 +1,211 @@
+"""Real roots of polynomials of degree <= 4 on an interval, robustly.
+
+Every event time in the engine is the first root of a polynomial in time on
+``[0, horizon]``: a quadratic for a straight cushion or a drop line, a quartic
+for two balls or a ball and a rounded jaw tip. Closed-form quartic formulas
+lose accuracy exactly where it matters (grazing contacts, double roots, a
+leading coefficient near zero when two balls roll side by side), so the roots
+are isolated instead:
+
+1. leading coefficients that are negligible over the interval are dropped
+   (the polynomial then *is* of lower degree there, to rounding);
+2. the critical points (roots of the derivative, found the same way one
+   degree down) split the interval into pieces on which the polynomial is
+   monotonic;
+3. each piece whose ends differ in sign holds exactly one root, found by
+   Newton steps safeguarded by bisection to full double precision.
+
+A double root that only touches zero is a tangency, not a crossing; the
+contact search (:func:`first_down_crossing`) skips it, because a ball that
+grazes without approaching exchanges no impulse. Coefficients are stored
+lowest degree first: ``c[0] + c[1] t + ... + c[n] t^n``.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from .jit import jit
+
+__all__ = ["poly_eval", "real_roots", "first_down_crossing"]
+
+
+@jit
+def poly_eval(c, n, t):  # type: ignore[no-untyped-def]
+    """Value of ``c[0] + ... + c[n] t^n`` at ``t`` (Horner)."""
+    acc = c[n]
+    for k in range(n - 1, -1, -1):
+        acc = acc * t + c[k]
+    return acc
+
+
+@jit
+def _deriv_eval(c, n, t):  # type: ignore[no-untyped-def]
+    acc = n * c[n]
+    for k in range(n - 1, 0, -1):
+        acc = acc * t + k * c[k]
+    return acc if n > 0 else 0.0
+
+
+@jit
+def _effective_degree(c, n, lo, hi):  # type: ignore[no-untyped-def]
+    """Degree after dropping leading terms negligible on [lo, hi]."""
+    h = max(abs(lo), abs(hi), 1e-300)
+    while n > 0:
+        lead = abs(c[n]) * h**n
+        rest = 0.0
+        for k in range(n):
+            rest += abs(c[k]) * h**k
+        if lead > 1e-14 * rest:
+            break
+        n -= 1
+    return n
+
+
+@jit
+def _refine(c, n, a, b, fa):  # type: ignore[no-untyped-def]
+    """The root in [a, b] of a polynomial monotonic there, p(a) and p(b) of
+    opposite signs (fa = p(a)). Newton safeguarded by bisection."""
+    x = 0.5 * (a + b)
+    for _ in range(200):
+        fx = poly_eval(c, n, x)
+        if fx == 0.0:
+            return x
+        if (fx < 0.0) == (fa < 0.0):
+            a = x
+            fa = fx
+        else:
+            b = x
+        width = b - a
+        if width <= 4.0 * 2.220446049250313e-16 * max(abs(a), abs(b)) or width <= 1e-300:
+            return 0.5 * (a + b)
+        d = _deriv_eval(c, n, x)
+        xn = x - fx / d if d != 0.0 else 0.5 * (a + b)
+        if not (a < xn < b):
+            xn = 0.5 * (a + b)
+        elif abs(xn - x) <= 2.220446049250313e-16 * max(abs(x), 1e-300):
+            return xn
+        x = xn
+    return x
+
+
+@jit
+def _roots_upto2(c, n, lo, hi, out, k0):  # type: ignore[no-untyped-def]
+    """Roots of a polynomial of degree <= 2 in [lo, hi], appended at out[k0:]."""
+    k = k0
+    if n == 0:
+        return k
+    if n == 1:
+        if c[1] != 0.0:
+            t = -c[0] / c[1]
+            if lo <= t <= hi:
+                out[k] = t
+                k += 1
+        return k
+    a2, a1, a0 = c[2], c[1], c[0]
+    disc = a1 * a1 - 4.0 * a2 * a0
+    if disc < 0.0:
+        return k
+    sq = math.sqrt(disc)
+    # Stable quadratic formula: no cancellation in either root.
+    q = -0.5 * (a1 + sq) if a1 >= 0.0 else -0.5 * (a1 - sq)
+    r1 = q / a2
+    r2 = a0 / q if q != 0.0 else r1
+    if r1 > r2:
+        r1, r2 = r2, r1
+    if lo <= r1 <= hi:
+        out[k] = r1
+        k += 1
+    if r2 != r1 and lo <= r2 <= hi:
+        out[k] = r2
+        k += 1
+    return k
+
+
+@jit
+def _roots_by_isolation(c, n, lo, hi, crit, ncrit, out, k0):  # type: ignore[no-untyped-def]
+    """Roots in [lo, hi] given the sorted critical points crit[:ncrit] inside."""
+    k = k0
+    a = lo
+    fa = poly_eval(c, n, a)
+    if fa == 0.0:
+        out[k] = a
+        k += 1
+    for idx in range(ncrit + 1):
+        b = crit[idx] if idx < ncrit else hi
+        if b <= a:
+            continue
+        fb = poly_eval(c, n, b)
+        if fb == 0.0:
+            out[k] = b
+            k += 1
+        elif fa != 0.0 and (fa < 0.0) != (fb < 0.0):
+            out[k] = _refine(c, n, a, b, fa)
+            k += 1
+        a = b
+        fa = fb
+    return k
+
+
+@jit
+def real_roots(c, n, lo, hi, out):  # type: ignore[no-untyped-def]
+    """All real roots of ``c[0..n]`` (n <= 4) in ``[lo, hi]``, sorted, into
+    ``out`` (length >= 4). Returns how many. Touching (double) roots are
+    reported where the polynomial reaches zero exactly or changes sign."""
+    n = _effective_degree(c, n, lo, hi)
+    if n <= 2:
+        return _roots_upto2(c, n, lo, hi, out, 0)
+    # Derivative and its critical points (one degree down, same method).
+    d = np.zeros(4)
+    for j in range(n):
+        d[j] = (j + 1) * c[j + 1]
+    crit = np.zeros(4)
+    nd = _effective_degree(d, n - 1, lo, hi)
+    if nd <= 2:
+        ncrit = _roots_upto2(d, nd, lo, hi, crit, 0)
+    else:
+        dd = np.zeros(4)
+        for j in range(nd):
+            dd[j] = (j + 1) * d[j + 1]
+        crit2 = np.zeros(4)
+        ndd = _effective_degree(dd, nd - 1, lo, hi)
+        nc2 = _roots_upto2(dd, ndd, lo, hi, crit2, 0)
+        ncrit = _roots_by_isolation(d, nd, lo, hi, crit2, nc2, crit, 0)
+    k = _roots_by_isolation(c, n, lo, hi, crit, ncrit, out, 0)
+    # Drop duplicates from zeros found at piece ends.
+    m = 0
+    for i in range(k):
+        if m == 0 or out[i] != out[m - 1]:
+            out[m] = out[i]
+            m += 1
+    return m
+
+
+@jit
+def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
+    """First time in ``[0, horizon]`` where ``p`` goes from positive to <= 0.
+
+    ``p`` is a gap function (distance minus contact distance, or its square
+    form): positive apart, zero in contact. If ``p(0) <= 0`` and ``p'(0) < 0``
+    the contact is now (0.0). A start at ``p(0) <= 0`` moving apart (just after
+    an impact) is not a crossing. Returns ``inf`` when there is none.
+    """
+    if c[0] <= 0.0 and c[1] < 0.0:
+        return 0.0
+    if not horizon > 0.0:
+        return math.inf
+    k = real_roots(c, n, 0.0, horizon, out)
+    for i in range(k):
+        t = out[i]
+        # Classify the crossing by the sign just after the root, within the
+        # piece: the derivative at the root, or the value a little later.
+        d = _deriv_eval(c, n, t)
+        if d < 0.0:
+            return t
+        if d == 0.0:
+            later = min(horizon, t + 1e-9 * max(1.0, horizon))
+            if poly_eval(c, n, later) < 0.0:
+                return t
+    return math.inf

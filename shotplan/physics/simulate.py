@@ -1,0 +1,491 @@
+"""``simulate(layout, stroke, physics) -> Outcome``: the engine's Python face.
+
+:class:`Simulator` holds what does not change between runs on one table
+(geometry arrays, parameters) so that the shot search and the Monte Carlo
+drills can call it thousands of times cheaply; :func:`simulate` is the plain
+call for the common case. :class:`Outcome` keeps the event log and the
+piecewise-polynomial trajectories, which can be sampled at any time.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from ..errors import LayoutError, StrokeError
+from ..stroke import Stroke
+from ..table import Table
+from .engine import STATUS_DONE, run_events
+from .jit import jit
+from .motion import state_at
+from .params import Physics
+from .state import (
+    N_PARAMS,
+    P_E_B,
+    P_E_C,
+    P_E_C_SLOPE,
+    P_E_J,
+    P_G,
+    P_M,
+    P_MU_B,
+    P_MU_C,
+    P_MU_J,
+    P_MU_R,
+    P_MU_S,
+    P_MU_SP,
+    P_R,
+    P_REFF,
+    P_SIN_NOSE,
+    POCKETED,
+    SLIDING,
+    EventKind,
+    MotionState,
+)
+from .strike import Launch, launch
+
+if TYPE_CHECKING:  # pragma: no cover
+    from ..equipment import TableSpec
+
+__all__ = ["Simulator", "Outcome", "Event", "BallState", "simulate", "simulator_for"]
+
+_RAIL_NAMES = {(0, 1): "right rail", (0, -1): "left rail", (1, 0): "head rail", (-1, 0): "foot rail"}
+
+
+@dataclass(frozen=True, slots=True)
+class BallState:
+    """A ball's state at one instant (SI units)."""
+
+    x: float
+    """Position along the length, m."""
+    y: float
+    """Position across, m."""
+    vx: float
+    """Velocity, m/s."""
+    vy: float
+    """Velocity, m/s."""
+    wx: float
+    """Angular velocity about x, rad/s."""
+    wy: float
+    """Angular velocity about y, rad/s."""
+    wz: float
+    """Angular velocity about the vertical, rad/s (+ is counter-clockwise from above)."""
+    state: MotionState
+    """Motion state from this instant on."""
+
+    def to_dict(self) -> dict[str, float]:
+        """The ``{"x", "y", "vx", "vy", "wx", "wy", "wz"}`` object of the JSON output."""
+        return {"x": self.x, "y": self.y, "vx": self.vx, "vy": self.vy,
+                "wx": self.wx, "wy": self.wy, "wz": self.wz}
+
+
+@dataclass(frozen=True, slots=True)
+class Event:
+    """One event of a simulation."""
+
+    t: float
+    """Time from the strike, s."""
+    kind: EventKind
+    """What happened."""
+    balls: tuple[str, ...]
+    """Ids of the balls involved (two for a collision)."""
+    where: str
+    """Pocket or rail involved (``foot-right``, ``foot rail``), or ``""``."""
+    states: tuple[BallState, ...]
+    """State right after the event of each ball in ``balls``."""
+
+    def to_dict(self) -> dict[str, Any]:
+        """The event object of the JSON output."""
+        d: dict[str, Any] = {
+            "t": self.t,
+            "kind": self.kind.word,
+            "balls": {b: s.to_dict() for b, s in zip(self.balls, self.states, strict=True)},
+        }
+        if self.where:
+            d["where"] = self.where
+        return d
+
+
+def _params_vector(table: Table, physics: Physics) -> np.ndarray:
+    spec = table.spec
+    R = spec.ball.radius_m
+    prm = np.zeros(N_PARAMS)
+    prm[P_R] = R
+    prm[P_M] = spec.ball.mass_kg
+    prm[P_G] = physics.gravity
+    prm[P_MU_S] = physics.cloth_sliding_friction
+    prm[P_MU_R] = physics.cloth_rolling_resistance
+    prm[P_MU_SP] = physics.cloth_spin_friction
+    prm[P_E_B] = physics.ball_restitution
+    prm[P_MU_B] = -1.0 if physics.ball_friction is None else physics.ball_friction
+    prm[P_E_C] = physics.cushion_restitution
+    prm[P_E_C_SLOPE] = physics.cushion_restitution_slope
+    prm[P_MU_C] = physics.cushion_friction
+    prm[P_E_J] = physics.jaw_restitution
+    prm[P_MU_J] = physics.jaw_friction
+    prm[P_REFF] = table.contact_offset
+    prm[P_SIN_NOSE] = (spec.cushion.nose_height_m - R) / R
+    return prm
+
+
+@jit
+def _sample(seg_t, seg_state, seg_pos, seg_vel, seg_om, seg_idx, times, prm, out):  # type: ignore[no-untyped-def]
+    for k in range(times.shape[0]):
+        s = seg_idx[k]
+        x, y, vx, vy, wx, wy, wz = state_at(s, times[k], seg_pos, seg_vel, seg_om, seg_state,
+                                            seg_t, prm)
+        out[k, 0] = x
+        out[k, 1] = y
+        out[k, 2] = vx
+        out[k, 3] = vy
+        out[k, 4] = wx
+        out[k, 5] = wy
+        out[k, 6] = wz
+
+
+class Simulator:
+    """Runs strokes on one table with one set of physics values.
+
+    Examples
+    --------
+    >>> from shotplan.equipment import TableSpec
+    >>> sim = Simulator(Table(TableSpec.preset("pool-9ft")), Physics())
+    >>> out = sim.run(["cue", "1"], [[0.6, 0.635], [1.9, 0.635]], Stroke(0.0, 2.0))
+    >>> out.events[0].kind.word
+    'rolling'
+    """
+
+    def __init__(self, table: Table, physics: Physics | None = None):
+        self.table = table
+        self.physics = physics or Physics.for_table(table.spec)
+        self.prm = _params_vector(table, self.physics)
+        self.lines = np.ascontiguousarray(table.cushion_lines, dtype=float)
+        self.circles = np.ascontiguousarray(table.tip_circles, dtype=float)
+        self.drops = np.ascontiguousarray(table.drop_lines, dtype=float)
+        self.radius = table.spec.ball.radius_m
+        self.mass = table.spec.ball.mass_kg
+
+    def __repr__(self) -> str:
+        return f"Simulator({self.table!r}, {self.physics!r})"
+
+    def launch(self, stroke: Stroke) -> Launch:
+        """The cue ball's launch for ``stroke`` (raises :class:`StrokeError`)."""
+        return launch(stroke, self.radius, self.mass, self.physics)
+
+    def run_raw(self, positions: np.ndarray, cue_index: int, velocity: Sequence[float],
+                spin: Sequence[float], pocketed: np.ndarray | None = None) -> tuple:
+        """Run from the given state; returns the raw engine arrays
+        ``(n_events, n_segments, status, events..., segments...)``."""
+        pos = np.array(positions, dtype=float).reshape(-1, 2)
+        n = len(pos)
+        vel = np.zeros((n, 2))
+        om = np.zeros((n, 3))
+        vel[cue_index] = velocity
+        om[cue_index] = spin
+        st = np.zeros(n, dtype=np.int64)
+        if pocketed is not None:
+            st[np.asarray(pocketed, dtype=bool)] = POCKETED
+        max_ev = int(self.physics.max_events)
+        ev_t = np.zeros(max_ev)
+        ev_kind = np.zeros(max_ev, dtype=np.int64)
+        ev_a = np.zeros(max_ev, dtype=np.int64)
+        ev_b = np.zeros(max_ev, dtype=np.int64)
+        ev_elem = np.zeros(max_ev, dtype=np.int64)
+        ev_sa = np.zeros(max_ev, dtype=np.int64)
+        ev_sb = np.zeros(max_ev, dtype=np.int64)
+        max_seg = 2 * max_ev + n
+        seg_t = np.zeros(max_seg)
+        seg_ball = np.zeros(max_seg, dtype=np.int64)
+        seg_state = np.zeros(max_seg, dtype=np.int64)
+        seg_pos = np.zeros((max_seg, 2))
+        seg_vel = np.zeros((max_seg, 2))
+        seg_om = np.zeros((max_seg, 3))
+        n_ev, n_seg, status = run_events(
+            pos, vel, om, st, self.prm, self.lines, self.circles, self.drops, max_ev,
+            ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
+            seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om,
+        )
+        return (n_ev, n_seg, status, ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
+                seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om, pos, st)
+
+    def run(self, ids: Sequence[str], positions: Any, stroke: Stroke, cue: str = "cue") -> Outcome:
+        """Play ``stroke`` on the cue ball with the balls at ``positions``."""
+        ids = tuple(ids)
+        if cue not in ids:
+            raise LayoutError(f"no {cue!r} ball on the table: nothing to strike")
+        ln = self.launch(stroke)
+        raw = self.run_raw(np.asarray(positions, dtype=float), ids.index(cue), ln.velocity, ln.spin)
+        return Outcome(self, ids, stroke, ln, raw)
+
+
+@lru_cache(maxsize=32)
+def simulator_for(spec: TableSpec, physics: Physics) -> Simulator:
+    """A cached :class:`Simulator` for a table spec and physics values."""
+    return Simulator(Table(spec), physics)
+
+
+def simulate(layout: Any, stroke: Stroke | Mapping[str, Any] | None = None,
+             physics: Physics | None = None) -> Outcome:
+    """Simulate one stroke on a layout.
+
+    Parameters
+    ----------
+    layout
+        A :class:`shotplan.layout.Layout` (anything with ``table``,
+        ``positions()``, ``stroke`` and ``physics()``).
+    stroke
+        The stroke; by default the layout's own. A mapping is read as a
+        layout ``stroke`` object.
+    physics
+        Physics values; by default the layout's (defaults, then the table's
+        measured values, then the layout's ``physics`` object).
+    """
+    if stroke is None:
+        stroke = layout.stroke
+        if stroke is None:
+            raise StrokeError("the layout has no stroke: give one (direction and speed)")
+    elif isinstance(stroke, Mapping):
+        stroke = Stroke.from_dict(stroke)
+    phys = physics if physics is not None else layout.physics()
+    sim = simulator_for(layout.table, phys)
+    positions = layout.positions()
+    ids = list(positions)
+    return sim.run(ids, [positions[i] for i in ids], stroke)
+
+
+class Outcome:
+    """What a stroke did: the events, and every ball's trajectory.
+
+    ``positions(t)`` gives every ball's position at time t; ``final`` where
+    each ball ended; ``to_dict()`` is the ``--json`` output.
+    """
+
+    def __init__(self, sim: Simulator, ids: tuple[str, ...], stroke: Stroke, launch: Launch,
+                 raw: tuple):
+        (n_ev, n_seg, status, ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
+         seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om, _pos, _st) = raw
+        self.simulator = sim
+        self.ids = ids
+        self.stroke = stroke
+        self.launch = launch
+        self.complete = status == STATUS_DONE
+        """False if the run hit ``Physics.max_events`` before every ball stopped."""
+        self._seg_t = seg_t[:n_seg].copy()
+        self._seg_ball = seg_ball[:n_seg].copy()
+        self._seg_state = seg_state[:n_seg].copy()
+        self._seg_pos = seg_pos[:n_seg].copy()
+        self._seg_vel = seg_vel[:n_seg].copy()
+        self._seg_om = seg_om[:n_seg].copy()
+        self._ev = (ev_t[:n_ev].copy(), ev_kind[:n_ev].copy(), ev_a[:n_ev].copy(),
+                    ev_b[:n_ev].copy(), ev_elem[:n_ev].copy(), ev_sa[:n_ev].copy(),
+                    ev_sb[:n_ev].copy())
+        # Segments of each ball, in time order
+        self._by_ball = [np.flatnonzero(self._seg_ball == i) for i in range(len(ids))]
+        self._events: list[Event] | None = None
+        self.duration = float(self._ev[0][-1]) if n_ev else 0.0
+        """Time of the last event, s (every ball is still after it)."""
+
+    # ------------------------------------------------------------ events
+    def _where(self, kind: int, elem: int) -> str:
+        table = self.simulator.table
+        if kind == EventKind.POCKET:
+            return table.pockets[elem].name
+        if kind == EventKind.CUSHION:
+            n = table.cushion_lines[elem]
+            return _RAIL_NAMES.get((int(round(n[4])), int(round(n[5]))), "rail")
+        if kind == EventKind.JAW:
+            if elem >= 1000000:
+                k = int(table.tip_circles[elem - 1000000, 3])
+                return f"{table.pockets[k].name} jaw tip"
+            k = int(table.cushion_lines[elem, 7])
+            return f"{table.pockets[k].name} jaw"
+        return ""
+
+    def _segment_state(self, s: int) -> BallState:
+        return BallState(
+            float(self._seg_pos[s, 0]), float(self._seg_pos[s, 1]),
+            float(self._seg_vel[s, 0]), float(self._seg_vel[s, 1]),
+            float(self._seg_om[s, 0]), float(self._seg_om[s, 1]), float(self._seg_om[s, 2]),
+            MotionState(int(self._seg_state[s])),
+        )
+
+    @property
+    def events(self) -> list[Event]:
+        """The event log, in time order."""
+        if self._events is None:
+            out = []
+            t, kind, a, b, elem, sa, sb = self._ev
+            for k in range(len(t)):
+                balls = (self.ids[a[k]],) if b[k] < 0 else (self.ids[a[k]], self.ids[b[k]])
+                states = (self._segment_state(int(sa[k])),)
+                if b[k] >= 0:
+                    states += (self._segment_state(int(sb[k])),)
+                out.append(Event(float(t[k]), EventKind(int(kind[k])), balls,
+                                 self._where(int(kind[k]), int(elem[k])), states))
+            self._events = out
+        return self._events
+
+    @property
+    def n_events(self) -> int:
+        """Number of events."""
+        return len(self._ev[0])
+
+    def first_contact(self, ball: str = "cue") -> str | None:
+        """Id of the first ball ``ball`` collides with, or None."""
+        i = self.ids.index(ball)
+        t, kind, a, b, *_ = self._ev
+        for k in range(len(t)):
+            if kind[k] == EventKind.COLLISION and i in (a[k], b[k]):
+                return self.ids[b[k] if a[k] == i else a[k]]
+        return None
+
+    # ------------------------------------------------------------ states
+    def pocketed(self) -> dict[str, str]:
+        """Balls that fell, with their pocket, in the order they fell."""
+        t, kind, a, _b, elem, *_ = self._ev
+        table = self.simulator.table
+        return {self.ids[a[k]]: table.pockets[elem[k]].name
+                for k in range(len(t)) if kind[k] == EventKind.POCKET}
+
+    @property
+    def final(self) -> dict[str, dict[str, Any]]:
+        """Where each ball ended: ``{id: {"x", "y", "state", "pocket"}}``."""
+        pocketed = self.pocketed()
+        out = {}
+        for i, bid in enumerate(self.ids):
+            s = self._by_ball[i][-1]
+            state = MotionState(int(self._seg_state[s]))
+            out[bid] = {
+                "x": float(self._seg_pos[s, 0]),
+                "y": float(self._seg_pos[s, 1]),
+                "state": "pocketed" if state == MotionState.POCKETED else "rest",
+                "pocket": pocketed.get(bid),
+            }
+        return out
+
+    def final_positions(self) -> np.ndarray:
+        """(N, 2) final positions (pocketed balls where they fell)."""
+        last = [idx[-1] for idx in self._by_ball]
+        return self._seg_pos[last].copy()
+
+    def _segments_at(self, i: int, t: float) -> int:
+        idx = self._by_ball[i]
+        k = int(np.searchsorted(self._seg_t[idx], t, side="right")) - 1
+        return int(idx[max(k, 0)])
+
+    def states(self, t: float) -> np.ndarray:
+        """(N, 7) x, y, vx, vy, wx, wy, wz of every ball at time t."""
+        segs = np.array([self._segments_at(i, t) for i in range(len(self.ids))], dtype=np.int64)
+        out = np.zeros((len(self.ids), 7))
+        times = np.full(len(self.ids), float(t))
+        _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
+                segs, times, self.simulator.prm, out)
+        return out
+
+    def positions(self, t: float) -> dict[str, tuple[float, float]]:
+        """Every ball's position at time t, s."""
+        arr = self.states(t)
+        return {bid: (float(arr[i, 0]), float(arr[i, 1])) for i, bid in enumerate(self.ids)}
+
+    def state_of(self, ball: str, t: float) -> BallState:
+        """One ball's full state at time t."""
+        i = self.ids.index(ball)
+        s = self._segments_at(i, t)
+        arr = np.zeros((1, 7))
+        _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
+                np.array([s], dtype=np.int64), np.array([float(t)]), self.simulator.prm, arr)
+        return BallState(*map(float, arr[0]), MotionState(int(self._seg_state[s])))
+
+    def path(self, ball: str, points_per_curve: int = 24) -> np.ndarray:
+        """(M, 2) polyline of a ball's path: exact at every event, sampled
+        along the curved (sliding) parts."""
+        i = self.ids.index(ball)
+        idx = self._by_ball[i]
+        seg_list: list[int] = []
+        times: list[float] = []
+        for k, s in enumerate(idx):
+            t0 = float(self._seg_t[s])
+            t1 = float(self._seg_t[idx[k + 1]]) if k + 1 < len(idx) else t0
+            if k + 1 == len(idx) or self._seg_state[s] == POCKETED:
+                seg_list.append(int(s))
+                times.append(t0)
+                continue
+            m = points_per_curve if self._seg_state[s] == SLIDING else 1
+            for j in range(m):
+                seg_list.append(int(s))
+                times.append(t0 + (t1 - t0) * j / m)
+            seg_list.append(int(s))
+            times.append(t1)
+        out = np.zeros((len(times), 7))
+        _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
+                np.array(seg_list, dtype=np.int64), np.array(times), self.simulator.prm, out)
+        pts = out[:, :2]
+        keep = np.ones(len(pts), dtype=bool)
+        keep[1:] = np.any(np.abs(np.diff(pts, axis=0)) > 1e-9, axis=1)
+        return pts[keep]
+
+    def moved(self) -> list[str]:
+        """Ids of the balls that moved."""
+        return [bid for i, bid in enumerate(self.ids) if len(self._by_ball[i]) > 1]
+
+    def energy_changes(self) -> np.ndarray:
+        """Change of kinetic energy (J) of the balls involved, across each
+        event: the state just before (the old segment evaluated at the event
+        time) against the state just after. Impacts can only remove energy."""
+        m = self.simulator.mass
+        R = self.simulator.radius
+        inertia = 0.4 * m * R * R
+
+        def energy(row: np.ndarray) -> float:
+            return 0.5 * m * float(row[2] ** 2 + row[3] ** 2) + 0.5 * inertia * float(
+                row[4] ** 2 + row[5] ** 2 + row[6] ** 2)
+
+        t, _kind, a, b, _elem, sa, sb = self._ev
+        out = np.zeros(len(t))
+        for k in range(len(t)):
+            for ball, seg in ((a[k], sa[k]), (b[k], sb[k])):
+                if ball < 0:
+                    continue
+                idx = self._by_ball[int(ball)]
+                pos_in = int(np.searchsorted(idx, seg))
+                prev = int(idx[pos_in - 1])
+                before = np.zeros((1, 7))
+                after = np.zeros((1, 7))
+                _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel,
+                        self._seg_om, np.array([prev], dtype=np.int64),
+                        np.array([float(t[k])]), self.simulator.prm, before)
+                after[0, :2] = self._seg_pos[seg]
+                after[0, 2:4] = self._seg_vel[seg]
+                after[0, 4:] = self._seg_om[seg]
+                if self._seg_state[seg] != POCKETED:
+                    out[k] += energy(after[0]) - energy(before[0])
+        return out
+
+    # ---------------------------------------------------------- output
+    def to_dict(self) -> dict[str, Any]:
+        """The ``--json`` output: events and where each ball ended."""
+        return {
+            "events": [e.to_dict() for e in self.events],
+            "balls": self.final,
+            "launch": {
+                "direction_deg": self.launch.direction_deg,
+                "squirt_deg": self.launch.squirt_deg,
+                "cue_speed_mps": self.launch.cue_speed_mps,
+                "velocity": list(self.launch.velocity),
+                "spin": list(self.launch.spin),
+            },
+            "complete": self.complete,
+            "duration_s": self.duration,
+        }
+
+    def __repr__(self) -> str:
+        return (f"<Outcome {self.n_events} events, {self.duration:.3f} s, "
+                f"pocketed {self.pocketed() or 'none'}>")
+
+
+def _finite(x: float) -> bool:
+    return math.isfinite(x)
