@@ -21,7 +21,9 @@ $(TSTAMP): pyproject.toml | $(PY)
 	touch $(STAMP) $@
 
 run: $(STAMP)
-	$(VENV)/bin/shotplan view $(DEMO)
+	@mkdir -p out
+	$(VENV)/bin/shotplan draw $(DEMO) --paths -o out/demo.png
+	@echo "The table view is not built yet: the demo layout is drawn in out/demo.png"
 
 test: $(TSTAMP)
 	$(PY) -m pytest

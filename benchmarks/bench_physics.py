@@ -168,7 +168,7 @@ def main() -> None:
     ):
         ln = sim.launch(stroke)
         out = sim.run(ids, pos, stroke)
-        t_event = timeit(lambda: sim.run_raw(pos, 0, ln.velocity, ln.spin),
+        t_event = timeit(lambda pos=pos, ln=ln: sim.run_raw(pos, 0, ln.velocity, ln.spin),
                          200 if len(ids) < 4 else 50)
         t0 = time.perf_counter()
         fpos, live, steps = fixed.run(pos, ln.velocity, ln.spin)

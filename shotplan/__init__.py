@@ -6,6 +6,7 @@ docstring for details.
 
 from .equipment import PRESETS, TableSpec
 from .errors import InputError, LayoutError, PhysicsError, ShotplanError, StrokeError
+from .layout import Layout, Problem, load_layout, save_layout
 from .physics import Physics
 from .stroke import Stroke
 from .table import Table
@@ -17,6 +18,10 @@ __all__ = [
     "PRESETS",
     "TableSpec",
     "Table",
+    "Layout",
+    "Problem",
+    "load_layout",
+    "save_layout",
     "Stroke",
     "Physics",
     "ShotplanError",

@@ -16,8 +16,8 @@ aim for throw and squirt with the simulator.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 __all__ = [
     "ghost_ball",
@@ -31,7 +31,8 @@ __all__ = [
     "mirror_point",
 ]
 
-Point = Sequence[float]
+Point = Any
+"""A point: a pair of floats or a length-2 array (m)."""
 
 
 def direction_deg(a: Point, b: Point) -> float:

@@ -250,7 +250,10 @@ class TableSpec:
             lo, hi, _doc = OVERRIDE_KEYS[key]
             if isinstance(value, bool) or not isinstance(value, int | float):
                 raise LayoutError(f"{where}.{key}: {value!r} is not a number")
-            value = float(value)
+            try:
+                value = float(value)
+            except OverflowError:
+                value = math.inf
             if not math.isfinite(value) or not lo <= value <= hi:
                 raise LayoutError(
                     f"{where}.{key}: {value!r} is out of range, must be between {lo} and {hi}"
@@ -361,13 +364,14 @@ OVERRIDE_KEYS: dict[str, tuple[float, float, str]] = {
 
 
 def _rescale_markings(new: TableSpec, old: TableSpec) -> TableSpec:
-    sx = new.length_m / old.length_m
-    sy = new.width_m / old.width_m
-    # Spots keep their distance from the nearest end for snooker (the rules
-    # measure them from the cushions); pool and carom spots scale with the table.
-    spots = tuple(Spot(s.name, s.x * sx, s.y * sy) for s in old.spots)
-    head = old.head_string_x_m * sx if old.head_string_x_m is not None else None
-    return dataclasses.replace(new, spots=spots, head_string_x_m=head)
+    """Markings for a new length and width, by each game's rule."""
+    L, W = new.length_m, new.width_m
+    if new.game == "snooker":
+        # The rules measure the baulk line and the black spot from the
+        # cushions and the D and colour spots from the baulk line: they keep
+        # their distances; blue and pink keep their places by proportion.
+        return dataclasses.replace(new, spots=_snooker_spots(L, W))
+    return dataclasses.replace(new, spots=_pool_spots(L, W), head_string_x_m=L / 4)
 
 
 # ---------------------------------------------------------------- the presets
@@ -455,6 +459,21 @@ _SNOOKER_BALL = BallSpec(
     ids=SNOOKER_BALL_IDS,
 )
 
+def _snooker_spots(length: float, width: float) -> tuple[Spot, ...]:
+    # WSF: brown on the middle of the baulk line, yellow at its right-hand
+    # and green at its left-hand intersection with the D (seen from the
+    # baulk end); blue on the centre spot; pink midway between the centre
+    # spot and the top cushion face; black 324 mm from the top cushion.
+    return (
+        Spot("yellow", 0.737, width / 2 - 0.292),
+        Spot("brown", 0.737, width / 2),
+        Spot("green", 0.737, width / 2 + 0.292),
+        Spot("blue", length / 2, width / 2),
+        Spot("pink", 0.75 * length, width / 2),
+        Spot("black", length - 0.324, width / 2),
+    )
+
+
 SNOOKER = TableSpec(
     name="snooker",
     game="snooker",
@@ -483,22 +502,13 @@ SNOOKER = TableSpec(
     side=PocketSpec(
         mouth_m=0.105, mouth_range_m=Range(0.100, 0.110),
         jaw_angle_deg=95.0, jaw_angle_range_deg=Range(90.0, 100.0),
-        shelf_m=0.004, shelf_range_m=Range(0.0, 0.010),
-        jaw_tip_radius_m=0.025, back_draft_deg=0.0,
+        # a rounded nose that runs down to the fall: the tip's arc must fit
+        # on the face (radius / tan(angle / 2) shorter than the face)
+        shelf_m=0.015, shelf_range_m=Range(0.0, 0.025),
+        jaw_tip_radius_m=0.012, back_draft_deg=0.0,
     ),
     sight_setback_m=None,  # snooker tables carry no sights
-    spots=(
-        # WSF: brown on the middle of the baulk line, yellow at its right-hand
-        # and green at its left-hand intersection with the D (seen from the
-        # baulk end); blue on the centre spot; pink midway between the centre
-        # spot and the top cushion face; black 324 mm from the top cushion.
-        Spot("yellow", 0.737, _SNOOKER_W / 2 - 0.292),
-        Spot("brown", 0.737, _SNOOKER_W / 2),
-        Spot("green", 0.737, _SNOOKER_W / 2 + 0.292),
-        Spot("blue", _SNOOKER_L / 2, _SNOOKER_W / 2),
-        Spot("pink", 0.75 * _SNOOKER_L, _SNOOKER_W / 2),
-        Spot("black", _SNOOKER_L - 0.324, _SNOOKER_W / 2),
-    ),
+    spots=_snooker_spots(_SNOOKER_L, _SNOOKER_W),
     head_string_x_m=None,
     baulk_line_x_m=0.737,  # WSF 29 in from the baulk cushion face
     d_radius_m=0.292,  # WSF 11.5 in

@@ -251,7 +251,7 @@ class _Run:
     __slots__ = ("kind", "a", "b", "elem", "sa", "sb", "seg_pos", "seg_vel", "final", "n_ev")
 
     def __init__(self, raw: tuple):
-        n_ev, n_seg = raw[0], raw[1]
+        n_ev, _n_seg = raw[0], raw[1]
         self.n_ev = n_ev
         self.kind = raw[4][:n_ev]
         self.a = raw[5][:n_ev]
@@ -307,12 +307,18 @@ class _Context:
         return _Run(self.sim.run_raw(self.pos, self.cue, ln.velocity, ln.spin))
 
 
+def _cut_reason(cut: float, limit: float) -> str:
+    if cut >= 90.0:
+        return f"cannot be cut that way (the line needs a {cut:.0f} deg cut)"
+    return f"cut too thin ({cut:.0f} deg, limit {limit:.0f})"
+
+
 def _angle_diff(a: float, b: float) -> float:
     return (a - b + 180.0) % 360.0 - 180.0
 
 
 # ----------------------------------------------------------------- geometry
-def _blocker(pos: np.ndarray, ids: Sequence[str], a: Sequence[float], b: Sequence[float],
+def _blocker(pos: np.ndarray, ids: Sequence[str], a: Any, b: Any,
              skip: Iterable[int], R: float) -> str | None:
     """Id of the nearest ball (to a) whose centre lies within 2R of segment a-b."""
     ax, ay = a
@@ -336,7 +342,7 @@ def _pocket_target(table: Table, k: int) -> tuple[float, float]:
     return table.pockets[k].drop_centre
 
 
-def _approach_ok(table: Table, k: int, start: Sequence[float], target: Sequence[float]) -> bool:
+def _approach_ok(table: Table, k: int, start: Any, target: Any) -> bool:
     p = table.pockets[k]
     d = math.atan2(target[1] - start[1], target[0] - start[0])
     ax = math.atan2(p.axis[1], p.axis[0])
@@ -358,7 +364,7 @@ def _rails(table: Table) -> list[tuple[int, str, np.ndarray]]:
     return out
 
 
-def _bounce_point(line: np.ndarray, a: Sequence[float], b_img: Sequence[float],
+def _bounce_point(line: np.ndarray, a: Any, b_img: Any,
                   offset: float) -> tuple[float, float] | None:
     """Where the path from a to the mirror image b_img meets the rail's
     contact line (nose moved in by offset), if within the rail."""
@@ -410,7 +416,7 @@ def _error_fn(ctx: _Context, cand: _Candidate, target: tuple[float, float]
     cue, first, last = ctx.cue, cand.first, cand.last
     n_rails = len(cand.bounce_lines) if cand.kind == "bank" else 0
 
-    def err(run: _Run) -> float | None:
+    def err(run: _Run) -> tuple[float, float] | None:
         k, other = run.first_collision(cue)
         if other != first:
             return None
@@ -580,11 +586,11 @@ def find_shots(
         pocket_ids = [table.pocket_index(p) for p in pockets]
     obj = [i for i, b in enumerate(ids) if b != "cue"]
     if balls:
-        for b in balls:
-            if b not in ids or b == "cue":
-                raise InputError(f"{b!r} is not an object ball on this layout, must be one of "
-                                 f"{', '.join(ids[i] for i in obj) or '(none)'}")
-        obj = [ids.index(b) for b in balls]
+        for wanted in balls:
+            if wanted not in ids or wanted == "cue":
+                raise InputError(f"{wanted!r} is not an object ball on this layout, must be one "
+                                 f"of {', '.join(ids[i] for i in obj) or '(none)'}")
+        obj = [ids.index(wanted) for wanted in balls]
     rails = _rails(table)
 
     cands: list[_Candidate] = []
@@ -600,7 +606,7 @@ def find_shots(
             target = _pocket_target(table, pk)
             # ---------------- direct
             if "direct" in kinds:
-                name = (ids[b],)
+                name: tuple[str, ...] = (ids[b],)
                 a = aim_at(cue_xy, bxy, target, R)
                 block_ob = _blocker(pos, ids, bxy, target, (b, cue), R)
                 block_cue = _blocker(pos, ids, cue_xy, a.ghost, (b, cue), R)
@@ -609,7 +615,7 @@ def find_shots(
                 elif block_ob:
                     reject("direct", name, pk, (), f"blocked by ball {block_ob}")
                 elif a.cut_deg > max_cut_deg:
-                    reject("direct", name, pk, (), f"cut too thin ({a.cut_deg:.0f} deg)")
+                    reject("direct", name, pk, (), _cut_reason(a.cut_deg, max_cut_deg))
                 elif not _approach_ok(table, pk, bxy, target):
                     reject("direct", name, pk, (), "pocket closed at this angle")
                 else:
@@ -650,7 +656,7 @@ def find_shots(
                         reject("bank", name, pk, rl, f"blocked by ball {blk}")
                         continue
                     if a.cut_deg > max_cut_deg:
-                        reject("bank", name, pk, rl, f"cut too thin ({a.cut_deg:.0f} deg)")
+                        reject("bank", name, pk, rl, _cut_reason(a.cut_deg, max_cut_deg))
                         continue
                     path_len = sum(math.dist(p, q) for p, q in zip(pts[:-1], pts[1:], strict=True))
                     cands.append(_Candidate("bank", name, pk, rl, b, b, pts[1], a.ghost, a.ghost,
@@ -675,7 +681,7 @@ def find_shots(
                         # cut as seen from the bounce point
                         a2 = aim_at(bp, bxy, target, R)
                         if a2.cut_deg > max_cut_deg:
-                            reject("kick", name, pk, (r[1],), f"cut too thin ({a2.cut_deg:.0f} deg)")
+                            reject("kick", name, pk, (r[1],), _cut_reason(a2.cut_deg, max_cut_deg))
                             continue
                         cands.append(_Candidate(
                             "kick", name, pk, (r[1],), b, b, target, img, g, a2.cut_deg,
@@ -701,7 +707,7 @@ def find_shots(
                         reject("combination", name, pk, (), f"blocked by ball {blk}")
                         continue
                     if a_b.cut_deg > 60.0:
-                        reject("combination", name, pk, (), f"cut too thin ({a_b.cut_deg:.0f} deg)")
+                        reject("combination", name, pk, (), _cut_reason(a_b.cut_deg, 60.0))
                         continue
                     if not _approach_ok(table, pk, cxy, target):
                         continue

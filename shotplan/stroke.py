@@ -103,7 +103,10 @@ class Stroke:
 def _number(value: Any, where: str) -> float:
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise StrokeError(f"{where}: {value!r} is not a number")
-    value = float(value)
+    try:
+        value = float(value)
+    except OverflowError:
+        raise StrokeError(f"{where}: {value!r} is too large") from None
     if not math.isfinite(value):
         raise StrokeError(f"{where}: {value!r} is not a finite number")
     return value

@@ -123,14 +123,23 @@ class Pocket:
     @property
     def hole(self) -> Polygon:
         """The opening behind the drop line (drawing and ``pocket_at`` only):
-        a disc whose chord is the drop line."""
+        a disc cut by the drop line, all of it past the line."""
         j0, j1 = self.jaws
         half = 0.5 * math.dist(j0.face_end, j1.face_end)
         cx, cy = self.drop_centre
         ax, ay = self.axis
         radius = half * 1.05
         centre = (cx + ax * radius * 0.3, cy + ay * radius * 0.3)
-        return Point(centre).buffer(radius, quad_segs=24)
+        disc = Point(centre).buffer(radius, quad_segs=24)
+        # the half-plane past the drop line, as a big box on the far side
+        px, py = -ay, ax
+        far = 10.0 * radius
+        behind = Polygon([
+            (cx + px * far, cy + py * far), (cx - px * far, cy - py * far),
+            (cx - px * far + ax * far, cy - py * far + ay * far),
+            (cx + px * far + ax * far, cy + py * far + ay * far),
+        ])
+        return disc.intersection(behind)
 
 
 def _unit(x: float, y: float) -> tuple[float, float]:
@@ -158,11 +167,13 @@ def _jaw(
     face_end = (px + t_end * fx, py + t_end * fy)
     r = spec.jaw_tip_radius_m
     bx, by = _unit(ex + fx, ey + fy)
+    if r / math.tan(alpha / 2) > t_end:
+        # The face is too short for the rounding (a shallow shelf): a smaller
+        # tip whose arc ends just before the drop line, so that nose, arc and
+        # face stay one smooth boundary.
+        r = 0.98 * t_end * math.tan(alpha / 2)
     d_centre = r / math.sin(alpha / 2)
     d_tangent = r / math.tan(alpha / 2)
-    if d_tangent > t_end:
-        # The shelf is too shallow for the rounding: keep the tip inside the face.
-        d_tangent = t_end
     tip_centre = (px + bx * d_centre, py + by * d_centre)
     rail_tangent = (px + ex * d_tangent, py + ey * d_tangent)
     face_tangent = (px + fx * d_tangent, py + fy * d_tangent)
@@ -360,23 +371,39 @@ class Table:
 
     @cached_property
     def cushions(self) -> list[Polygon]:
-        """Cushion rubbers with rounded jaw tips (shapely), one per nose segment."""
+        """Cushion rubbers (shapely), one per nose segment, each jaw rounded
+        with its own pocket's tip arc: the same circles the physics uses."""
+        if not self.pockets:
+            return self._rubber_sharp()
         out = []
-        r_tip = min((p.spec.jaw_tip_radius_m for p in self.pockets), default=0.0)
-        for poly in self._rubber_sharp():
-            if r_tip > 0:
-                # Round the convex corners with the tip radius: an opening then a
-                # closing by r leaves an arc of radius r tangent to both edges.
-                radius = r_tip
-                poly = poly.buffer(-radius, join_style="mitre").buffer(radius, quad_segs=32)
-            out.append(poly)
+        w = self.spec.cushion.rubber_width_m
+        jaws = [j for p in self.pockets for j in p.jaws]
+        for x0, y0, x1, y1, nx, ny, kind, _k in self.cushion_lines:
+            if kind != LINE_RAIL:
+                continue
+            ring: list[tuple[float, float]] = []
+            ends = []
+            for ex, ey in ((x0, y0), (x1, y1)):
+                ends.append(next(j for j in jaws if j.normal == (nx, ny)
+                                 and math.dist(j.rail_tangent, (ex, ey)) < 1e-12))
+            # start jaw: from its face (deep end) round the tip to the nose
+            for idx, jaw in enumerate(ends):
+                arc = _arc(jaw)  # from the rail tangent to the face tangent
+                depth = w / math.sin(math.radians(jaw_angle(jaw)))
+                back = (jaw.point[0] + jaw.face_dir[0] * depth,
+                        jaw.point[1] + jaw.face_dir[1] * depth)
+                if idx == 0:
+                    ring += [back] + arc[::-1]
+                else:
+                    ring += arc + [back]
+            out.append(Polygon(ring).buffer(0).normalize())
         return out
 
     @cached_property
     def legal_region(self) -> Polygon:
         """Where a ball's centre may lie (approximate arcs; queries use the exact test)."""
         solids = unary_union(self.cushions).buffer(self.contact_offset, quad_segs=16)
-        return self.bed.difference(solids)
+        return self._centre_area.difference(solids)
 
     # -------------------------------------------------------------- markings
     def diamonds(self) -> np.ndarray:
@@ -438,9 +465,20 @@ class Table:
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         finite = np.all(np.isfinite(pts), axis=1)
         safe = np.where(finite[:, None], pts, 0.0)
-        on_bed = shapely.contains_xy(self.bed, safe[:, 0], safe[:, 1])
+        on_bed = shapely.contains_xy(self._centre_area, safe[:, 0], safe[:, 1])
         clear = self.cushion_clearance(safe) >= -tol
         return finite & on_bed & clear
+
+    @cached_property
+    def _centre_area(self) -> Polygon:
+        # The bed without the corners of the playing-surface rectangle that lie
+        # behind a corner pocket's mouth but not in its throat, i.e. past the
+        # drop line: the rectangle reaches into every corner pocket.
+        behind = [
+            Polygon([p.corner, p.jaws[0].point, p.jaws[1].point]).difference(p.throat)
+            for p in self.pockets if p.kind == "corner"
+        ]
+        return self.bed.difference(unary_union(behind)) if behind else self.bed
 
     def pocket_at(self, points: np.ndarray) -> np.ndarray:
         """Index of the pocket each point lies in (past its mouth line), or -1."""
@@ -451,6 +489,17 @@ class Table:
             inside = shapely.contains_xy(area, pts[:, 0], pts[:, 1])
             out[(out < 0) & inside] = k
         return out
+
+
+def _arc(jaw: Jaw, n: int = 24) -> list[tuple[float, float]]:
+    """Points of a jaw's tip arc from its rail tangent to its face tangent."""
+    cx, cy = jaw.tip_centre
+    a0 = math.atan2(jaw.rail_tangent[1] - cy, jaw.rail_tangent[0] - cx)
+    a1 = math.atan2(jaw.face_tangent[1] - cy, jaw.face_tangent[0] - cx)
+    d = (a1 - a0 + math.pi) % (2 * math.pi) - math.pi  # the short way round
+    r = jaw.tip_radius
+    return [(cx + r * math.cos(a0 + d * k / n), cy + r * math.sin(a0 + d * k / n))
+            for k in range(n + 1)]
 
 
 def jaw_angle(jaw: Jaw) -> float:

@@ -64,7 +64,7 @@ def test_straight_in_ranks_first_with_cut_zero():
 def test_windows_shrink_as_the_cut_grows():
     # common practice, no source: thinner cuts forgive less
     widths = [only(cut_layout(c)).window_deg for c in (0, 15, 30, 45, 60)]
-    assert all(a > b for a, b in zip(widths, widths[1:])), widths
+    assert all(a > b for a, b in zip(widths, widths[1:], strict=False)), widths
 
 
 @pytest.mark.parametrize("vary", ["cue", "object"])
@@ -74,7 +74,7 @@ def test_windows_shrink_as_distances_grow(vary):
         widths = [only(straight_in(0.5, d)).window_deg for d in (0.3, 0.6, 1.0)]
     else:
         widths = [only(straight_in(s, 0.5)).window_deg for s in (0.3, 0.6, 1.0)]
-    assert all(a > b for a, b in zip(widths, widths[1:])), widths
+    assert all(a > b for a, b in zip(widths, widths[1:], strict=False)), widths
 
 
 def test_straight_in_window_within_the_pocket_geometry_bounds():

@@ -155,4 +155,14 @@ def ball_cushion(i, hx, hy, pos, vel, om, prm, e0, e_slope, mu):  # type: ignore
     om[i, 0] += k * (ry * jz - rz * jy)
     om[i, 1] += k * (rz * jx - rx * jz)
     om[i, 2] += k * (rx * jy - ry * jx)
+    # Friction down the tilted face has a horizontal part into the cushion;
+    # with a low restitution and high friction it can exceed the rebound and
+    # leave the ball moving into the rubber (then a cascade of impacts at one
+    # instant until the jam guard stops the ball dead). The cushion pushes as
+    # hard as it must not to be entered: remove any inward normal velocity
+    # (this only takes energy away).
+    vh_after = vel[i, 0] * hx + vel[i, 1] * hy
+    if vh_after < 0.0:
+        vel[i, 0] -= vh_after * hx
+        vel[i, 1] -= vh_after * hy
     return P

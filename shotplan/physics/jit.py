@@ -30,7 +30,7 @@ if JIT_ENABLED:
 
     def jit(func: F) -> F:
         """Compile ``func`` with numba (no Python mode, cached on disk)."""
-        return numba.njit(cache=True, nogil=True)(func)  # type: ignore[no-any-return]
+        return numba.njit(cache=True, nogil=True)(func)  # type: ignore[return-value]
 
 else:
 

@@ -104,8 +104,13 @@ class Physics:
                 continue
             if isinstance(value, bool) or not isinstance(value, int | float):
                 raise PhysicsError(f"{where}.{key}: {value!r} is not a number")
-            value = float(value)
+            try:
+                value = float(value)
+            except OverflowError:
+                value = math.inf
             lo, hi = _BOUNDS[key]
+            if key == "max_events" and math.isfinite(value) and value != int(value):
+                raise PhysicsError(f"{where}.{key}: {value!r} must be a whole number")
             if not math.isfinite(value) or not lo <= value <= hi:
                 raise PhysicsError(f"{where}.{key}: {value!r} is out of range, must be "
                                    f"between {lo} and {hi}")
@@ -125,7 +130,8 @@ class Physics:
             "cushion_restitution_slope": spec.cushion.restitution_slope,
             "cushion_friction": spec.cushion.friction,
         }
-        return dataclasses.replace(p, **{k: v for k, v in measured.items() if v is not None})
+        changes: dict[str, Any] = {k: v for k, v in measured.items() if v is not None}
+        return dataclasses.replace(p, **changes)
 
     def to_dict(self) -> dict[str, Any]:
         """Every field by name."""

@@ -199,13 +199,18 @@ def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
     k = real_roots(c, n, 0.0, horizon, out)
     for i in range(k):
         t = out[i]
-        # Classify the crossing by the sign just after the root, within the
-        # piece: the derivative at the root, or the value a little later.
+        # Classify the crossing by the sign just after the root: the
+        # derivative at the root or, where that is zero (a root found at a
+        # critical point: a triple root), the signs midway to the neighbouring
+        # roots. p keeps its sign between consecutive roots, so those values
+        # are the signs before and after; a fixed small step past the root
+        # would sit below the rounding of p there (p ~ (t - r)^3).
         d = _deriv_eval(c, n, t)
         if d < 0.0:
             return t
         if d == 0.0:
-            later = min(horizon, t + 1e-9 * max(1.0, horizon))
-            if poly_eval(c, n, later) < 0.0:
+            nxt = out[i + 1] if i + 1 < k else horizon
+            before = c[0] if i == 0 else poly_eval(c, n, 0.5 * (out[i - 1] + t))
+            if nxt > t and before >= 0.0 and poly_eval(c, n, 0.5 * (t + nxt)) < 0.0:
                 return t
     return math.inf

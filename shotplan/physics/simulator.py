@@ -250,6 +250,7 @@ def simulate(layout: Any, stroke: Stroke | Mapping[str, Any] | None = None,
             raise StrokeError("the layout has no stroke: give one (direction and speed)")
     elif isinstance(stroke, Mapping):
         stroke = Stroke.from_dict(stroke)
+    assert isinstance(stroke, Stroke)  # narrowed above; for the type checker
     phys = physics if physics is not None else layout.physics()
     sim = simulator_for(layout.table, phys)
     positions = layout.positions()
@@ -321,7 +322,7 @@ class Outcome:
             t, kind, a, b, elem, sa, sb = self._ev
             for k in range(len(t)):
                 balls = (self.ids[a[k]],) if b[k] < 0 else (self.ids[a[k]], self.ids[b[k]])
-                states = (self._segment_state(int(sa[k])),)
+                states: tuple[BallState, ...] = (self._segment_state(int(sa[k])),)
                 if b[k] >= 0:
                     states += (self._segment_state(int(sb[k])),)
                 out.append(Event(float(t[k]), EventKind(int(kind[k])), balls,
@@ -398,7 +399,8 @@ class Outcome:
         arr = np.zeros((1, 7))
         _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
                 np.array([s], dtype=np.int64), np.array([float(t)]), self.simulator.prm, arr)
-        return BallState(*map(float, arr[0]), MotionState(int(self._seg_state[s])))
+        x, y, vx, vy, wx, wy, wz = (float(v) for v in arr[0])
+        return BallState(x, y, vx, vy, wx, wy, wz, MotionState(int(self._seg_state[s])))
 
     def path(self, ball: str, points_per_curve: int = 24) -> np.ndarray:
         """(M, 2) polyline of a ball's path: exact at every event, sampled

@@ -1,0 +1,7 @@
+"""``python -m shotplan``: the same as the ``shotplan`` command."""
+
+import sys
+
+from .cli import main
+
+sys.exit(main())

@@ -1,0 +1,443 @@
+"""Scenes to files: PNG, SVG and PDF with matplotlib, plus multi-page PDF sheets.
+
+Every figure is a :class:`matplotlib.figure.Figure` on the Agg canvas, never
+pyplot's global state, so rendering is headless and safe from several
+threads. Exactly the shapes of the scene are drawn, in layer order, with equal
+aspect and no axes; the title goes above the table and the note below it, and
+every size given in mm of table is turned into points by the figure's scale.
+
+Files are written through :func:`shotplan.fileio.atomic_path`: a failed write
+leaves an old file untouched. SVG and PDF carry no creation date, so the same
+scene gives the same bytes.
+
+Examples
+--------
+>>> from shotplan import Table, TableSpec
+>>> from shotplan.scene import table_scene
+>>> write_scene(table_scene(Table(TableSpec.preset("carom"))), "/tmp/carom.svg")  # doctest: +SKIP
+"""
+
+from __future__ import annotations
+
+import io
+import math
+import os
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+from matplotlib import patches
+from matplotlib.axes import Axes
+from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.backends.backend_pdf import PdfPages
+from matplotlib.figure import Figure
+from matplotlib.font_manager import FontProperties
+from matplotlib.lines import Line2D
+from matplotlib.path import Path as MplPath
+from matplotlib.textpath import TextToPath
+
+from .errors import InputError
+from .fileio import atomic_path, check_output_path
+from .scene import (
+    ANCHORS,
+    CircleShape,
+    PolygonShape,
+    PolylineShape,
+    Scene,
+    TextShape,
+    WedgeShape,
+    arrow_head,
+    figure_size,
+)
+
+__all__ = [
+    "FORMATS",
+    "Page",
+    "write_scene",
+    "write_pages",
+    "render_png_bytes",
+    "render_figure",
+    "DEFAULT_WIDTH_IN",
+    "A4_PORTRAIT_IN",
+]
+
+FORMATS: dict[str, str] = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
+"""File suffixes :func:`write_scene` accepts, with the matplotlib format of each."""
+
+DEFAULT_WIDTH_IN = 10.0
+"""Width of a single-scene drawing when none is given, inches."""
+
+A4_PORTRAIT_IN = (210 / 25.4, 297 / 25.4)
+"""ISO 216 A4 portrait (210 x 297 mm), inches: the page of :func:`write_pages`."""
+
+_INK = "#1b1b1b"
+_PAPER = "#ffffff"
+_POINTS_PER_INCH = 72.0
+_PAGE_MARGIN_IN = 0.6
+_PAGE_LINE_PT = 10.0
+
+# Metadata without dates or versions, so that a scene always gives the same bytes.
+_METADATA: dict[str, dict[str, Any]] = {
+    "png": {"Software": "shotplan"},
+    "svg": {"Date": None, "Creator": "shotplan"},
+    "pdf": {"Creator": "shotplan", "Producer": "shotplan", "CreationDate": None},
+}
+
+
+@dataclass(frozen=True, slots=True)
+class Page:
+    """One page of a drill sheet: a diagram and lines of text printed under it."""
+
+    scene: Scene
+    """The diagram."""
+    lines: tuple[str, ...] = ()
+    """Text lines printed under the diagram (settings, what to look for)."""
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.scene, Scene):
+            raise InputError(f"Page.scene: {self.scene!r} is not a Scene")
+        lines = (self.lines,) if isinstance(self.lines, str) else tuple(self.lines)
+        for line in lines:
+            if not isinstance(line, str):
+                raise InputError(f"Page.lines: {line!r} is not a string")
+        object.__setattr__(self, "lines", lines)
+
+
+# ------------------------------------------------------------- figures
+
+def _check_dpi(dpi: Any) -> float:
+    if isinstance(dpi, bool) or not isinstance(dpi, int | float) or not 10 <= dpi <= 1200:
+        raise InputError(f"dpi: {dpi!r} is out of range, must be a number from 10 to 1200")
+    return float(dpi)
+
+
+def _check_width(width_in: Any) -> float:
+    if width_in is None:
+        return DEFAULT_WIDTH_IN
+    if (isinstance(width_in, bool) or not isinstance(width_in, int | float)
+            or not 0.5 <= width_in <= 100):
+        raise InputError(f"width_in: {width_in!r} is out of range, must be a number of "
+                         "inches from 0.5 to 100")
+    return float(width_in)
+
+
+_TEXT_PATHS = TextToPath()
+_TITLE_SPACING = 1.25
+_NOTE_SPACING = 1.4
+_LINE_SPACING = 1.5
+
+
+def _wrap(text: str, size_pt: float, width_pt: float, bold: bool = False) -> list[str]:
+    """``text`` broken into lines no wider than ``width_pt`` (at word breaks;
+    a single word wider than that stays whole). Widths come from the font's
+    own metrics, so the layout does not depend on a renderer."""
+    if not text:
+        return []
+    prop = FontProperties(size=size_pt, weight="bold" if bold else "normal")
+    out: list[str] = []
+    for paragraph in text.split("\n"):
+        line = ""
+        for word in paragraph.split(" "):
+            trial = f"{line} {word}" if line else word
+            if not line or _TEXT_PATHS.get_text_width_height_descent(
+                    trial, prop, ismath=False)[0] <= width_pt:
+                line = trial
+            else:
+                out.append(line)
+                line = word
+        out.append(line)
+    return out
+
+
+@dataclass(frozen=True, slots=True)
+class _Texts:
+    """The title and note of a scene at one drawing scale, wrapped to a width."""
+
+    title_pt: float
+    note_pt: float
+    title: list[str]
+    note: list[str]
+
+    @classmethod
+    def at(cls, scene: Scene, pt_per_m: float, width_in: float) -> _Texts:
+        title_pt = scene.title_mm() / 1000.0 * pt_per_m
+        note_pt = scene.note_mm() / 1000.0 * pt_per_m
+        width_pt = 0.94 * width_in * _POINTS_PER_INCH
+        return cls(title_pt, note_pt, _wrap(scene.title, title_pt, width_pt, bold=True),
+                   _wrap(scene.note, note_pt, width_pt))
+
+    @property
+    def title_in(self) -> float:
+        """Height of the title band, inches (0 without a title)."""
+        if not self.title:
+            return 0.0
+        return (_TITLE_SPACING * len(self.title) + 0.75) * self.title_pt / _POINTS_PER_INCH
+
+    @property
+    def note_in(self) -> float:
+        """Height of the note band, inches (0 without a note)."""
+        if not self.note:
+            return 0.0
+        return (_NOTE_SPACING * len(self.note) + 0.8) * self.note_pt / _POINTS_PER_INCH
+
+    def draw_title(self, fig: Figure, x: float, y_mid: float) -> None:
+        if self.title:
+            fig.text(x, y_mid, "\n".join(self.title), ha="center", va="center",
+                     fontsize=self.title_pt, fontweight="bold", color=_INK,
+                     linespacing=_TITLE_SPACING)
+
+    def draw_note(self, fig: Figure, x: float, y_top: float) -> None:
+        if self.note:
+            fig.text(x, y_top, "\n".join(self.note), ha="center", va="top",
+                     fontsize=self.note_pt, color=_INK, linespacing=_NOTE_SPACING)
+
+
+def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None) -> Figure:
+    """A figure of ``scene`` alone: the title band, the table, the note band.
+
+    The table's axes are exactly as wide as the figure and keep the bounds'
+    aspect ratio to the pixel (see :func:`shotplan.scene.figure_size`); with no
+    title and no note the figure is the table and nothing else. Title and
+    note are wrapped to the figure's width.
+    """
+    dpi = _check_dpi(dpi)
+    w_in, axes_h_in = figure_size(scene.bounds, _check_width(width_in), dpi)
+    pt_per_m = w_in / scene.width_m * _POINTS_PER_INCH
+    texts = _Texts.at(scene, pt_per_m, w_in)
+    # Bands in whole pixels, so the table's axes start on a pixel edge.
+    title_px = round(texts.title_in * dpi)
+    note_px = round(texts.note_in * dpi)
+    axes_px = round(axes_h_in * dpi)
+    total_px = title_px + axes_px + note_px
+    w_px = round(w_in * dpi)
+    fig = Figure(figsize=(w_px / dpi, total_px / dpi), dpi=dpi, facecolor=_PAPER)
+    FigureCanvasAgg(fig)
+    ax = fig.add_axes((0.0, note_px / total_px, 1.0, axes_px / total_px))
+    _draw_scene(ax, scene, pt_per_m)
+    texts.draw_title(fig, 0.5, 1.0 - 0.5 * title_px / total_px)
+    texts.draw_note(fig, 0.5, (note_px - 0.4 * texts.note_pt / _POINTS_PER_INCH * dpi) / total_px)
+    return fig
+
+
+def _page_figure(page: Page, size_in: tuple[float, float]) -> Figure:
+    """One page: title, the diagram as wide as the margins allow, note, lines."""
+    page_w, page_h = size_in
+    scene = page.scene
+    usable_w = page_w - 2 * _PAGE_MARGIN_IN
+    usable_h = page_h - 2 * _PAGE_MARGIN_IN
+    line_pt = _PAGE_LINE_PT
+
+    def lines_at(size_pt: float) -> tuple[list[str], float]:
+        wrapped = [s for line in page.lines
+                   for s in (_wrap(line, size_pt, usable_w * _POINTS_PER_INCH) or [""])]
+        height = (_LINE_SPACING * len(wrapped) + 0.5) * size_pt / _POINTS_PER_INCH
+        return wrapped, (height if wrapped else 0.0)
+
+    lines, lines_in = lines_at(line_pt)
+    # Shrink the diagram (down to 40 % of the width) before the lines' font.
+    for width in np.linspace(usable_w, 0.4 * usable_w, 13):
+        pt_per_m = width / scene.width_m * _POINTS_PER_INCH
+        texts = _Texts.at(scene, pt_per_m, width)
+        diagram_in = width * scene.height_m / scene.width_m
+        if texts.title_in + diagram_in + texts.note_in + lines_in <= usable_h:
+            break
+    else:
+        spare = usable_h - (texts.title_in + diagram_in + texts.note_in)
+        for size in np.linspace(line_pt, 4.0, 13):
+            lines, lines_in = lines_at(float(size))
+            line_pt = float(size)
+            if lines_in <= spare:
+                break
+    fig = Figure(figsize=size_in, facecolor=_PAPER)
+    FigureCanvasAgg(fig)
+    top = page_h - _PAGE_MARGIN_IN
+    texts.draw_title(fig, 0.5, (top - 0.5 * texts.title_in) / page_h)
+    top -= texts.title_in
+    left = (page_w - width) / 2
+    ax = fig.add_axes((left / page_w, (top - diagram_in) / page_h, width / page_w,
+                       diagram_in / page_h))
+    _draw_scene(ax, scene, pt_per_m)
+    top -= diagram_in
+    texts.draw_note(fig, 0.5, (top - 0.4 * texts.note_pt / _POINTS_PER_INCH) / page_h)
+    top -= texts.note_in
+    if lines:
+        fig.text(_PAGE_MARGIN_IN / page_w, (top - 0.5 * line_pt / _POINTS_PER_INCH) / page_h,
+                 "\n".join(lines), ha="left", va="top", fontsize=line_pt, color=_INK,
+                 linespacing=_LINE_SPACING)
+    return fig
+
+
+def _draw_scene(ax: Axes, scene: Scene, pt_per_m: float) -> None:
+    xmin, ymin, xmax, ymax = scene.bounds
+    ax.set_xlim(xmin, xmax)
+    ax.set_ylim(ymin, ymax)
+    ax.set_aspect("equal", adjustable="box", anchor="C")
+    ax.set_axis_off()
+    for z, shape in enumerate(scene.sorted_shapes(), start=1):
+        _draw_shape(ax, shape, pt_per_m, z)
+
+
+def _pt(mm: float, pt_per_m: float) -> float:
+    return mm / 1000.0 * pt_per_m
+
+
+def _ring(points: Sequence[tuple[float, float]], ccw: bool) -> list[tuple[float, float]]:
+    pts = list(points)
+    area = 0.5 * sum(x0 * y1 - x1 * y0 for (x0, y0), (x1, y1) in zip(pts, pts[1:] + pts[:1],
+                                                                     strict=True))
+    if (area > 0) != ccw:
+        pts.reverse()
+    return pts
+
+
+def _polygon_path(shape: PolygonShape) -> MplPath:
+    # Outer ring counter-clockwise, holes clockwise: the non-zero fill rule
+    # then leaves the holes empty in every backend.
+    verts: list[tuple[float, float]] = []
+    codes: list[int] = []
+    for ring, ccw in [(shape.points, True)] + [(h, False) for h in shape.holes]:
+        pts = _ring(ring, ccw)
+        verts += pts + [pts[0]]
+        codes += ([int(MplPath.MOVETO)] + [int(MplPath.LINETO)] * (len(pts) - 1)
+                  + [int(MplPath.CLOSEPOLY)])
+    return MplPath(np.array(verts), codes)
+
+
+_DASH = (0, (4.0, 2.5))  # in line widths (matplotlib scales dashes by the width)
+
+
+def _draw_shape(ax: Axes, shape: Any, pt_per_m: float, z: int) -> None:
+    # No clipping: every shape lies in the bounds, and clip paths would put
+    # random ids into SVG files.
+    if isinstance(shape, PolygonShape):
+        lw = _pt(shape.line_width_mm, pt_per_m) if shape.edge else 0.0
+        ax.add_patch(patches.PathPatch(
+            _polygon_path(shape), facecolor=shape.fill or "none",
+            edgecolor=shape.edge or "none", linewidth=lw, alpha=shape.alpha, zorder=z,
+            clip_on=False, joinstyle="round"))
+    elif isinstance(shape, CircleShape):
+        lw = _pt(shape.line_width_mm, pt_per_m) if shape.edge else 0.0
+        ax.add_patch(patches.Circle(
+            shape.centre, shape.radius, facecolor=shape.fill or "none",
+            edgecolor=shape.edge or "none", linewidth=lw, alpha=shape.alpha, zorder=z,
+            clip_on=False, linestyle=_DASH if shape.dash else "solid"))
+    elif isinstance(shape, PolylineShape):
+        lw = _pt(shape.line_width_mm, pt_per_m)
+        pts = np.array(shape.points)
+        head = arrow_head(shape.points, shape.line_width_mm) if shape.arrow else None
+        if head is not None:
+            pts[-1] = head[0]
+        ax.add_line(Line2D(pts[:, 0], pts[:, 1], color=shape.colour, linewidth=lw,
+                           alpha=shape.alpha, zorder=z, clip_on=False,
+                           linestyle=_DASH if shape.dash else "solid",
+                           solid_capstyle="round", dash_capstyle="butt",
+                           solid_joinstyle="round"))
+        if head is not None:
+            ax.add_patch(patches.Polygon(head[1], closed=True, facecolor=shape.colour,
+                                         edgecolor="none", linewidth=0.0, alpha=shape.alpha,
+                                         zorder=z, clip_on=False))
+    elif isinstance(shape, TextShape):
+        ha, va = ANCHORS[shape.anchor]
+        # matplotlib's "center" centres the line box, descent included, which
+        # lifts digits (a ball's number) by half the descent; "center_baseline"
+        # puts the middle of a digit on the position.
+        va = "center_baseline" if va == "center" else va
+        ax.text(shape.position[0], shape.position[1], shape.text, ha=ha, va=va,
+                fontsize=_pt(shape.size_mm, pt_per_m), color=shape.colour,
+                fontweight="bold" if shape.bold else "normal", zorder=z, clip_on=False)
+    elif isinstance(shape, WedgeShape):
+        ax.add_patch(patches.Wedge(shape.apex, shape.radius, shape.start_deg, shape.end_deg,
+                                   facecolor=shape.fill, edgecolor="none", linewidth=0.0,
+                                   alpha=shape.alpha, zorder=z, clip_on=False))
+    else:  # Scene checks its shapes; this is a guard for a new shape type.
+        raise TypeError(f"no drawing for {type(shape).__name__}")
+
+
+# ---------------------------------------------------------------- files
+
+def _format_of(path: str | os.PathLike[str]) -> tuple[Path, str]:
+    p = check_output_path(path, tuple(FORMATS))
+    return p, FORMATS[p.suffix.lower()]
+
+
+def write_scene(
+    scene: Scene, path: str | os.PathLike[str], dpi: float = 150, width_in: float | None = None
+) -> Path:
+    """Write ``scene`` to ``path`` as PNG, SVG or PDF, chosen by the suffix.
+
+    Parameters
+    ----------
+    scene : Scene
+        What to draw.
+    path : str or path-like
+        Ends in ``.png``, ``.svg`` or ``.pdf`` (any case); its folder must exist.
+    dpi : float
+        Pixels per inch of a PNG (and of raster parts of the others).
+    width_in : float, optional
+        Width of the drawing, inches (default :data:`DEFAULT_WIDTH_IN`).
+
+    Returns
+    -------
+    Path
+        The file written.
+
+    Raises
+    ------
+    InputError
+        A suffix other than those above, a missing folder, a bad ``dpi`` or
+        width: raised before anything is drawn or written.
+    """
+    p, fmt = _format_of(path)
+    if not isinstance(scene, Scene):
+        raise InputError(f"{str(p)!r}: {scene!r} is not a Scene")
+    fig = render_figure(scene, dpi=dpi, width_in=width_in)
+    with atomic_path(p) as tmp:
+        # The temporary name ends in .part, so the format is given explicitly.
+        fig.savefig(tmp, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=_PAPER)
+    return p
+
+
+def render_png_bytes(scene: Scene, dpi: float = 100, width_in: float | None = None) -> bytes:
+    """The PNG of ``scene`` as bytes (for tests and the table view)."""
+    fig = render_figure(scene, dpi=dpi, width_in=width_in)
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=dpi, metadata=_METADATA["png"], facecolor=_PAPER)
+    return buf.getvalue()
+
+
+def write_pages(
+    pages: Iterable[Page | Scene],
+    path: str | os.PathLike[str],
+    page_size_in: tuple[float, float] = A4_PORTRAIT_IN,
+) -> Path:
+    """Write a multi-page PDF, one diagram per page (drill sheets).
+
+    Parameters
+    ----------
+    pages : iterable of Page or Scene
+        A bare :class:`Scene` is a page without lines.
+    path : str or path-like
+        Ends in ``.pdf``; its folder must exist.
+    page_size_in : (float, float)
+        Page width and height, inches (default A4 portrait).
+
+    Returns
+    -------
+    Path
+        The file written.
+    """
+    p = check_output_path(path, (".pdf",))
+    items = [q if isinstance(q, Page) else Page(q) for q in pages]
+    if not items:
+        raise InputError(f"{str(p)!r}: no pages to write")
+    w, h = (float(v) for v in page_size_in)
+    if not (math.isfinite(w) and math.isfinite(h) and 2.0 <= w <= 100 and 2.0 <= h <= 100):
+        raise InputError(f"page_size_in: {page_size_in!r} must be two sizes from 2 to 100 in")
+    figures = [_page_figure(item, (w, h)) for item in items]
+    with atomic_path(p) as tmp:
+        with PdfPages(tmp, metadata=_METADATA["pdf"]) as pdf:
+            for fig in figures:
+                pdf.savefig(fig, facecolor=_PAPER)
+    return p

@@ -1,0 +1,799 @@
+"""A layout: a table, balls at positions, and optionally the stroke to play.
+
+The layout file (JSON, UTF-8) maps onto :class:`Layout` one to one::
+
+    {
+      "format": "shotplan-layout", "version": 1,
+      "title": "Straight in", "note": "Stun the cue ball dead.",
+      "table": "pool-9ft",
+      "balls": {"cue": [0.635, 0.635], "1": [1.9, 0.9]},
+      "stroke": {"direction_deg": 20.0, "speed_mps": 1.5},
+      "physics": {"cushion_restitution": 0.8}
+    }
+
+``table`` is a preset name or ``{"preset": "pool-9ft", ...measured values...}``
+with keys of :data:`shotplan.equipment.OVERRIDE_KEYS`. Positions are metres
+from the cushion noses (see :mod:`shotplan.table`). ``stroke`` follows
+:meth:`shotplan.stroke.Stroke.from_dict`, ``physics`` the fields of
+:class:`shotplan.physics.Physics`; ``title``, ``note``, ``stroke`` and
+``physics`` are optional.
+
+Two kinds of fault are kept apart, as a chess board's status is kept apart
+from its legality of construction:
+
+* *structural* faults (bad JSON, wrong types, an unknown preset, a bad
+  stroke) mean there is no layout at all: :class:`~shotplan.errors.LayoutError`;
+* *problems* (a ball off the table, in a pocket, overlapping a cushion or
+  another ball, an id the table's ball set lacks, no cue ball) still give a
+  layout, which :meth:`Layout.problems` describes, so the table view can
+  show them instead of refusing the file.
+
+:func:`load_layout` raises on both unless ``strict=False``.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import functools
+import json
+import math
+import os
+import re
+import stat
+from collections.abc import Iterable, Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import shapely
+
+from .equipment import PRESETS, TableSpec
+from .errors import LayoutError, PhysicsError, StrokeError
+from .fileio import atomic_write_text, check_output_path
+from .physics.params import Physics
+from .stroke import Stroke
+from .table import LINE_RAIL, Table
+
+__all__ = [
+    "FORMAT",
+    "VERSION",
+    "MAX_FILE_BYTES",
+    "LAYOUT_KEYS",
+    "RACKS",
+    "Problem",
+    "Layout",
+    "load_layout",
+    "save_layout",
+    "read_json_file",
+    "parse_json",
+    "rack",
+]
+
+FORMAT = "shotplan-layout"
+"""The value of a layout file's ``format`` field."""
+
+VERSION = 1
+"""The layout file version this module reads and writes."""
+
+MAX_FILE_BYTES = 10 * 1024 * 1024
+"""Largest layout file accepted (10 MB): a layout is a few hundred bytes, so
+anything near this is not a layout, and reading it whole would only cost memory."""
+
+LAYOUT_KEYS: tuple[str, ...] = (
+    "format", "version", "title", "note", "table", "balls", "stroke", "physics",
+)
+"""The top-level fields of a layout file, in the order they are written."""
+
+RACKS: tuple[str, ...] = ("8-ball", "9-ball")
+"""Rack shapes :func:`rack` builds."""
+
+_MAX_ABS = 1e9
+"""Largest magnitude of any number in a layout file. No field means anything
+near it, and it keeps ``float(int)`` from overflowing further in."""
+
+_OVERLAP_TOL = 1e-9
+"""Balls may touch: centres closer than 2R by more than this overlap (m)."""
+
+
+# --------------------------------------------------------------------- values
+@dataclass(frozen=True, slots=True)
+class Problem:
+    """One thing wrong with a layout that still lets it be built and shown."""
+
+    field: str
+    """Where in the file: ``balls.3``, ``balls``..."""
+    message: str
+    """What is wrong and what would be valid, without the field."""
+    ball: str | None = None
+    """The ball concerned, if any."""
+
+    def __str__(self) -> str:
+        return f"{self.field}: {self.message}"
+
+
+@functools.lru_cache(maxsize=32)
+def _geometry(spec: TableSpec) -> Table:
+    # Building a Table costs a few shapely operations; layouts that share a
+    # spec (every edit of one layout does) share its geometry.
+    return Table(spec)
+
+
+@dataclass(frozen=True, slots=True)
+class Layout:
+    """A table with balls on it and, optionally, the stroke to play.
+
+    Values, not places: every ``with_...`` method returns a changed copy.
+    ``balls`` and ``physics_overrides`` may be given as mappings; they are kept
+    as tuples of pairs, in the given order, so a layout is hashable.
+
+    Examples
+    --------
+    >>> lay = Layout(TableSpec.preset("pool-9ft"), {"cue": (0.635, 0.635), "1": (1.9, 0.635)})
+    >>> lay.ball_ids
+    ('cue', '1')
+    >>> lay.problems()
+    []
+    """
+
+    table: TableSpec
+    """The table spec (a preset, possibly with measured overrides)."""
+    balls: tuple[tuple[str, tuple[float, float]], ...] = ()
+    """(ball id, (x, y) in m) pairs in file order."""
+    stroke: Stroke | None = None
+    """The stroke to play, or ``None``."""
+    physics_overrides: tuple[tuple[str, Any], ...] = field(default=())
+    """The layout's ``physics`` object as given, as (key, value) pairs."""
+    title: str = ""
+    """A short title (diagram heading)."""
+    note: str = ""
+    """A longer note (diagram caption, coaching text)."""
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.table, TableSpec):
+            raise LayoutError(f"layout: table must be a TableSpec, not {type(self.table).__name__}")
+        object.__setattr__(self, "balls", _normalise_balls(self.balls))
+        if self.stroke is not None and not isinstance(self.stroke, Stroke):
+            raise LayoutError(f"layout: stroke must be a Stroke or None, "
+                              f"not {type(self.stroke).__name__}")
+        overrides = self.physics_overrides
+        if isinstance(overrides, Mapping):
+            overrides = tuple(overrides.items())
+        overrides = tuple((str(k), v) for k, v in overrides)
+        Physics.from_dict(dict(overrides))  # validates; raises PhysicsError
+        object.__setattr__(self, "physics_overrides", overrides)
+        for name in ("title", "note"):
+            if not isinstance(getattr(self, name), str):
+                raise LayoutError(f"layout: {name} must be text, "
+                                  f"not {type(getattr(self, name)).__name__}")
+
+    # ------------------------------------------------------------- queries
+    @property
+    def ball_ids(self) -> tuple[str, ...]:
+        """Ball ids in layout order."""
+        return tuple(b for b, _ in self.balls)
+
+    def positions(self) -> dict[str, tuple[float, float]]:
+        """Ball id -> (x, y) in m, in layout order."""
+        return dict(self.balls)
+
+    def position(self, ball: str) -> tuple[float, float]:
+        """The position of ``ball`` (m); raises :class:`LayoutError` if absent."""
+        for b, xy in self.balls:
+            if b == ball:
+                return xy
+        raise LayoutError(f"no ball {ball!r} in this layout, balls: "
+                          f"{', '.join(self.ball_ids) or '(none)'}")
+
+    @property
+    def geometry(self) -> Table:
+        """The table's geometry (built once per distinct spec, then shared)."""
+        return _geometry(self.table)
+
+    def physics(self) -> Physics:
+        """Physics defaults, then the table's measured values, then the layout's overrides."""
+        return Physics.from_dict(dict(self.physics_overrides),
+                                 base=Physics.for_table(self.table))
+
+    def problems(self) -> list[Problem]:
+        """Everything wrong with the layout, in ball order; empty if it is playable.
+
+        Reports ball ids the table's ball set lacks, balls off the table, in a
+        pocket or overlapping a cushion or jaw, overlapping balls (touching is
+        fine) and a missing cue ball.
+        """
+        out: list[Problem] = []
+        spec = self.table
+        geo = self.geometry
+        valid_ids = spec.ball.ids
+        ids = self.ball_ids
+        for b in ids:
+            if b not in valid_ids:
+                out.append(Problem(_field("balls", b), f"{b!r} is not a ball of the {spec.name} "
+                                   f"table, must be one of {', '.join(valid_ids)}", b))
+        if ids:
+            pts = np.array([xy for _, xy in self.balls], dtype=float)
+            legal = geo.is_legal(pts)
+            for k in np.flatnonzero(~legal):
+                b = ids[k]
+                out.append(Problem(_field("balls", b), _placement_message(geo, pts[k]), b))
+            two_r = 2.0 * spec.ball.radius_m
+            diff = pts[:, None, :] - pts[None, :, :]
+            dist = np.hypot(diff[..., 0], diff[..., 1])
+            for j in range(len(ids)):
+                for i in range(j):
+                    if dist[i, j] < two_r - _OVERLAP_TOL:
+                        out.append(Problem(
+                            _field("balls", ids[j]),
+                            f"{_pos(pts[j])} overlaps ball {ids[i]!r} by "
+                            f"{_mm(two_r - dist[i, j])} mm (centres {_mm(dist[i, j])} mm "
+                            f"apart, balls need at least {two_r * 1000:.2f} mm)",
+                            ids[j],
+                        ))
+        if "cue" not in ids:
+            out.append(Problem("balls", "no 'cue' ball: a layout needs the cue ball, "
+                               "the ball the cue strikes"))
+        order = {b: k for k, b in enumerate(ids)}
+        out.sort(key=lambda p: order.get(p.ball, len(ids)) if p.ball is not None else len(ids))
+        return out
+
+    # ------------------------------------------------------------- changes
+    def with_ball(self, ball: str, xy: tuple[float, float]) -> Layout:
+        """A copy with ``ball`` at ``xy`` (moved if present, else added last)."""
+        balls = list(self.balls)
+        for k, (b, _) in enumerate(balls):
+            if b == ball:
+                balls[k] = (ball, xy)
+                break
+        else:
+            balls.append((ball, xy))
+        return self._replace(balls=tuple(balls))
+
+    def without_ball(self, ball: str) -> Layout:
+        """A copy without ``ball``; raises :class:`LayoutError` if it is absent."""
+        self.position(ball)
+        return self._replace(balls=tuple((b, xy) for b, xy in self.balls if b != ball))
+
+    def with_stroke(self, stroke: Stroke | None) -> Layout:
+        """A copy with ``stroke`` (``None`` removes it)."""
+        return self._replace(stroke=stroke)
+
+    def with_table(self, spec: TableSpec) -> Layout:
+        """A copy on another table (balls keep their coordinates; ask
+        :meth:`problems` whether they still fit)."""
+        return self._replace(table=spec)
+
+    def with_title(self, title: str, note: str | None = None) -> Layout:
+        """A copy with a new title and, if given, a new note."""
+        return self._replace(title=title, note=self.note if note is None else note)
+
+    def with_physics(self, overrides: Mapping[str, Any]) -> Layout:
+        """A copy whose ``physics`` object is ``overrides`` (replacing the old one)."""
+        return self._replace(physics_overrides=tuple(overrides.items()))
+
+    def _replace(self, **changes: Any) -> Layout:
+        values: dict[str, Any] = {
+            "table": self.table, "balls": self.balls, "stroke": self.stroke,
+            "physics_overrides": self.physics_overrides, "title": self.title,
+            "note": self.note,
+        }
+        values.update(changes)
+        return Layout(**values)
+
+    # ---------------------------------------------------------------- files
+    def to_dict(self) -> dict[str, Any]:
+        """The layout file's object (keys in :data:`LAYOUT_KEYS` order; empty
+        optional fields left out)."""
+        out: dict[str, Any] = {"format": FORMAT, "version": VERSION}
+        if self.title:
+            out["title"] = self.title
+        if self.note:
+            out["note"] = self.note
+        out["table"] = _table_to_json(self.table)
+        out["balls"] = {b: [x, y] for b, (x, y) in self.balls}
+        if self.stroke is not None:
+            out["stroke"] = self.stroke.to_dict()
+        if self.physics_overrides:
+            out["physics"] = dict(self.physics_overrides)
+        return out
+
+    def to_json(self) -> str:
+        """The layout file's text: indented by 2, positions on one line, a final newline."""
+        text = json.dumps(self.to_dict(), indent=2, ensure_ascii=False, allow_nan=False)
+        # Keep [x, y] on one line. Raw newlines never occur inside JSON
+        # strings, so only real arrays of numbers match.
+        text = _NUMBER_ARRAY.sub(
+            lambda m: "[" + ", ".join(s.strip() for s in m.group(1).split(",")) + "]", text
+        )
+        return text + "\n"
+
+    @classmethod
+    def from_dict(cls, data: Any, where: str = "layout", *, header: bool = True) -> Layout:
+        """Build from a parsed layout object, checking its structure.
+
+        ``where`` starts every message (the file name). With ``header=False``
+        the ``format`` and ``version`` fields are optional (a layout inside
+        another file). ``"stroke": null`` and ``"physics": null`` mean none.
+        Geometric problems are not raised here: see :meth:`problems`.
+        """
+        _check_numbers(data, where)
+        if not isinstance(data, Mapping):
+            raise LayoutError(f"{where}: the top level must be a JSON object "
+                              f"{{\"format\": {FORMAT!r}, ...}}, not {_kind(data)}")
+        for key in data:
+            if key not in LAYOUT_KEYS:
+                raise LayoutError(f"{where}: unknown field {key!r}, must be one of "
+                                  f"{', '.join(LAYOUT_KEYS)}")
+        if header or "format" in data:
+            _check_format(data, where)
+        if header or "version" in data:
+            _check_version(data, where)
+        table = _table_from_json(data.get("table", _MISSING), where)
+        if "balls" not in data:
+            raise LayoutError(f"{where}: balls: missing, must be an object of ball id: [x, y] "
+                              "(metres from the cushion noses)")
+        balls = _balls_from_json(data["balls"], where)
+        stroke = None
+        if data.get("stroke") is not None:
+            try:
+                stroke = Stroke.from_dict(data["stroke"], where=f"{where}: stroke")
+            except StrokeError as e:
+                raise LayoutError(str(e)) from e
+        physics: tuple[tuple[str, Any], ...] = ()
+        if data.get("physics") is not None:
+            try:
+                Physics.from_dict(data["physics"], where=f"{where}: physics")
+            except PhysicsError as e:
+                raise LayoutError(str(e)) from e
+            physics = tuple(data["physics"].items())
+        texts = {}
+        for key in ("title", "note"):
+            value = data.get(key, "")
+            if value is None:
+                value = ""
+            if not isinstance(value, str):
+                raise LayoutError(f"{where}: {key}: {_show(value)} is not text, must be a string")
+            texts[key] = value
+        return cls(table=table, balls=balls, stroke=stroke, physics_overrides=physics, **texts)
+
+    @classmethod
+    def from_json(cls, text: str, where: str = "layout") -> Layout:
+        """Parse a layout file's text; ``where`` starts every message."""
+        return cls.from_dict(parse_json(text, where), where)
+
+    def save(self, path: str | os.PathLike[str]) -> None:
+        """Write the layout file atomically: the old file stays whole until the new one is."""
+        save_layout(self, path)
+
+    def __repr__(self) -> str:
+        parts = [repr(self.table), repr(dict(self.balls))]
+        if self.stroke is not None:
+            parts.append(f"stroke={self.stroke!r}")
+        if self.physics_overrides:
+            parts.append(f"physics_overrides={dict(self.physics_overrides)!r}")
+        if self.title:
+            parts.append(f"title={self.title!r}")
+        if self.note:
+            parts.append(f"note={self.note!r}")
+        return f"Layout({', '.join(parts)})"
+
+
+_NUMBER_ARRAY = re.compile(r"\[\n\s*([-+0-9.eE]+(?:,\n\s*[-+0-9.eE]+)*)\n\s*\]")
+
+
+# -------------------------------------------------------------- load / save
+def load_layout(path: str | os.PathLike[str], *, strict: bool = True) -> Layout:
+    """Read a layout file.
+
+    Every fault raises :class:`LayoutError` with one line that starts with the
+    file name, names the field and says what would be valid, e.g.
+    ``club.json: balls.3: [1.0, 9.0] is off the table (the table is 2.54 x 1.27 m)``.
+    With ``strict=False`` the layout's problems (see :meth:`Layout.problems`)
+    do not raise, so they can be shown; structural faults still do.
+    """
+    name = str(path)
+    layout = Layout.from_dict(read_json_file(path), name)
+    if strict:
+        problems = layout.problems()
+        if problems:
+            more = f" (and {len(problems) - 1} more)" if len(problems) > 1 else ""
+            raise LayoutError(f"{name}: {problems[0]}{more}")
+    return layout
+
+
+def save_layout(layout: Layout, path: str | os.PathLike[str]) -> None:
+    """Write ``layout`` to ``path`` atomically (never a half-written file).
+
+    A layout with problems can be saved (work in progress); one whose table
+    is not a preset plus overrides cannot.
+    """
+    check_output_path(path)
+    atomic_write_text(path, layout.to_json())
+
+
+def read_json_file(path: str | os.PathLike[str], max_bytes: int = MAX_FILE_BYTES) -> Any:
+    """Read and parse a JSON file, turning every way it can fail into one
+    :class:`LayoutError` line that starts with the file name."""
+    name = str(path)
+    p = Path(path)
+    try:
+        st = p.stat()
+    except (FileNotFoundError, NotADirectoryError):
+        raise LayoutError(f"{name}: no such file") from None
+    except OSError as e:
+        raise LayoutError(f"{name}: cannot read: {e.strerror or e}") from None
+    except ValueError as e:  # a NUL byte in the name
+        raise LayoutError(f"{name!r}: not a usable file name ({e})") from None
+    if stat.S_ISDIR(st.st_mode):
+        raise LayoutError(f"{name}: is a folder, not a file")
+    if stat.S_ISREG(st.st_mode) and st.st_size > max_bytes:
+        raise LayoutError(f"{name}: the file is too large ({st.st_size / 1e6:.1f} MB), "
+                          f"files are at most {max_bytes / (1024 * 1024):g} MB")
+    try:
+        with open(p, "rb") as fh:
+            data = fh.read(max_bytes + 1)
+    except OSError as e:
+        raise LayoutError(f"{name}: cannot read: {e.strerror or e}") from None
+    if len(data) > max_bytes:
+        raise LayoutError(f"{name}: the file is too large, files are at most "
+                          f"{max_bytes / (1024 * 1024):g} MB")
+    try:
+        text = data.decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        raise LayoutError(f"{name}: not UTF-8 text (byte 0x{data[e.start]:02x} at offset "
+                          f"{e.start}); save the file as UTF-8") from None
+    return parse_json(text, name)
+
+
+def parse_json(text: str, where: str) -> Any:
+    """Parse JSON text strictly: NaN, Infinity, numbers beyond 1e9 in size and
+    repeated keys are refused, with the field they are in."""
+    if not text.strip():
+        raise LayoutError(f"{where}: the file is empty, expected a JSON object "
+                          f"{{\"format\": {FORMAT!r}, ...}}")
+    try:
+        data = json.loads(
+            text,
+            parse_constant=_BadNumber,
+            parse_float=_parse_float,
+            parse_int=_parse_int,
+            object_pairs_hook=_object,
+        )
+    except json.JSONDecodeError as e:
+        raise LayoutError(f"{where}: line {e.lineno}, column {e.colno}: "
+                          f"not valid JSON ({e.msg})") from None
+    except RecursionError:
+        raise LayoutError(f"{where}: nested too deeply to be a layout") from None
+    _check_numbers(data, where)
+    return data
+
+
+# ------------------------------------------------------------------- racks
+def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[float, float]]:
+    """Ball positions of a standard rack, with the cue ball on the head string.
+
+    The apex ball sits on the foot spot and the rack opens toward the foot
+    cushion, as the trade racks them (WPA rules of play, from memory). ``8-ball``: a
+    triangle of fifteen, the 8 in the middle of the third row, a solid and a stripe in the
+    back corners. ``9-ball``: a diamond of nine, the 1 at the apex and the 9 in
+    the middle. Neighbours are ``gap_m`` apart (0: touching). The cue ball is
+    on the head spot (head string, long string).
+
+    Returns ball id -> (x, y), the cue ball first, then the balls by number.
+    """
+    if kind not in RACKS:
+        raise LayoutError(f"{kind!r} is not a rack, must be one of {', '.join(RACKS)}")
+    if not isinstance(table, TableSpec):
+        raise LayoutError(f"rack: table must be a TableSpec, not {type(table).__name__}")
+    if table.game != "pool" or table.head_string_x_m is None:
+        raise LayoutError(f"rack: {kind} racks are for pool tables, {table.name!r} is a "
+                          f"{table.game} table")
+    if isinstance(gap_m, bool) or not isinstance(gap_m, int | float) \
+            or not math.isfinite(gap_m) or not 0.0 <= gap_m <= 0.02:
+        raise LayoutError(f"rack: gap_m {gap_m!r} is out of range, must be between 0 and 0.02 m")
+    geo = _geometry(table)
+    fx, fy = geo.spot("foot spot")
+    pitch = table.ball.diameter_m + gap_m
+    row_step = pitch * math.sqrt(3.0) / 2.0  # rows of a close-packed triangle
+    if kind == "8-ball":
+        rows = [["1"], ["9", "2"], ["10", "8", "3"], ["11", "4", "12", "5"],
+                ["6", "13", "14", "7", "15"]]
+    else:
+        rows = [["1"], ["2", "3"], ["4", "9", "5"], ["6", "7"], ["8"]]
+    out: dict[str, tuple[float, float]] = {"cue": (table.head_string_x_m, table.width_m / 2)}
+    placed: dict[str, tuple[float, float]] = {}
+    for k, row in enumerate(rows):
+        for j, ball in enumerate(row):
+            placed[ball] = (fx + k * row_step, fy + (j - (len(row) - 1) / 2) * pitch)
+    for ball in sorted(placed, key=int):
+        out[ball] = placed[ball]
+    bad = [b for b, ok in zip(out, geo.is_legal(np.array(list(out.values()))), strict=True)
+           if not ok]
+    if bad:
+        raise LayoutError(f"rack: the {kind} rack does not fit on the {table.name} table "
+                          f"(ball {bad[0]!r} would be off the bed or in a cushion)")
+    return out
+
+
+# ----------------------------------------------------------------- helpers
+class _Missing:
+    def __repr__(self) -> str:
+        return "<missing>"
+
+
+_MISSING: Any = _Missing()
+
+
+class _BadNumber:
+    """Stands for a number the file should not hold (NaN, Infinity, 1e999);
+    kept as its text so the message can quote it with its field."""
+
+    __slots__ = ("text",)
+
+    def __init__(self, text: str):
+        self.text = text
+
+    def __repr__(self) -> str:
+        return self.text
+
+
+class _Object(dict):
+    """A parsed JSON object that had a key twice (``duplicate`` is the key)."""
+
+    duplicate: str = ""
+
+
+def _parse_float(text: str) -> float | _BadNumber:
+    value = float(text)
+    return value if math.isfinite(value) and abs(value) <= _MAX_ABS else _BadNumber(text)
+
+
+def _parse_int(text: str) -> int | _BadNumber:
+    # Long digit strings never reach int(): Python refuses > 4300 digits with
+    # a ValueError, and anything past 1e9 is refused anyway.
+    if len(text.lstrip("-")) > 12:
+        return _BadNumber(text if len(text) <= 20 else text[:12] + "...")
+    value = int(text)
+    return value if abs(value) <= _MAX_ABS else _BadNumber(text)
+
+
+def _object(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
+    out: dict[str, Any] = {}
+    for key, value in pairs:
+        if key in out:
+            dup = _Object(out)
+            dup.duplicate = key
+            out = dup
+        out[key] = value
+    return out
+
+
+def _check_numbers(data: Any, where: str) -> None:
+    """Refuse repeated keys and numbers no field can mean (NaN, Infinity,
+    beyond 1e9), naming the field. Iterative, so any depth the JSON parser
+    accepted can be walked."""
+    stack: list[tuple[Any, str]] = [(data, "")]
+    while stack:
+        value, path = stack.pop()
+        label = f"{where}: {path}" if path else where
+        if isinstance(value, _Object) and value.duplicate:
+            raise LayoutError(f"{label}: the field {value.duplicate!r} appears twice")
+        if isinstance(value, _BadNumber):
+            what = ("is not a number" if value.text.lstrip("-") in ("NaN", "Infinity")
+                    else "is too large")
+            raise LayoutError(f"{label}: {value.text} {what}, numbers must be finite and "
+                              "at most 1e9 in size")
+        if isinstance(value, float) and (not math.isfinite(value) or abs(value) > _MAX_ABS):
+            raise LayoutError(f"{label}: {value!r} is not a usable number, numbers must be "
+                              "finite and at most 1e9 in size")
+        if isinstance(value, int) and not isinstance(value, bool) and abs(value) > _MAX_ABS:
+            # str() of a huge int is slow, and refused past 4300 digits
+            text = (str(value) if abs(value) < 10**20
+                    else f"an integer near 1e{int(abs(value).bit_length() * math.log10(2))}")
+            raise LayoutError(f"{label}: {text} is too large, numbers must be at most "
+                              "1e9 in size")
+        if isinstance(value, Mapping):
+            for k, v in value.items():
+                stack.append((v, _field(path, k)))
+        elif isinstance(value, list | tuple):
+            for i, v in enumerate(value):
+                stack.append((v, f"{path}[{i}]"))
+
+
+def _check_format(data: Mapping[str, Any], where: str) -> None:
+    if "format" not in data:
+        raise LayoutError(f"{where}: format: missing, a layout file has "
+                          f"\"format\": \"{FORMAT}\"")
+    if data["format"] != FORMAT:
+        raise LayoutError(f"{where}: format: {_show(data['format'])} is not a layout file "
+                          f"format, must be \"{FORMAT}\"")
+
+
+def _check_version(data: Mapping[str, Any], where: str) -> None:
+    if "version" not in data:
+        raise LayoutError(f"{where}: version: missing, must be {VERSION}")
+    v = data["version"]
+    if isinstance(v, bool) or not isinstance(v, int):
+        raise LayoutError(f"{where}: version: {_show(v)} is not a version number, "
+                          f"must be {VERSION}")
+    if v != VERSION:
+        raise LayoutError(f"{where}: version: {v} is not supported, this shotplan reads "
+                          f"layout version {VERSION}")
+
+
+def _table_from_json(value: Any, where: str) -> TableSpec:
+    presets = ", ".join(PRESETS)
+    if value is _MISSING:
+        raise LayoutError(f"{where}: table: missing, must be a preset name ({presets}) or "
+                          "an object with \"preset\" and measured values")
+    if isinstance(value, str):
+        try:
+            return TableSpec.preset(value)
+        except LayoutError as e:
+            raise LayoutError(f"{where}: table: {e}") from None
+    if isinstance(value, Mapping):
+        if "preset" not in value:
+            raise LayoutError(f"{where}: table.preset: missing, must be one of {presets}")
+        name = value["preset"]
+        if not isinstance(name, str):
+            raise LayoutError(f"{where}: table.preset: {_show(name)} is not a preset name, "
+                              f"must be one of {presets}")
+        try:
+            spec = TableSpec.preset(name)
+        except LayoutError as e:
+            raise LayoutError(f"{where}: table.preset: {e}") from None
+        overrides = {k: v for k, v in value.items() if k != "preset"}
+        return spec.with_overrides(overrides, where=f"{where}: table")
+    raise LayoutError(f"{where}: table: {_show(value)} is not a table, must be a preset name "
+                      f"({presets}) or an object with \"preset\" and measured values")
+
+
+def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
+    # Files hold a preset plus overrides; check that this rebuilds the very
+    # spec, or the file would silently describe another table.
+    overrides = dict(spec.overrides)
+    base = PRESETS.get(spec.name)
+    rebuilt = base.with_overrides(overrides) if base is not None else None
+    if rebuilt is None or rebuilt != _with_overrides_field(spec, rebuilt.overrides):
+        raise LayoutError(f"table {spec.name!r} cannot be written: it is not a preset with "
+                          "measured overrides (build it with TableSpec.preset(...)."
+                          "with_overrides(...))")
+    if not overrides:
+        return spec.name
+    return {"preset": spec.name, **overrides}
+
+
+def _with_overrides_field(spec: TableSpec, overrides: tuple[tuple[str, Any], ...]) -> TableSpec:
+    return dataclasses.replace(spec, overrides=overrides)
+
+
+def _balls_from_json(value: Any, where: str) -> tuple[tuple[str, tuple[float, float]], ...]:
+    if not isinstance(value, Mapping):
+        raise LayoutError(f"{where}: balls: must be an object of ball id: [x, y] "
+                          f"(metres from the cushion noses), not {_kind(value)}")
+    out = []
+    for ball, xy in value.items():
+        if not isinstance(ball, str) or not ball:
+            raise LayoutError(f"{where}: balls: {_show(ball)} is not a ball id")
+        if (
+            not isinstance(xy, list | tuple)
+            or len(xy) != 2
+            or any(isinstance(c, bool) or not isinstance(c, int | float) for c in xy)
+        ):
+            raise LayoutError(f"{where}: {_field('balls', ball)}: {_show(xy)} is not a position, "
+                              "must be [x, y], two numbers in metres from the cushion noses")
+        out.append((ball, (float(xy[0]), float(xy[1]))))
+    return tuple(out)
+
+
+def _normalise_balls(balls: Any) -> tuple[tuple[str, tuple[float, float]], ...]:
+    items: Iterable[Any] = balls.items() if isinstance(balls, Mapping) else balls
+    out = []
+    seen = set()
+    for item in items:
+        try:
+            ball, xy = item
+            x, y = xy
+        except (TypeError, ValueError):
+            raise LayoutError(f"layout: balls: {item!r} is not a (ball id, (x, y)) pair") from None
+        if not isinstance(ball, str) or not ball:
+            raise LayoutError(f"layout: balls: {ball!r} is not a ball id (a non-empty string)")
+        if ball in seen:
+            raise LayoutError(f"layout: balls: {ball!r} appears twice")
+        seen.add(ball)
+        for c in (x, y):
+            if isinstance(c, bool) or not isinstance(c, int | float | np.integer | np.floating):
+                raise LayoutError(f"layout: balls.{ball}: {xy!r} is not a position, must be "
+                                  "two numbers (m)")
+        fx, fy = float(x), float(y)
+        if not (math.isfinite(fx) and math.isfinite(fy)):
+            raise LayoutError(f"layout: balls.{ball}: {xy!r} is not a finite position")
+        out.append((ball, (fx, fy)))
+    return tuple(out)
+
+
+_RAIL_NAMES = {(0.0, 1.0): "right rail", (0.0, -1.0): "left rail",
+               (1.0, 0.0): "head rail", (-1.0, 0.0): "foot rail"}
+
+
+def _placement_message(geo: Table, p: np.ndarray) -> str:
+    """Why a ball centre at ``p`` is not legal (it is known not to be)."""
+    x, y = float(p[0]), float(p[1])
+    k = int(geo.pocket_at(p[None, :])[0])
+    if k >= 0:
+        pocket = geo.pockets[k]
+        (dx, dy), (ax, ay) = pocket.drop_centre, pocket.axis
+        if (x - dx) * ax + (y - dy) * ay >= 0.0:
+            return f"{_pos(p)} is in the {pocket.name} pocket (past its drop line)"
+    inside = 0.0 <= x <= geo.length and 0.0 <= y <= geo.width
+    if not inside and not shapely.contains_xy(geo.bed, x, y):
+        return (f"{_pos(p)} is off the table (the table is {geo.length:.4g} x "
+                f"{geo.width:.4g} m)")
+    # On the cloth but into the rubber: name the nearest cushion or jaw.
+    best, what = math.inf, "cushion"
+    for x0, y0, x1, y1, nx, ny, kind, k in geo.cushion_lines:
+        d = _segment_distance(x, y, x0, y0, x1, y1)
+        if d < best:
+            best = d
+            what = (f"the {_RAIL_NAMES.get((float(nx), float(ny)), 'rail')} cushion"
+                    if kind == LINE_RAIL else f"the jaw of the {geo.pockets[int(k)].name} pocket")
+    for cx, cy, r, k in geo.tip_circles:
+        d = max(math.hypot(x - cx, y - cy) - r, 0.0)
+        if d < best:
+            best, what = d, f"the jaw of the {geo.pockets[int(k)].name} pocket"
+    overlap = geo.contact_offset - best
+    return (f"{_pos(p)} overlaps {what} by {_mm(overlap)} mm (a ball's centre must be at "
+            f"least {_mm(geo.contact_offset)} mm from the cushion nose)")
+
+
+def _segment_distance(px: float, py: float, x0: float, y0: float, x1: float, y1: float) -> float:
+    dx, dy = x1 - x0, y1 - y0
+    l2 = dx * dx + dy * dy
+    t = 0.0 if l2 == 0 else min(1.0, max(0.0, ((px - x0) * dx + (py - y0) * dy) / l2))
+    return math.hypot(px - (x0 + t * dx), py - (y0 + t * dy))
+
+
+_PLAIN_KEY = re.compile(r"[A-Za-z0-9_+-]+")
+
+
+def _field(path: str, key: Any) -> str:
+    """``path.key``, or ``path["odd key"]`` when the key would not read plainly
+    (a space, a dot, a newline...), so a message stays one unambiguous line."""
+    key = str(key)
+    if _PLAIN_KEY.fullmatch(key):
+        return f"{path}.{key}" if path else key
+    return f"{path}[{json.dumps(key)}]"
+
+
+def _pos(p: Any) -> str:
+    return f"[{round(float(p[0]), 4)!r}, {round(float(p[1]), 4)!r}]"
+
+
+def _mm(value_m: float) -> str:
+    v = value_m * 1000.0
+    return f"{v:.1f}" if abs(v) >= 0.1 else f"{v:.2g}"
+
+
+def _kind(value: Any) -> str:
+    if isinstance(value, bool):
+        return "true/false"
+    if value is None:
+        return "null"
+    if isinstance(value, Mapping):
+        return "an object"
+    if isinstance(value, list | tuple):
+        return "a list"
+    if isinstance(value, str):
+        return "a string"
+    if isinstance(value, int | float):
+        return "a number"
+    return type(value).__name__
+
+
+def _show(value: Any, limit: int = 60) -> str:
+    """A value as it looks in the file, cut short."""
+    try:
+        text = json.dumps(value, ensure_ascii=False, allow_nan=True, default=repr)
+    except (TypeError, ValueError):
+        text = repr(value)
+    return text if len(text) <= limit else text[: limit - 3] + "..."
