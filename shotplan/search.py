@@ -38,7 +38,7 @@ from .stroke import Stroke, speed_word
 from .table import Table
 
 __all__ = ["Shot", "Rejected", "SearchResult", "find_shots", "KINDS", "TIPS", "tip_height",
-           "default_speed"]
+           "default_speed", "aim_direct"]
 
 KINDS = ("direct", "bank", "kick", "combination")
 """Kinds of shot the search knows."""
@@ -535,6 +535,7 @@ def find_shots(
     speed: float | None = None,
     tip: str = "stun",
     side: float = 0.0,
+    height: float | None = None,
     top: int | None = None,
     allow_scratch: bool = False,
     max_cut_deg: float = MAX_CUT_DEG,
@@ -554,6 +555,8 @@ def find_shots(
         Launch speed for every shot; default: a sensible pace per shot.
     tip, side
         Tip choice (:data:`TIPS`) and side offset (ball radii) for every shot.
+    height
+        Tip height (ball radii) for every shot, instead of the tip choice.
     allow_scratch
         Keep shots that pocket the cue ball too (flagged ``scratch``).
     """
@@ -717,7 +720,7 @@ def find_shots(
 
     shots: list[Shot] = []
     for cand in cands:
-        shot, why = _evaluate(ctx, table, cand, speed, tip, side, allow_scratch)
+        shot, why = _evaluate(ctx, table, cand, speed, tip, side, allow_scratch, height)
         if shot is None:
             reject(cand.kind, cand.balls, cand.pocket, cand.rails, why)
         else:
@@ -730,7 +733,8 @@ def find_shots(
 
 
 def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None, tip: str,
-              side: float, allow_scratch: bool) -> tuple[Shot | None, str]:
+              side: float, allow_scratch: bool, height: float | None = None
+              ) -> tuple[Shot | None, str]:
     phys = ctx.sim.physics
     cue = ctx.cue
     target = _pocket_target(table, cand.pocket)
@@ -745,7 +749,7 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
     why = "misses in simulation"
     found = None
     for v in speeds:
-        h = tip_height(tip, v, max(cand.cue_distance, 0.0), phys)
+        h = height if height is not None else tip_height(tip, v, max(cand.cue_distance, 0.0), phys)
         phi, e0 = _refine(ctx, err, phi_ghost, v, side, h)
         if phi is None:
             continue
@@ -805,10 +809,33 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
         speed_mps=v,
         side=side,
         height=h,
-        tip=tip,
+        tip=tip if height is None else "custom",
         cue_finish=cue_finish,
         scratch=scratch,
         cue_distance_m=cand.cue_distance,
         object_distance_m=cand.object_path,
         difficulty=difficulty,
     ), ""
+
+
+def aim_direct(layout: Any, ball: str, pocket: str, speed: float, side: float, height: float,
+               physics: Physics | None = None) -> float | None:
+    """The cue direction (degrees) that sends ``ball`` at the middle of
+    ``pocket`` as a direct cut with these settings, corrected in simulation
+    for throw and squirt; None if the cut cannot be made (no window search:
+    this is the cheap call for sweeps over settings)."""
+    phys = physics if physics is not None else layout.physics()
+    sim = simulator_for(layout.table, phys)
+    table = sim.table
+    positions = layout.positions()
+    ids = list(positions)
+    pos = np.array([positions[i] for i in ids], dtype=float)
+    ctx = _Context(sim, ids, pos)
+    b = ids.index(ball)
+    pk = table.pocket_index(pocket)
+    target = _pocket_target(table, pk)
+    a = aim_at(pos[ctx.cue], pos[b], target, sim.radius)
+    cand = _Candidate("direct", (ball,), pk, (), b, b, target, a.ghost, a.ghost, a.cut_deg,
+                      a.cue_distance, a.object_distance)
+    phi, _throw = _refine(ctx, _error_fn(ctx, cand, target), a.direction_deg, speed, side, height)
+    return phi
