@@ -1,0 +1,339 @@
+"""Drill files (reading, checking, round trips), the error model, the
+Monte Carlo runner, the drill sheet, and the ``shotplan drill`` command."""
+
+from __future__ import annotations
+
+import copy
+import io
+import json
+import math
+import re
+from dataclasses import replace
+from pathlib import Path
+
+import pytest
+
+from shotplan.cli import main
+from shotplan.drills import (
+    DEFAULT_LEVEL,
+    LEVELS,
+    Drill,
+    PlayerErrors,
+    ProgressBar,
+    Station,
+    load_drill,
+    plan_station,
+    save_drill,
+    simulate_station,
+)
+from shotplan.equipment import TableSpec
+from shotplan.errors import InputError
+from shotplan.layout import Layout, save_layout
+from shotplan.position import Zone
+from shotplan.stroke import Stroke
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "assets" / "drills" / "club-night-drills.json"
+LAYOUTS = ROOT / "assets" / "layouts"
+
+INLINE = {"table": "pool-9ft", "balls": {"cue": [0.8, 0.62], "3": [1.16, 1.02]}}
+BASE = {
+    "format": "shotplan-drill",
+    "version": 1,
+    "title": "Test drill",
+    "stations": [
+        {"name": "one", "layout": "lay.json", "ball": "1", "pocket": "foot-left",
+         "zone": {"circle": [1.95, 0.92, 0.12]},
+         "stroke": {"direction_deg": 29.29, "speed_mps": 2.0, "height": -0.3}},
+        {"name": "two", "layout": copy.deepcopy(INLINE), "ball": "3", "pocket": "side-left"},
+    ],
+}
+
+
+@pytest.fixture
+def folder(tmp_path):
+    """A folder with a layout file ``lay.json`` (from the first demo layout)."""
+    (tmp_path / "lay.json").write_text((LAYOUTS / "club-night-1-straight-in.json").read_text())
+    return tmp_path
+
+
+def write(folder: Path, data, name: str = "drill.json") -> Path:
+    path = folder / name
+    path.write_text(data if isinstance(data, str) else json.dumps(data))
+    return path
+
+
+def run(capsys, *argv):
+    code = main([str(a) for a in argv])
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+# ------------------------------------------------------------ reading
+def test_demo_drill_loads_with_paths_and_an_inline_layout():
+    drill = load_drill(DEMO)
+    assert drill.title and len(drill.stations) >= 3
+    refs = [s.layout_ref for s in drill.stations]
+    assert any(r is not None and r.startswith("../layouts/") for r in refs)
+    assert any(r is None for r in refs)  # one inline layout
+    assert any(s.zone is not None and s.zone.polygon for s in drill.stations)
+    assert any(s.zone is not None and s.zone.circle for s in drill.stations)
+    assert any(s.stroke is None for s in drill.stations)  # settings to be found
+    assert any(s.stroke is not None for s in drill.stations)
+
+
+def test_round_trip_in_place_and_to_another_folder(folder, tmp_path_factory):
+    path = write(folder, BASE)
+    drill = load_drill(path)
+    assert drill.to_dict() == BASE | {"stations": [
+        BASE["stations"][0] | {"stroke": Stroke(29.29, 2.0, 0.0, -0.3).to_dict()},
+        BASE["stations"][1]]}
+    again = folder / "again.json"
+    save_drill(drill, again)
+    assert load_drill(again) == drill
+    assert json.loads(again.read_text()) == drill.to_dict()
+    # Saved elsewhere, the layout path is rewritten so it still finds the file.
+    other = tmp_path_factory.mktemp("elsewhere") / "sub"
+    other.mkdir()
+    moved = other / "drill.json"
+    save_drill(drill, moved)
+    back = load_drill(moved)
+    assert back != drill  # the path as written differs...
+    assert [replace(s, layout_ref=None) for s in back.stations] == \
+        [replace(s, layout_ref=None) for s in drill.stations]  # ...and nothing else
+    ref = back.stations[0].layout_ref
+    assert ref is not None and ref.endswith("lay.json") and ref.startswith("..")
+    # The demo too.
+    demo = load_drill(DEMO)
+    out = DEMO.parent / ".." / "drills" / "club-night-drills.json"  # the same folder
+    assert load_drill(out) == demo
+    copy_path = other / "demo.json"
+    save_drill(demo, copy_path)
+    assert [replace(s, layout_ref=None) for s in load_drill(copy_path).stations] == \
+        [replace(s, layout_ref=None) for s in demo.stations]
+
+
+def test_drill_from_values_round_trips(tmp_path):
+    lay = Layout(TableSpec.preset("pool-8ft"), {"cue": (0.5, 0.5), "2": (1.2, 0.7)},
+                 title="made in code")
+    drill = Drill("Made in code", (
+        Station("a", lay, "2", "foot-left", Zone.polygon_of([(1.5, 0.5), (1.8, 0.5), (1.6, 0.8)]),
+                Stroke(20.0, 1.8, 0.1, 0.2), "a note"),
+        Station("b", lay, "2", "side-left"),
+    ), note="top note")
+    path = tmp_path / "made.json"
+    save_drill(drill, path)
+    assert load_drill(path) == drill
+
+
+# ----------------------------------------------- bad drill files: one line, exit 2
+def station0(**changes):
+    data = copy.deepcopy(BASE)
+    for k, v in changes.items():
+        if v is None:
+            data["stations"][0].pop(k, None)
+        else:
+            data["stations"][0][k] = v
+    return data
+
+
+def top(**changes):
+    data = copy.deepcopy(BASE)
+    for k, v in changes.items():
+        if v is None:
+            data.pop(k, None)
+        else:
+            data[k] = v
+    return data
+
+
+BAD = [
+    ("bad-json", '{"format": "shotplan-drill",, }', "not valid JSON"),
+    ("empty", "", "the file is empty"),
+    ("top-list", "[1, 2]", "the top level must be a JSON object"),
+    ("no-format", top(format=None), "format: missing"),
+    ("layout-format", top(format="shotplan-layout"), "is not a drill file format, must be "
+                                                     "\"shotplan-drill\""),
+    ("version-2", top(version=2), "version: 2 is not supported"),
+    ("version-text", top(version="1"), "is not a version number"),
+    ("unknown-top", top(titel="x"), "unknown field 'titel'"),
+    ("no-title", top(title=None), "title: missing"),
+    ("empty-title", top(title="  "), "title: is empty"),
+    ("no-stations", top(stations=None), "stations: missing"),
+    ("stations-empty", top(stations=[]), "stations: the list is empty"),
+    ("stations-object", top(stations={"a": 1}), "stations: must be a list"),
+    ("station-number", top(stations=[3]), "stations[0]: must be a station object"),
+    ("station-unknown", station0(zones={}), "stations[0]: unknown field 'zones'"),
+    ("no-name", station0(name=None), "stations[0]: name: missing"),
+    ("no-ball", station0(ball=None), "stations[0]: ball: missing"),
+    ("unknown-pocket", station0(pocket="foot-centre"),
+     "stations[0]: pocket: \"foot-centre\" is not a pocket of the pool-9ft table, must be one of"),
+    ("ball-not-on-layout", station0(ball="9"), "stations[0]: ball: '9' is not on the layout"),
+    ("ball-is-cue", station0(ball="cue"), "'cue' is the cue ball"),
+    ("ball-number", station0(ball=1), "ball: 1 is not a ball id"),
+    ("zone-radius", station0(zone={"circle": [1.9, 0.9, 0]}), "zone.circle: radius 0 must be"),
+    ("zone-kind", station0(zone={"oval": [1, 1]}), "zone: unknown field 'oval'"),
+    ("zone-crossing", station0(zone={"polygon": [[1, 0.2], [1.5, 0.6], [1.5, 0.2], [1, 0.6]]}),
+     "zone.polygon: the edges cross"),
+    ("zone-off-table", station0(zone={"circle": [4.0, 3.0, 0.2]}), "zone: circle r 0.20 m at "
+                                                                   "(4.00, 3.00) lies off the table"),
+    ("layout-missing", station0(layout="nowhere.json"), "stations[0]: layout: "),
+    ("layout-number", station0(layout=5), "layout: 5 is not a layout"),
+    ("inline-unknown", station0(layout={"table": "pool-9ft", "balls": {}, "bals": 1}),
+     "stations[0]: layout: unknown field 'bals'"),
+    ("inline-ball-off", station0(layout={"table": "pool-9ft",
+                                         "balls": {"cue": [0.5, 0.5], "1": [3.0, 0.5]}}),
+     "stations[0]: layout: balls.1: [3.0, 0.5] is off the table"),
+    ("inline-version", station0(layout={"format": "shotplan-layout", "version": 3,
+                                        "table": "pool-9ft", "balls": {"cue": [0.5, 0.5]}}),
+     "layout: version: 3 is not supported"),
+    ("no-pockets", station0(layout={"table": "carom", "balls": {"cue": [0.5, 0.5],
+                                                                "red": [1.5, 0.7]}},
+                            ball="red"), "the carom table has no pockets"),
+    ("stroke-speed", station0(stroke={"direction_deg": 0, "speed_mps": -1}),
+     "stroke.speed_mps: -1.0 is out of range"),
+    ("stroke-miscue", station0(stroke={"direction_deg": 0, "speed_mps": 2, "side": 0.4,
+                                       "height": -0.4}), "is beyond the miscue limit 0.5 R"),
+    ("nan", json.dumps(BASE).replace("[1.95, 0.92, 0.12]", "[1.95, NaN, 0.12]"),
+     "stations[0].zone.circle[1]: NaN is not a number"),
+    ("duplicate-key", json.dumps(BASE).replace('"title": "Test drill"',
+                                               '"title": "a", "title": "b"'),
+     "the field 'title' appears twice"),
+    ("name-number", station0(name=3), "name: 3 is not text"),
+]
+
+
+@pytest.mark.parametrize("case, content, fragment", BAD, ids=[c[0] for c in BAD])
+def test_bad_drill_files(folder, capsys, case, content, fragment):
+    path = write(folder, content)
+    out_dir = folder / "out"
+    out_dir.mkdir()
+    before = sorted(p.name for p in folder.rglob("*"))
+    code, out, err = run(capsys, "drill", path, "--trials", "5", "-o", out_dir / "sheet.pdf")
+    assert code == 2, (case, out, err)
+    lines = err.strip().splitlines()
+    assert len(lines) == 1, err
+    assert lines[0].startswith(f"shotplan: error: {path}"), lines[0]
+    assert fragment in lines[0], lines[0]
+    assert "Traceback" not in err and out == ""
+    assert sorted(p.name for p in folder.rglob("*")) == before  # nothing written
+
+
+def test_layout_file_with_a_problem_names_both_files(folder, capsys):
+    bad = Layout(TableSpec.preset("pool-9ft"), {"cue": (0.5, 0.5), "1": (0.51, 0.5)})
+    save_layout(bad, folder / "overlap.json")
+    path = write(folder, station0(layout="overlap.json"))
+    code, _out, err = run(capsys, "drill", path, "--trials", "5")
+    assert code == 2
+    assert re.search(r"stations\[0\]: layout: .*overlap\.json: balls\.1: .* overlaps ball 'cue'",
+                     err), err
+
+
+@pytest.mark.parametrize("argv, fragment", [
+    (["--level", "pro"], "'pro' is not a player level, must be one of starter, club"),
+    (["--level", "club", "--aim-sd", "0.2"], "exclude each other"),
+    (["--aim-sd", "-1"], "aim-sd -1.0 is out of range"),
+    (["--tip-sd", "nan"], "is not a finite number"),
+    (["--speed-sd", "80"], "speed-sd 80.0 is out of range"),
+    (["--trials", "0"], "out of range"),
+    (["-o", "sheet.png"], "unsupported file type '.png', must end in one of .pdf"),
+])
+def test_bad_drill_options(folder, capsys, argv, fragment):
+    path = write(folder, BASE)
+    argv = [str(folder / a) if a.startswith("sheet.") else a for a in argv]
+    before = sorted(p.name for p in folder.iterdir())
+    code, out, err = run(capsys, "drill", path, *argv)
+    assert code == 2
+    lines = err.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("shotplan: error:") and fragment in lines[0]
+    assert sorted(p.name for p in folder.iterdir()) == before
+
+
+# -------------------------------------------------------- error model
+def test_levels_are_ordered_and_described():
+    names = list(LEVELS)
+    assert names == ["starter", "club", "strong", "elite"] and DEFAULT_LEVEL in LEVELS
+    for a, b in zip(names, names[1:], strict=False):
+        ea, eb = LEVELS[a], LEVELS[b]
+        assert eb.aim_sd_deg < ea.aim_sd_deg and eb.speed_sd_pct < ea.speed_sd_pct
+        assert eb.tip_sd < ea.tip_sd
+    assert "club player (aim 0.15\u00b0, speed 8 %, tip 0.04 R" in LEVELS["club"].describe()
+    with pytest.raises(InputError, match="aim-sd"):
+        PlayerErrors(float("inf"), 1.0, 0.0)
+    with pytest.raises(InputError, match="tip-sd 0.6 is out of range"):
+        PlayerErrors(0.1, 1.0, 0.6)
+
+
+def test_no_errors_repeat_the_planned_shot():
+    # With every error 0 each trial is the planned stroke: all or nothing.
+    drill = load_drill(DEMO)
+    plan = plan_station(drill.stations[0])
+    res = simulate_station(plan, PlayerErrors(0.0, 0.0, 0.0), trials=20, seed=1)
+    assert res.pocket.successes in (0, 20) and res.position.successes in (0, 20)
+    assert res.pocket.successes == 20  # the planner only picks settings that pocket
+    assert res.position.successes == 20  # ... and, found for a zone, reach it
+
+
+def test_progress_bar_only_on_a_terminal():
+    class Tty(io.StringIO):
+        def isatty(self):
+            return True
+
+    tty, pipe = Tty(), io.StringIO()
+    for stream in (tty, pipe):
+        bar = ProgressBar(100, "station 1/1", stream=stream)
+        for k in range(0, 101, 10):
+            bar(k)
+        bar.close()
+    assert pipe.getvalue() == ""
+    text = tty.getvalue()
+    assert text.count("\r") == 11 and text.endswith("100.0 %\n") and "station 1/1 [" in text
+
+
+# ---------------------------------------------------------- the command
+def test_drill_command_json_and_sheet(folder, capsys):
+    path = write(folder, BASE)
+    sheet = folder / "sheet.pdf"
+    code, out, err = run(capsys, "drill", path, "--trials", "300", "--seed", "4", "--json",
+                         "-o", sheet)
+    assert code == 0, err
+    doc = json.loads(out)
+    assert doc["trials"] == 300 and doc["seed"] == 4 and doc["level"]["name"] == "club"
+    assert len(doc["stations"]) == 2
+    for st in doc["stations"]:
+        for key in ("pocket_rate", "position_rate", "both_rate"):
+            r = st[key]
+            lo, hi = r["ci95"]
+            assert 0.0 <= lo <= r["rate"] <= hi <= 1.0
+            assert r["rate"] == pytest.approx(r["successes"] / 300)
+        assert st["both_rate"]["successes"] <= min(st["pocket_rate"]["successes"],
+                                                   st["position_rate"]["successes"])
+    assert doc["stations"][0]["station"] == "one"
+    assert doc["stations"][0]["settings"]["source"] == "file"
+    assert doc["stations"][1]["settings"]["source"] == "shot search"
+    assert doc["stations"][1]["position_means"].startswith("cue ball stays on the table")
+    pdf = sheet.read_bytes()
+    assert pdf[:5] == b"%PDF-" and len(re.findall(rb"/Type\s*/Page\b", pdf)) == 2
+    for k in (1, 2):
+        assert (folder / f"sheet-{k}.png").read_bytes()[:4] == b"\x89PNG"
+    assert doc["wrote"] == [str(sheet), str(folder / "sheet-1.png"), str(folder / "sheet-2.png")]
+    # readable table, custom numbers, same seed same numbers
+    code, out, err = run(capsys, "drill", path, "--trials", "300", "--seed", "4",
+                         "--aim-sd", "0.15", "--speed-sd", "8", "--tip-sd", "0.04")
+    assert code == 0, err
+    assert "custom errors (aim 0.15\u00b0, speed 8 %, tip 0.04 R" in out
+    one = doc["stations"][0]["pocket_rate"]
+    assert f"{100 * one['rate']:.1f} % ({100 * one['ci95'][0]:.1f}-" in out
+    assert re.search(r"^#\s+station\s+pocketed\s+position\s+both", out, re.M)
+
+
+def test_demo_drill_runs_and_finds_zone_settings(capsys):
+    code, out, err = run(capsys, "drill", DEMO, "--trials", "200", "--level", "strong", "--json")
+    assert code == 0, err
+    doc = json.loads(out)
+    sources = {st["settings"]["source"] for st in doc["stations"]}
+    assert sources == {"file", "shot search", "position search"}
+    for st in doc["stations"]:
+        assert st["pocket_rate"]["rate"] > 0.3, st["station"]
+        assert math.isfinite(st["settings"]["direction_deg"])
+        assert "speed (" in st["settings"]["words"]
