@@ -31,6 +31,7 @@ from .state import (
     P_E_C,
     P_E_C_SLOPE,
     P_E_J,
+    P_M,
     P_MU_B,
     P_MU_C,
     P_MU_J,
@@ -48,6 +49,13 @@ JAM_EVENTS = 64
 """Events at (nearly) one instant after which the balls involved are taken as
 jammed and stopped (an inelastic collapse: infinitely many ever-smaller
 impacts in finite time, as between a jaw tip and a jaw face)."""
+
+JAM_CREEP_MPS = 1e-5
+"""Two balls that meet JAM_EVENTS times in a row, each time approaching at
+less than this speed (m/s, a hundredth of a millimetre per second), are
+jammed as well: one pushing the other (a rolling ball that keeps catching up
+with the ball ahead) gives an endless run of ever-smaller impacts whose
+spacing ends at the rounding of the contact time, not at one instant."""
 
 
 @jit
@@ -136,6 +144,8 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
     n_ev = 0
     t_last = 0.0
     same_instant = 0
+    pair_run = np.zeros((n, n), dtype=np.int64)
+    m_ball = prm[P_M]
     status = STATUS_DONE
     while True:
         # Earliest event
@@ -166,10 +176,11 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
         t_last = t
         kind = 0
         elem = -1
+        impulse = 0.0
         if b >= 0:
             advance(a, t, pos, vel, om, st, tref, prm)
             advance(b, t, pos, vel, om, st, tref, prm)
-            ball_ball(a, b, pos, vel, om, prm, e_b, mu_b)
+            impulse = ball_ball(a, b, pos, vel, om, prm, e_b, mu_b)
             kind = EV_COLLISION
         else:
             advance(a, t, pos, vel, om, st, tref, prm)
@@ -186,6 +197,16 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
                 else:
                     hx = lines[elem, 4]
                     hy = lines[elem, 5]
+                    if kind == EV_JAW:
+                        # Beyond the face's far end: the corner there, whose
+                        # normal points from the corner to the ball's centre.
+                        ex = pos[a, 0] - lines[elem, 2]
+                        ey = pos[a, 1] - lines[elem, 3]
+                        if ex * (lines[elem, 2] - lines[elem, 0]) + ey * (
+                                lines[elem, 3] - lines[elem, 1]) > 0.0:
+                            en = math.hypot(ex, ey)
+                            hx = ex / en
+                            hy = ey / en
                 if kind == EV_CUSHION:
                     ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_C], prm[P_E_C_SLOPE],
                                  prm[P_MU_C])
@@ -199,7 +220,17 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
                 om[a, 0] = 0.0
                 om[a, 1] = 0.0
                 om[a, 2] = 0.0
-        if same_instant >= JAM_EVENTS:
+        jammed_pair = False
+        if b >= 0:
+            # Approach speed of this impact: impulse = (1 + e) m v_n / 2.
+            if impulse <= 0.5 * (1.0 + e_b) * m_ball * JAM_CREEP_MPS:
+                pair_run[a, b] += 1
+            else:
+                pair_run[a, b] = 0
+            if pair_run[a, b] >= JAM_EVENTS:
+                jammed_pair = True
+                pair_run[a, b] = 0
+        if same_instant >= JAM_EVENTS or jammed_pair:
             # Jammed: stop the balls of this event where they are.
             vel[a, 0] = 0.0
             vel[a, 1] = 0.0

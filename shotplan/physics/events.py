@@ -7,7 +7,8 @@ Between events every ball moves on ``r(t) = r0 + v0 t + a t^2 / 2``, so
   the nose line equals the contact offset: a quadratic (then checked to lie
   within the segment);
 * a ball meets a rounded jaw tip when ``|r(t) - c|^2 - (rho + R_eff)^2 = 0``:
-  a quartic;
+  a quartic; the sharp corner where a jaw face ends on the drop line is the
+  same with rho = 0;
 * a ball falls when its centre crosses a pocket's drop line: a quadratic.
 
 Each search runs on ``[0, horizon]``, the horizon being the next change of
@@ -93,8 +94,9 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
 def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf):  # type: ignore[no-untyped-def]
     """Ball i's next event of its own: (absolute time, kind, element index,
     absolute time of its next change of state). ``t_now`` must equal the
-    ball's reference time. Element: line index for cushion/jaw faces,
-    1000000 + circle index for jaw tips, pocket index for a drop."""
+    ball's reference time. Element: line index for cushion/jaw faces (and
+    for the corner at a jaw face's far end), 1000000 + circle index for jaw
+    tips, pocket index for a drop."""
     s = st[i]
     R = prm[P_R]
     if s == SPINNING:
@@ -134,8 +136,13 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         x0, y0, x1, y1 = lines[k, 0], lines[k, 1], lines[k, 2], lines[k, 3]
         nx, ny = lines[k, 4], lines[k, 5]
         dist = (x - x0) * nx + (y - y0) * ny - reff
-        if dist > reach or dist < -reff:
-            continue  # out of reach, or behind this nose (elsewhere on the table)
+        if dist > reach or dist < -reff - reach:
+            # Out of reach in front, or so far behind the line (the extension
+            # of a jaw face crosses the table) that the ball cannot even get
+            # back in front of it. A ball only a little behind can: a curved
+            # (sliding) path may cross the extension and come back onto the
+            # face from the front.
+            continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
         c[2] = 0.5 * (ax * nx + ay * ny)
@@ -152,6 +159,30 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
                 best = t
                 kind = EV_CUSHION if lines[k, 6] == 0.0 else EV_JAW
                 elem = k
+        if lines[k, 6] != 0.0:
+            # A jaw face ends on the drop line in a sharp corner of rubber
+            # (the rail noses end where the rounded tips take over, smoothly).
+            # A ball that comes at that corner from beyond the face's end
+            # meets the corner itself: a circle of radius 0 there.
+            qx = x - x1
+            qy = y - y1
+            if math.hypot(qx, qy) - reff <= reach:
+                bx = 0.5 * ax
+                by = 0.5 * ay
+                c[0] = qx * qx + qy * qy - reff * reff
+                c[1] = 2.0 * (qx * vx + qy * vy)
+                c[2] = vx * vx + vy * vy + 2.0 * (qx * bx + qy * by)
+                c[3] = 2.0 * (vx * bx + vy * by)
+                c[4] = bx * bx + by * by
+                t = first_down_crossing(c, 4, best, buf)
+                if t < best:
+                    px = x + vx * t + 0.5 * ax * t * t
+                    py = y + vy * t + 0.5 * ay * t * t
+                    dx, dy = x1 - x0, y1 - y0
+                    if (px - x1) * dx + (py - y1) * dy > 0.0:  # beyond the face's end
+                        best = t
+                        kind = EV_JAW
+                        elem = k
     # Rounded jaw tips
     for k in range(circles.shape[0]):
         cx, cy, rho = circles[k, 0], circles[k, 1], circles[k, 2]
@@ -181,9 +212,13 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             continue
         dx, dy = x1 - x0, y1 - y0
         L2 = dx * dx + dy * dy
-        s0 = ((x - x0) * dx + (y - y0) * dy) / L2
-        if s0 < -1.0 or s0 > 2.0:
-            continue  # far to the side: another part of the table
+        # Out of reach along the line too? (The ball moves at most ``reach``
+        # before its next change of state; a filter on the position alone
+        # would skip a ball still far from a pocket that is rolling into it.)
+        L = math.sqrt(L2)
+        along = ((x - x0) * dx + (y - y0) * dy) / L
+        if along < -0.05 * L - reach or along > 1.05 * L + reach:
+            continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
         c[2] = 0.5 * (ax * nx + ay * ny)

@@ -45,22 +45,27 @@ class Physics:
     cloth_sliding_friction: float = 0.2
     """Ball-cloth sliding friction mu_s. Published 0.15-0.25 (Marlow 1995);
     Mathavan, Jackson & Parkin (2010) fit 0.212 for the table."""
-    cloth_rolling_resistance: float = 0.01
+    cloth_rolling_resistance: float = 0.008
     """Rolling resistance mu_r (rolling deceleration over g). Published
-    0.005-0.015 (Marlow 1995; Leckie & Greenspan 2005)."""
+    0.005-0.015 (Marlow 1995; Leckie & Greenspan 2005); 0.008 for a
+    tournament worsted cloth (from memory: such cloth is at the fast end)."""
     cloth_spin_friction: float = 0.01
     """Spin friction mu_sp: spin about the vertical decays at
     ``5 mu_sp g / (2 R)`` rad/s^2. From memory: a ball spinning in place with
     30 rad/s stops in about 2-3 s, which this value gives."""
-    cushion_restitution: float = 0.85
+    cushion_restitution: float = 0.9
     """Cushion restitution on the normal velocity at low speed. Published
-    0.6-0.9, falling with speed (Marlow 1995; Han 2005)."""
+    0.6-0.9, falling with speed (Marlow 1995; Han 2005); Mathavan, Jackson &
+    Parkin (2010) fit 0.98 with their compliant model. 0.9 is the value in
+    that range with which a table built to the standard passes its own
+    rebound test (WPA: a firm centre-ball stroke travels at least 4 table
+    lengths; see ``shotplan.cushion_fit.standard_rebound_test``)."""
     cushion_restitution_slope: float = 0.0
     """Fall of cushion restitution per m/s of normal speed:
     ``e = max(e0 - slope * v_n, 0.05)``. 0 (constant) unless fitted."""
     cushion_friction: float = 0.14
     """Ball-cushion friction. Mathavan, Jackson & Parkin (2010) fit 0.14."""
-    jaw_restitution: float = 0.85
+    jaw_restitution: float = 0.9
     """Restitution of the jaw faces and tips: the same rubber, so the
     cushion's default."""
     jaw_friction: float = 0.14

@@ -152,8 +152,9 @@ def _roots_by_isolation(c, n, lo, hi, crit, ncrit, out, k0):  # type: ignore[no-
 @jit
 def real_roots(c, n, lo, hi, out):  # type: ignore[no-untyped-def]
     """All real roots of ``c[0..n]`` (n <= 4) in ``[lo, hi]``, sorted, into
-    ``out`` (length >= 4). Returns how many. Touching (double) roots are
-    reported where the polynomial reaches zero exactly or changes sign."""
+    ``out`` (length >= 8: up to five are written before duplicates go).
+    Returns how many. Touching (double) roots are reported where the
+    polynomial reaches zero exactly or changes sign."""
     n = _effective_degree(c, n, lo, hi)
     if n <= 2:
         return _roots_upto2(c, n, lo, hi, out, 0)
@@ -184,6 +185,37 @@ def real_roots(c, n, lo, hi, out):  # type: ignore[no-untyped-def]
 
 
 @jit
+def _after_sign(c, n, out, k, i, horizon):  # type: ignore[no-untyped-def]
+    """Sign of p just after its root out[i] (of the k sorted roots in out)."""
+    t = out[i]
+    # The derivative at the root or, where that is zero (a root found at a
+    # critical point: a triple root), the value midway to the next root: p
+    # keeps its sign between consecutive roots, whereas a fixed small step
+    # past the root would sit below the rounding of p there (p ~ (t - r)^3).
+    d = _deriv_eval(c, n, t)
+    if d != 0.0:
+        return d
+    nxt = out[i + 1] if i + 1 < k else horizon
+    if not nxt > t:
+        return 0.0
+    return poly_eval(c, n, 0.5 * (t + nxt))
+
+
+@jit
+def _first_down_root(c, n, horizon, out):  # type: ignore[no-untyped-def]
+    """First root in [0, horizon] where p goes from >= 0 to < 0, or inf."""
+    if c[0] <= 0.0 and c[1] < 0.0:
+        return 0.0
+    k = real_roots(c, n, 0.0, horizon, out)
+    for i in range(k):
+        t = out[i]
+        before = c[0] if i == 0 else poly_eval(c, n, 0.5 * (out[i - 1] + t))
+        if before >= 0.0 and _after_sign(c, n, out, k, i, horizon) < 0.0:
+            return t
+    return math.inf
+
+
+@jit
 def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
     """First time in ``[0, horizon]`` where ``p`` goes from positive to <= 0.
 
@@ -191,26 +223,32 @@ def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
     form): positive apart, zero in contact. If ``p(0) <= 0`` and ``p'(0) < 0``
     the contact is now (0.0). A start at ``p(0) <= 0`` moving apart (just after
     an impact) is not a crossing. Returns ``inf`` when there is none.
+
+    Touching at the start (``p(0) <= 0``, to rounding) and not approaching at
+    first order, the pair is separating only if ``p`` actually becomes
+    positive. If instead ``p`` turns down first (a separation speed at the
+    level of rounding against an acceleration toward each other, as when a
+    rolling ball keeps catching up with the one it pushes), the contact
+    resumes when ``p`` falls back to its starting value: that time is
+    returned, or the pair would pass into each other unseen.
     """
     if c[0] <= 0.0 and c[1] < 0.0:
         return 0.0
     if not horizon > 0.0:
         return math.inf
-    k = real_roots(c, n, 0.0, horizon, out)
-    for i in range(k):
-        t = out[i]
-        # Classify the crossing by the sign just after the root: the
-        # derivative at the root or, where that is zero (a root found at a
-        # critical point: a triple root), the signs midway to the neighbouring
-        # roots. p keeps its sign between consecutive roots, so those values
-        # are the signs before and after; a fixed small step past the root
-        # would sit below the rounding of p there (p ~ (t - r)^3).
-        d = _deriv_eval(c, n, t)
-        if d < 0.0:
-            return t
-        if d == 0.0:
-            nxt = out[i + 1] if i + 1 < k else horizon
-            before = c[0] if i == 0 else poly_eval(c, n, 0.5 * (out[i - 1] + t))
-            if nxt > t and before >= 0.0 and poly_eval(c, n, 0.5 * (t + nxt)) < 0.0:
-                return t
-    return math.inf
+    if c[0] <= 0.0 and n >= 2:
+        # Does p become positive (the pair separates)?
+        k = real_roots(c, n, 0.0, horizon, out)
+        separates = False
+        for i in range(k):
+            if _after_sign(c, n, out, k, i, horizon) > 0.0:
+                separates = True
+                break
+        if not separates:
+            # (p(t) - p(0)) / t = c[1] + c[2] t + ...: where it turns negative,
+            # p is back below its start, the pair approaching.
+            q = np.zeros(5)
+            for j in range(n):
+                q[j] = c[j + 1]
+            return _first_down_root(q, n - 1, horizon, out)
+    return _first_down_root(c, n, horizon, out)
