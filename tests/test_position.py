@@ -73,7 +73,7 @@ def test_follow_goes_on_further_with_speed(shot):
     # Common practice, no source: follow sends the cue ball on after the
     # object ball, and further the harder it is hit.
     lay, ghost = shot
-    pm = position_map(lay, "1", "foot-right", speeds=[0.8, 1.0, 1.25, 1.5], heights=[0.4],
+    pm = position_map(lay, "1", "foot-right", speeds=[0.7, 0.85, 1.0, 1.15], heights=[0.4],
                       sides=[0.0])
     assert all(f.pocketed for f in pm.finishes)
     dist = [along(f.cue_finish, ghost) for f in pm.finishes]
