@@ -36,7 +36,8 @@ check: $(TSTAMP)
 	$(VENV)/bin/mypy shotplan
 
 screenshots: $(STAMP)
-	$(PY) tools/make_screenshots.py
+	$(PY) tools/make_diagrams.py
+	SDL_VIDEODRIVER=dummy $(PY) tools/make_screenshots.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info
