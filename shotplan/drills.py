@@ -72,7 +72,7 @@ import numpy as np
 
 from .errors import InputError, LayoutError
 from .fileio import atomic_write_text, check_output_path
-from .layout import Layout, load_layout, read_json_file
+from .layout import Layout, _kind, _show, load_layout, read_json_file
 from .position import Zone, _Player, setting_words, zone_words
 from .stroke import Stroke
 
@@ -883,25 +883,3 @@ def _text(value: Any, where: str, required: bool = False) -> str:
     return value
 
 
-def _kind(value: Any) -> str:
-    if isinstance(value, bool):
-        return "true/false"
-    if value is None:
-        return "null"
-    if isinstance(value, Mapping):
-        return "an object"
-    if isinstance(value, list | tuple):
-        return "a list"
-    if isinstance(value, str):
-        return "a string"
-    if isinstance(value, int | float):
-        return "a number"
-    return type(value).__name__
-
-
-def _show(value: Any, limit: int = 60) -> str:
-    try:
-        text = json.dumps(value, ensure_ascii=False, default=repr)
-    except (TypeError, ValueError):
-        text = repr(value)
-    return text if len(text) <= limit else text[: limit - 3] + "..."
