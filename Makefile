@@ -21,9 +21,7 @@ $(TSTAMP): pyproject.toml | $(PY)
 	touch $(STAMP) $@
 
 run: $(STAMP)
-	@mkdir -p out
-	$(VENV)/bin/shotplan draw $(DEMO) --paths -o out/demo.png
-	@echo "The table view is not built yet: the demo layout is drawn in out/demo.png"
+	$(VENV)/bin/shotplan view $(DEMO)
 
 test: $(TSTAMP)
 	$(PY) -m pytest

@@ -65,6 +65,8 @@ __all__ = [
     "polygon_shapes",
     "arrow_head",
     "figure_size",
+    "outcome_shapes",
+    "shot_scene",
 ]
 
 

@@ -1,0 +1,1073 @@
+"""The table view: :class:`App` joins the model, the prediction, the drawing and the widgets.
+
+The loop is the one pygame_gui shapes: :meth:`App.process_event` for each
+event (True if it was used), :meth:`App.update` once per frame with the time
+step, :meth:`App.draw` onto the window, all joined by :meth:`App.run`. Only
+:meth:`App.run` (and the ``shotplan view`` command) starts pygame's display;
+a test builds an :class:`App`, initialises pygame itself with the dummy video
+driver and drives it with synthetic events.
+
+Pointer (on the table):
+
+* drag a ball to move it (it stops at the nearest free legal place);
+* click an object ball, then a pocket: aim that ball at that pocket;
+* drag on the cloth, or drag with the right button (or Ctrl held) from
+  anywhere: aim the cue freely, toward the pointer; the wheel turns it finely;
+* click the cue-ball face in the panel to set the tip.
+
+The keys are listed in :data:`KEYS` and shown by F1 (or ``?``).
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import time
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import pygame
+import pygame_gui
+from pygame_gui.windows import UIConfirmationDialog, UIFileDialog, UIMessageWindow
+
+from ..aim import direction_deg, overlap_word
+from ..equipment import TableSpec
+from ..errors import ShotplanError
+from ..fileio import atomic_path, check_output_path
+from ..layout import Layout, load_layout, save_layout
+from ..scene import Scene, Shape, layout_scene, shot_scene, table_scene
+from ..search import tip_height
+from .draw import Painter, TableCache, rgb
+from .layers import aim_layer, balls_layer, cue_layer, prediction_layer, selection_layer, window_layer
+from .panels import Panels, RecoveryDialog
+from .predict import Predictor
+from .recovery import (
+    Recovered,
+    default_recovery_path,
+    discard_recovery,
+    read_recovery,
+    set_aside,
+    write_recovery,
+)
+from .state import FreeAim, Playback, PocketAim, ViewState
+from .transform import Transform, to_diamonds
+
+__all__ = ["App", "KEYS", "DEFAULT_SIZE", "new_layout", "theme_resource", "DEFAULT_RECOVERY"]
+
+DEFAULT_SIZE = (1280, 800)
+"""The window's size when it opens, px."""
+
+BACKGROUND = "#171918"
+"""Behind the table: a dark, slightly warm grey that lets the rail read."""
+
+AUTOSAVE_DELAY_S = 0.5
+"""The recovery file is written this long after the last edit (view time, s)."""
+
+DRAG_PX = 4
+"""A press becomes a drag once the pointer has moved this far, px."""
+
+DIAGRAM_SUFFIXES = (".png", ".svg", ".pdf")
+"""What Export writes."""
+
+KEYS: tuple[tuple[str, str], ...] = (
+    ("F1  or  ?", "show or hide this list"),
+    ("Ctrl+O / Ctrl+S", "open a layout / save it"),
+    ("Ctrl+Shift+S", "save as a new file"),
+    ("Ctrl+E", "export the view (PNG, SVG, PDF)"),
+    ("Ctrl+Z / Ctrl+Y", "undo / redo (Ctrl+Shift+Z redoes too)"),
+    ("Space", "play or pause the shot"),
+    ("Home", "back to the start of the shot"),
+    ("P", "playback speed: real time, half, quarter, tenth"),
+    ("Left / Right", "turn the cue 0.1\u00b0 (with Shift 1\u00b0)"),
+    ("Up / Down", "speed +/- 0.05 m/s (with Shift 0.5)"),
+    ("Tab / Shift+Tab", "select the next / previous object ball"),
+    ("[  /  ]", "aim the selected ball at the previous / next pocket"),
+    ("N / Shift+N", "take the next / previous proposed shot"),
+    ("0", "tip to the centre of the cue ball"),
+    ("Insert", "add a ball"),
+    ("Delete", "remove the selected ball"),
+    ("F8 / F9", "rack for 8-ball / 9-ball"),
+    ("Ctrl+Delete", "clear the table (the cue ball stays)"),
+    ("Esc", "close, stop the shot, or drop the selection"),
+    ("Ctrl+Q", "quit (unsaved work is kept for the next start)"),
+)
+"""Keyboard shortcuts: (keys, what they do), as the help lists them."""
+
+POINTER: tuple[tuple[str, str], ...] = (
+    ("drag a ball", "move it (it stops clear of balls and cushions)"),
+    ("click a ball, then a pocket", "aim that ball at that pocket"),
+    ("drag on the cloth", "aim the cue toward the pointer (or right-drag)"),
+    ("mouse wheel", "turn the cue finely"),
+    ("click the cue-ball face", "set the tip (inside the dashed miscue limit)"),
+)
+"""Pointer gestures, as the help lists them."""
+
+_DEFAULT: Any = object()
+DEFAULT_RECOVERY: Any = _DEFAULT
+"""Pass as ``recovery_path`` to use :func:`shotplan.view.recovery.default_recovery_path`."""
+
+
+def theme_resource() -> Any:
+    """The view's pygame_gui theme (``shotplan/view/theme.json``, package data)."""
+    return pygame_gui.PackageResource(package="shotplan.view", resource="theme.json")
+
+
+def new_layout(spec: TableSpec) -> Layout:
+    """An empty table of ``spec`` with the cue ball on its head spot (in the D on snooker)."""
+    empty = ViewState(Layout(spec))
+    empty.add_ball("cue")
+    return empty.layout
+
+
+@dataclass
+class _Press:
+    """A pointer gesture in progress on the table."""
+
+    kind: str  # "ball", "cloth" or "aim"
+    start: tuple[int, int]
+    ball: str | None = None
+    offset: tuple[float, float] = (0.0, 0.0)
+    moved: bool = False
+
+
+class App:
+    """The table view.
+
+    Parameters
+    ----------
+    layout
+        The layout to show; ``None`` starts an empty table of ``table``.
+    path
+        The file the layout came from (Save writes there).
+    table
+        Preset for a new layout.
+    load_message
+        A message to show at start (a file that could not be opened).
+    recovery_path
+        Where unsaved work is kept: :data:`DEFAULT_RECOVERY` for the usual
+        place, ``None`` for nowhere (screenshots).
+    offer_recovery
+        Whether to offer back unsaved work found at start.
+    size
+        Window size, px.
+    """
+
+    def __init__(self, layout: Layout | None = None, path: str | None = None, *,
+                 table: str = "pool-9ft", load_message: str = "",
+                 recovery_path: Any = DEFAULT_RECOVERY, offer_recovery: bool = True,
+                 size: tuple[int, int] = DEFAULT_SIZE):
+        if layout is None:
+            layout = new_layout(TableSpec.preset(table))
+        self.state = ViewState(layout, path, load_message)
+        self.predictor = Predictor()
+        self.playback = Playback()
+        self.size = (int(size[0]), int(size[1]))
+        self.running = True
+        self.now = 0.0
+        """The view's clock: the sum of the time steps given to :meth:`update`, s."""
+        self.help_visible = False
+        self.recovery_path: Path | None = (default_recovery_path() if recovery_path is _DEFAULT
+                                           else (Path(recovery_path) if recovery_path else None))
+        self.offer_recovery = offer_recovery
+        self.recovered: Recovered | None = None
+        """Unsaved work found at start, while the question is open."""
+        self.note = ""
+        """The last thing the view said (status line)."""
+        self.hover_pos: tuple[int, int] | None = None
+        self.hover_ball: str | None = None
+        self._note_until = 0.0
+        self._started = False
+        self._press: _Press | None = None
+        self._drag_target: tuple[float, float] | None = None
+        self._tip_drag = False
+        self._dialogs: dict[Any, str] = {}
+        self._recovery_dialog: RecoveryDialog | None = None
+        self._last_rev = self.state.revision
+        self._autosaved_rev = self.state.revision
+        self._edit_time = 0.0
+        self._shapes_key: Any = None
+        self._shapes: list[Shape] = []
+        self._frame: pygame.Surface | None = None
+        self._frame_key: Any = None
+        self._scene: tuple[Any, Scene] | None = None
+        self._caption = ""
+        self.manager: pygame_gui.UIManager | None = None
+        self.panels: Panels | None = None
+
+    # ------------------------------------------------------------- set-up
+    def start(self, size: tuple[int, int] | None = None) -> None:
+        """Build the widgets (pygame's display and fonts must be initialised)."""
+        if self._started:
+            return
+        if size is not None:
+            self.size = (int(size[0]), int(size[1]))
+        self.manager = pygame_gui.UIManager(self.size, theme_resource())
+        # The aim box writes bold with <b>: load that face now, not mid-frame.
+        self.manager.preload_fonts(
+            [{"name": "noto_sans", "point_size": 14, "style": "bold", "antialiased": "1"}])
+        self.painter = Painter()
+        self.table_cache = TableCache(self.painter)
+        self.panels = Panels(self.manager, self.size)
+        self._started = True
+        if self.offer_recovery and self.recovery_path is not None:
+            self._offer_recovery()
+        if self.state.load_message:
+            self._message("Could not open the layout", self.state.load_message)
+
+    def resize(self, size: tuple[int, int]) -> None:
+        """Fit everything to a new window size."""
+        self.size = (max(int(size[0]), 640), max(int(size[1]), 480))
+        if not self._started:
+            return
+        assert self.manager is not None and self.panels is not None
+        self.manager.set_window_resolution(self.size)
+        self.panels.resize(self.size)
+
+    @property
+    def transform(self) -> Transform:
+        """Table metres to window pixels for the current window size."""
+        assert self.panels is not None
+        return Transform.fit(self.scene.bounds, self.panels.regions.table, margin_px=14)
+
+    @property
+    def scene(self) -> Scene:
+        """The static table (drawn again only when the table changes)."""
+        spec = self.state.layout.table
+        if self._scene is None or self._scene[0] != spec:
+            self._scene = (spec, table_scene(self.state.table))
+        return self._scene[1]
+
+    # ----------------------------------------------------------- messages
+    def say(self, text: str, seconds: float = 6.0) -> None:
+        """Show ``text`` in the status line for a while."""
+        self.note = text
+        self._note_until = self.now + seconds
+
+    def _message(self, title: str, text: str) -> None:
+        assert self.manager is not None
+        w, h = 520, 220
+        rect = pygame.Rect((self.size[0] - w) // 2, (self.size[1] - h) // 2, w, h)
+        UIMessageWindow(rect, _escape(text), self.manager, window_title=title)
+        self.say(text)
+
+    def _modal(self) -> bool:
+        """Whether a dialog that must be answered first is open."""
+        # A file dialog kills itself as it posts the path picked, so closed
+        # dialogs stay listed until their event has been handled.
+        if self._recovery_dialog is not None and not self._recovery_dialog.alive():
+            self._recovery_dialog = None
+            if self.recovered is not None:
+                self._keep_recovery()  # closed without an answer
+        return any(w.alive() for w in self._dialogs) or self._recovery_dialog is not None
+
+    # ----------------------------------------------------------- recovery
+    def _offer_recovery(self) -> None:
+        assert self.recovery_path is not None and self.manager is not None
+        try:
+            found = read_recovery(self.recovery_path)
+        except ShotplanError as e:
+            bad = set_aside(self.recovery_path)
+            self.say(f"the recovery file could not be read ({e}); it was kept as {bad}")
+            return
+        if found is None:
+            return
+        self.recovered = found
+        src = f"from {found.source}" if found.source else "on a new layout"
+        when = found.written.replace("T", " ").replace("Z", " UTC") if found.written else "earlier"
+        text = (f"The last session ended with work not saved ({_escape(src)}, kept "
+                f"{_escape(when)}).<br><br>Restore it, or discard it?")
+        self._recovery_dialog = RecoveryDialog(self.manager, self.size, text)
+
+    def _answer_recovery(self, restore: bool) -> None:
+        found = self.recovered
+        self.recovered = None
+        if self._recovery_dialog is not None:
+            self._recovery_dialog.kill()
+            self._recovery_dialog = None
+        if found is None or self.recovery_path is None:
+            return
+        if restore:
+            self.state.restore_snapshot(found.snapshot, found.source)
+            self.say("restored the unsaved work")
+        else:
+            discard_recovery(self.recovery_path)
+            self.say("discarded the unsaved work")
+        self._autosaved_rev = self.state.revision if not restore else -1
+
+    def _keep_recovery(self) -> None:
+        """The question was closed unanswered: the old work is moved to a
+        file of its own (nothing is lost) and this session's autosave goes on."""
+        self.recovered = None
+        if self.recovery_path is None:
+            return
+        stamp = time.strftime("%Y%m%d-%H%M%S")
+        kept = self.recovery_path.with_name(f"recovery-{stamp}.json")
+        try:
+            os.replace(self.recovery_path, kept)
+        except OSError as e:
+            self.say(f"the unsaved work from the last session could not be set aside: {e}")
+            return
+        self.say(f"the unsaved work from the last session was kept in {kept}")
+
+    def _autosave(self, force: bool = False) -> None:
+        st = self.state
+        if self.recovery_path is None or self.recovered is not None:
+            return  # nothing to keep, or the old work is not answered for yet
+        if st.revision == self._autosaved_rev:
+            return
+        if not force and self.now - self._edit_time < AUTOSAVE_DELAY_S:
+            return
+        self._autosaved_rev = st.revision
+        try:
+            if st.dirty:
+                write_recovery(self.recovery_path, st)
+            else:
+                discard_recovery(self.recovery_path)
+        except (OSError, ShotplanError) as e:
+            self.say(f"the recovery file could not be written: {e}")
+
+    def close(self) -> None:
+        """Write what is unsaved to the recovery file (or remove it if all is saved)."""
+        self._autosave(force=True)
+
+    # -------------------------------------------------------------- files
+    def open_file(self, path: str | os.PathLike[str]) -> bool:
+        """Open a layout; a file with problems opens with them shown, one that
+        cannot be read leaves the current layout and says why."""
+        try:
+            layout = load_layout(path, strict=False)
+        except ShotplanError as e:
+            if self._started:
+                self._message("Could not open the layout", str(e))
+            else:
+                self.state.load_message = str(e)
+            return False
+        self.state.replace_layout(layout, str(path))
+        self.playback.reset()
+        n = len(self.state.problems())
+        self.say(f"opened {path}" + (f": {n} problem{'s' if n > 1 else ''}, shown on the table"
+                                     if n else ""))
+        return True
+
+    def save_file(self, path: str | os.PathLike[str] | None = None) -> bool:
+        """Save the layout with the stroke set up (to its own file if no path)."""
+        target = path if path is not None else self.state.path
+        if target is None:
+            self._file_dialog("save-as")
+            return False
+        try:
+            save_layout(self.state.layout_to_save(), target)
+        except (ShotplanError, OSError) as e:
+            self._message("Could not save", str(e))
+            return False
+        self.state.mark_saved(str(target))
+        if self.recovery_path is not None and self.recovered is None:
+            discard_recovery(self.recovery_path)
+            self._autosaved_rev = self.state.revision
+        self.say(f"saved {target}")
+        return True
+
+    def export_file(self, path: str | os.PathLike[str]) -> bool:
+        """Write the view (the layout, the predicted paths, the ghost ball and
+        the window) as PNG, SVG or PDF, by the file's suffix."""
+        try:
+            out = check_output_path(path, DIAGRAM_SUFFIXES)
+            from ..export import write_scene
+
+            layout = self.state.layout_to_save()
+            pred = self.predictor
+            if pred.outcome is not None:
+                shot = pred.window
+                note = None if layout.note or shot is None else shot.describe()
+                scene = shot_scene(layout, pred.outcome, shot, note=note)
+            else:
+                scene = layout_scene(layout)
+            write_scene(scene, out)
+        except (ShotplanError, OSError) as e:
+            self._message("Could not export", str(e))
+            return False
+        self.say(f"exported {out}")
+        return True
+
+    def _file_dialog(self, purpose: str) -> None:
+        assert self.manager is not None
+        st = self.state
+        here = Path(st.path).resolve().parent if st.path else Path.cwd()
+        stem = Path(st.path).stem if st.path else "layout"
+        titles = {"open": "Open a layout", "save-as": "Save the layout as",
+                  "export": "Export the view (.png, .svg or .pdf)"}
+        initial = {"open": str(here), "save-as": str(here / f"{stem}.json"),
+                   "export": str(here / f"{stem}.png")}[purpose]
+        suffixes = {".json"} if purpose != "export" else set(DIAGRAM_SUFFIXES)
+        w, h = min(640, self.size[0] - 40), min(480, self.size[1] - 40)
+        rect = pygame.Rect((self.size[0] - w) // 2, (self.size[1] - h) // 2, w, h)
+        self._dialogs = {d: p for d, p in self._dialogs.items() if d.alive()}
+        dialog = UIFileDialog(rect, self.manager, window_title=titles[purpose],
+                              allowed_suffixes=suffixes, initial_file_path=initial,
+                              allow_existing_files_only=(purpose == "open"))
+        self._dialogs[dialog] = purpose
+
+    def _confirm_drop(self) -> None:
+        """Ask before an Open replaces unsaved work."""
+        assert self.manager is not None
+        w, h = 440, 220
+        rect = pygame.Rect((self.size[0] - w) // 2, (self.size[1] - h) // 2, w, h)
+        dialog = UIConfirmationDialog(
+            rect, "This layout has changes that are not saved. Open another layout and "
+                  "drop them? (Save first to keep them.)", self.manager,
+            window_title="Unsaved changes", action_short_name="Open another")
+        self._dialogs[dialog] = "confirm-open"
+
+    # ------------------------------------------------------------ actions
+    def do(self, action: str, value: Any = None) -> None:
+        """Carry out one action (a button, a key, a widget's value)."""
+        st = self.state
+        pred = self.predictor
+        try:
+            if action == "open" and st.dirty:
+                self._confirm_drop()
+            elif action in ("open", "save-as", "export"):
+                self._file_dialog(action)
+            elif action == "save":
+                self.save_file()
+            elif action == "undo":
+                self.say("undone" if st.undo() else "nothing to undo")
+            elif action == "redo":
+                self.say("redone" if st.redo() else "nothing to redo")
+            elif action in ("rack-8", "rack-9"):
+                st.set_rack("8-ball" if action == "rack-8" else "9-ball")
+            elif action == "clear":
+                st.clear()
+            elif action == "add":
+                b = st.add_ball()
+                self.say(f"added ball {b}: drag it into place")
+            elif action == "remove":
+                if st.selection is None:
+                    self.say("select a ball first (click it), then remove it")
+                else:
+                    b = st.selection
+                    st.remove_ball(b)
+                    self.say(f"removed ball {b}")
+            elif action == "help":
+                self.help_visible = not self.help_visible
+            elif action == "play":
+                if pred.outcome is None:
+                    self.say("nothing to play: aim the cue first")
+                else:
+                    self.playback.toggle(pred.duration)
+            elif action == "reset":
+                self.playback.reset()
+            elif action == "scrub":
+                self.playback.scrub(float(value), pred.duration)
+            elif action == "rate":
+                self.playback.rate = float(value)
+            elif action == "speed":
+                st.set_speed(float(value), coalesce="speed")
+            elif action == "elevation":
+                st.set_elevation(float(value), coalesce="elevation")
+            elif action == "tip":
+                st.set_tip(float(value[0]), float(value[1]), coalesce="tip")
+            elif action == "tip-preset":
+                self._tip_preset(str(value))
+            elif action == "proposal":
+                st.choose_proposal(int(value))
+                self.say(st.proposals[int(value)].describe())
+            elif action == "recovery":
+                self._answer_recovery(value == "restore")
+            elif action == "quit":
+                self.running = False
+            else:
+                raise ShotplanError(f"{action!r} is not an action of the view")
+        except (ShotplanError, KeyError) as e:
+            self.say(str(e).strip("'\""))
+
+    def _tip_preset(self, tip: str) -> None:
+        st = self.state
+        side = st.settings.side
+        limit = st.miscue_limit
+        if tip == "centre":
+            st.set_tip(0.0, 0.0)
+            return
+        geometry = self.predictor.geometry
+        distance = math.dist(geometry.cue, geometry.ghost) if geometry is not None else 0.5
+        height = tip_height(tip, st.settings.speed_mps, distance, st.physics())
+        height = max(min(height, limit), -limit)
+        st.set_tip(side, height)
+
+    # ------------------------------------------------------------- events
+    def process_event(self, event: pygame.event.Event) -> bool:
+        """Handle one event; True if the view used it."""
+        self.start()
+        assert self.manager is not None and self.panels is not None
+        if event.type == pygame.QUIT:
+            self.running = False
+            return True
+        if event.type in (pygame.VIDEORESIZE,):
+            self.resize(event.size)
+            return True
+        if event.type == pygame.MOUSEMOTION:
+            self.hover_pos = (int(event.pos[0]), int(event.pos[1]))
+            if not self._in_table(self.hover_pos):
+                self.hover_ball = None
+        if self.help_visible and event.type in (pygame.KEYDOWN, pygame.MOUSEBUTTONDOWN):
+            self.help_visible = False
+            return True
+        modal = self._modal()
+        if not modal and self._tip_event(event):
+            return True
+        consumed = bool(self.manager.process_events(event))
+        if event.type == pygame_gui.UI_CONFIRMATION_DIALOG_CONFIRMED and \
+                self._dialogs.get(event.ui_element) == "confirm-open":
+            del self._dialogs[event.ui_element]
+            self._file_dialog("open")
+            return True
+        if event.type == pygame_gui.UI_FILE_DIALOG_PATH_PICKED and event.ui_element in self._dialogs:
+            purpose = self._dialogs.pop(event.ui_element)
+            {"open": self.open_file, "save-as": self.save_file,
+             "export": self.export_file}[purpose](event.text)
+            return True
+        if event.type == pygame_gui.UI_BUTTON_PRESSED and self._recovery_dialog is not None:
+            if event.ui_element is self._recovery_dialog.restore:
+                self.do("recovery", "restore")
+                return True
+            if event.ui_element is self._recovery_dialog.discard:
+                self.do("recovery", "discard")
+                return True
+        action = self.panels.handle(event)
+        if action is not None:
+            self.do(*action)
+            return True
+        if event.type == pygame.MOUSEBUTTONUP:
+            self.state.end_gesture()  # a slider let go ends its undo step
+        if modal:
+            return consumed
+        if event.type in (pygame.MOUSEBUTTONDOWN, pygame.MOUSEBUTTONUP, pygame.MOUSEMOTION,
+                          pygame.MOUSEWHEEL):
+            if consumed and event.type != pygame.MOUSEBUTTONUP and self._press is None:
+                return True
+            return self._table_mouse(event) or consumed
+        if event.type == pygame.KEYDOWN and not consumed:
+            return self._key(event)
+        if event.type == pygame.KEYUP:
+            self.state.end_gesture()
+        return consumed
+
+    def _tip_event(self, event: pygame.event.Event) -> bool:
+        assert self.panels is not None
+        if event.type == pygame.MOUSEBUTTONDOWN and event.button == 1 and \
+                self.panels.face_rect.collidepoint(event.pos):
+            self._tip_drag = True
+            self.do("tip", self.panels.face_tip(event.pos))
+            return True
+        if event.type == pygame.MOUSEMOTION and self._tip_drag:
+            self.do("tip", self.panels.face_tip(event.pos))
+            return True
+        if event.type == pygame.MOUSEBUTTONUP and self._tip_drag:
+            self._tip_drag = False
+            self.state.end_gesture()
+            return True
+        return False
+
+    # pointer on the table
+    def ball_at(self, pos: tuple[float, float]) -> str | None:
+        """The ball under the window position ``pos`` (the nearest within its radius plus a few px)."""
+        t = self.transform
+        x, y = t.to_table(*pos)
+        reach = self.state.table.ball_radius + t.metres(DRAG_PX)
+        best, best_d = None, math.inf
+        for b, (bx, by) in self.state.layout.balls:
+            d = math.hypot(bx - x, by - y)
+            if d <= reach and d < best_d:
+                best, best_d = b, d
+        return best
+
+    def pocket_at(self, pos: tuple[float, float]) -> str | None:
+        """The pocket under the window position ``pos``, if any."""
+        t = self.transform
+        x, y = t.to_table(*pos)
+        for p in self.state.table.pockets:
+            c = ((p.mouth_centre[0] + p.drop_centre[0]) / 2, (p.mouth_centre[1] + p.drop_centre[1]) / 2)
+            if math.hypot(x - c[0], y - c[1]) <= max(0.75 * p.mouth_width_m, t.metres(16)):
+                return p.name
+        return None
+
+    def _in_table(self, pos: tuple[int, int]) -> bool:
+        assert self.panels is not None
+        return pygame.Rect(*self.panels.regions.table).collidepoint(pos)
+
+    def _aim_toward(self, pos: tuple[int, int]) -> None:
+        st = self.state
+        if "cue" not in st.layout.ball_ids:
+            self.say("no cue ball on the table: add one (Insert)")
+            return
+        cue = st.layout.position("cue")
+        x, y = self.transform.to_table(*pos)
+        if math.hypot(x - cue[0], y - cue[1]) < 1e-4:
+            return
+        st.aim_free(direction_deg(cue, (x, y)), coalesce="aim-drag")
+
+    def _table_mouse(self, event: pygame.event.Event) -> bool:
+        st = self.state
+        if event.type == pygame.MOUSEWHEEL:
+            if self.hover_pos is not None and self._in_table(self.hover_pos):
+                return st.nudge_aim(0.1 * event.y, coalesce="wheel")
+            return False
+        pos = (int(event.pos[0]), int(event.pos[1]))
+        if event.type == pygame.MOUSEMOTION:
+            self.hover_pos = pos
+            press = self._press
+            if press is None:
+                self.hover_ball = self.ball_at(pos) if self._in_table(pos) else None
+                return False
+            if not press.moved and math.dist(pos, press.start) >= DRAG_PX:
+                press.moved = True
+                if press.kind == "cloth":
+                    press.kind = "aim"
+            if press.moved:
+                if press.kind == "ball":
+                    x, y = self.transform.to_table(*pos)
+                    self._drag_target = (x + press.offset[0], y + press.offset[1])
+                elif press.kind == "aim":
+                    self._aim_toward(pos)
+            return True
+        if event.type == pygame.MOUSEBUTTONDOWN:
+            if not self._in_table(pos) or event.button not in (1, 3):
+                return False
+            if self.playback.active:
+                self.playback.reset()  # editing shows the balls where they stand
+            mods = pygame.key.get_mods()
+            if event.button == 3 or (mods & pygame.KMOD_CTRL):
+                self._press = _Press("aim", pos, moved=True)
+                self._aim_toward(pos)
+                return True
+            ball = self.ball_at(pos)
+            if ball is not None:
+                bx, by = st.layout.position(ball)
+                x, y = self.transform.to_table(*pos)
+                self._press = _Press("ball", pos, ball, (bx - x, by - y))
+                return True
+            pocket = self.pocket_at(pos)
+            if pocket is not None and st.selection is not None and st.selection != "cue":
+                st.aim_at_pocket(st.selection, pocket)
+                self.say(f"aiming the {st.selection} at the {pocket} pocket")
+                return True
+            self._press = _Press("cloth", pos)
+            return True
+        if event.type == pygame.MOUSEBUTTONUP:
+            press, self._press = self._press, None
+            if press is None:
+                return False
+            if press.kind == "ball":
+                if press.moved:
+                    self._apply_drag(press)
+                else:
+                    st.select(press.ball)
+                    if press.ball != "cue":
+                        self.say(f"ball {press.ball} selected: click a pocket to aim it there")
+            elif press.kind == "cloth" and not press.moved:
+                st.select(None)
+            st.end_gesture()
+            return True
+        return False
+
+    def _apply_drag(self, press: _Press) -> None:
+        if self._drag_target is not None and press.ball is not None:
+            spot = self.state.move_ball(press.ball, self._drag_target, coalesce="drag")
+            if spot is None:
+                self.say("no free place there")
+        self._drag_target = None
+
+    # keys
+    def _key(self, event: pygame.event.Event) -> bool:
+        st = self.state
+        key, mods = event.key, event.mod
+        ctrl = bool(mods & (pygame.KMOD_CTRL | pygame.KMOD_META))
+        shift = bool(mods & pygame.KMOD_SHIFT)
+        text = getattr(event, "unicode", "")
+        if key == pygame.K_F1 or text == "?":
+            self.do("help")
+        elif ctrl and key == pygame.K_o:
+            self.do("open")
+        elif ctrl and key == pygame.K_s:
+            self.do("save-as" if shift else "save")
+        elif ctrl and key == pygame.K_e:
+            self.do("export")
+        elif ctrl and (key == pygame.K_y or (key == pygame.K_z and shift)):
+            self.do("redo")
+        elif ctrl and key == pygame.K_z:
+            self.do("undo")
+        elif ctrl and key == pygame.K_q:
+            self.do("quit")
+        elif ctrl and key == pygame.K_DELETE:
+            self.do("clear")
+        elif key == pygame.K_SPACE:
+            self.do("play")
+        elif key == pygame.K_HOME:
+            self.do("reset")
+        elif key == pygame.K_p:
+            rates = [r for _, r in Playback.RATES]
+            k = rates.index(self.playback.rate) if self.playback.rate in rates else -1
+            self.playback.rate = rates[(k + 1) % len(rates)]
+            self.say(f"playback: {dict((r, n) for n, r in Playback.RATES)[self.playback.rate]}")
+        elif key in (pygame.K_LEFT, pygame.K_RIGHT):
+            step = (1.0 if shift else 0.1) * (1 if key == pygame.K_LEFT else -1)
+            if not st.nudge_aim(step):
+                self.say("aim first: the arrows turn the cue")
+        elif key in (pygame.K_UP, pygame.K_DOWN):
+            step = (0.5 if shift else 0.05) * (1 if key == pygame.K_UP else -1)
+            st.set_speed(st.settings.speed_mps + step, coalesce="speed-key")
+        elif key == pygame.K_TAB:
+            self._cycle_ball(-1 if shift else 1)
+        elif key in (pygame.K_LEFTBRACKET, pygame.K_RIGHTBRACKET):
+            self._cycle_pocket(-1 if key == pygame.K_LEFTBRACKET else 1)
+        elif key == pygame.K_n:
+            if st.proposals:
+                k = 0 if st.chosen is None else (st.chosen + (-1 if shift else 1)) % len(st.proposals)
+                self.do("proposal", k)
+            else:
+                self.say("no proposed shot (yet)")
+        elif key in (pygame.K_0, pygame.K_KP0):
+            self.do("tip-preset", "centre")
+        elif key == pygame.K_INSERT:
+            self.do("add")
+        elif key in (pygame.K_DELETE, pygame.K_BACKSPACE):
+            self.do("remove")
+        elif key == pygame.K_F8:
+            self.do("rack-8")
+        elif key == pygame.K_F9:
+            self.do("rack-9")
+        elif key == pygame.K_ESCAPE:
+            if self.playback.active:
+                self.playback.reset()
+            else:
+                st.select(None)
+        else:
+            return False
+        return True
+
+    def _cycle_ball(self, step: int) -> None:
+        balls = self.state.object_balls
+        if not balls:
+            return
+        cur = self.state.selection
+        k = balls.index(cur) + step if cur in balls else (0 if step > 0 else -1)
+        self.state.select(balls[k % len(balls)])
+
+    def _cycle_pocket(self, step: int) -> None:
+        st = self.state
+        ball = st.selection if st.selection not in (None, "cue") else (
+            st.aim.ball if isinstance(st.aim, PocketAim) else None)
+        if ball is None:
+            self.say("select an object ball first (Tab)")
+            return
+        names = [p.name for p in st.table.pockets]
+        if not names:
+            return
+        cur = st.aim.pocket if isinstance(st.aim, PocketAim) and st.aim.ball == ball else None
+        k = names.index(cur) + step if cur in names else (0 if step > 0 else -1)
+        st.aim_at_pocket(ball, names[k % len(names)])
+
+    # ------------------------------------------------------------- update
+    def update(self, dt: float) -> None:
+        """Advance the view by ``dt`` seconds: apply the drag, bring the
+        prediction up to date, move the animation, autosave, refresh the widgets."""
+        self.start()
+        assert self.manager is not None and self.panels is not None
+        dt = max(0.0, float(dt))
+        st = self.state
+        self._modal()  # notices a question closed unanswered
+        self._note_edit()  # edits made by the events since the last frame
+        self.now += dt
+        if self._press is not None and self._press.kind == "ball" and self._drag_target is not None:
+            assert self._press.ball is not None
+            if st.move_ball(self._press.ball, self._drag_target, coalesce="drag") is None:
+                self.say("no free place there")
+            self._drag_target = None
+        self._note_edit()
+        dragging = self._press is not None and self._press.moved
+        self.predictor.update(st, self.now, dragging)
+        self.playback.advance(dt, self.predictor.duration)
+        self._autosave()
+        if self.note and self.now > self._note_until:
+            self.note = ""
+        self.panels.sync(st, self.predictor, self.playback, self.status_text(), self.title_text(),
+                         self.aim_html(), self.now, dragging)
+        self.manager.update(dt)
+        if pygame.display.get_init() and pygame.display.get_surface() is not None:
+            caption = f"shotplan \u2014 {self.title_text()}"
+            if caption != self._caption:
+                self._caption = caption
+                pygame.display.set_caption(caption)
+
+    def _note_edit(self) -> None:
+        if self.state.revision != self._last_rev:
+            self._last_rev = self.state.revision
+            self._edit_time = self.now
+            self.playback.reset()  # the shot shown is no longer the one set up
+
+    def settle(self, max_seconds: float = 30.0) -> None:
+        """Update until the prediction and the proposals are complete."""
+        self.update(0.0)
+        self.predictor.settle(self.state, self.now, max_seconds)
+        self.update(0.0)
+
+    # --------------------------------------------------------------- text
+    def title_text(self) -> str:
+        """The layout's title (or file name), and whether it is unsaved."""
+        st = self.state
+        name = st.layout.title or (Path(st.path).name if st.path else "new layout")
+        return name + (" (unsaved)" if st.dirty else "")
+
+    def status_text(self) -> str:
+        """Pointer position in mm and diamonds, and the last message."""
+        parts = []
+        pos = self.hover_pos
+        if pos is not None and self._in_table(pos):
+            x, y = self.transform.to_table(*pos)
+            table = self.state.table
+            da, dc = to_diamonds(x, y, table.length, table.width)
+            parts.append(f"x {x * 1000:6.0f} mm   y {y * 1000:5.0f} mm   "
+                         f"\u00b7   {da:4.2f} diamonds along, {dc:4.2f} across")
+        if self.note:
+            parts.append(self.note)
+        elif not parts:
+            parts.append("F1 lists the keys")
+        return "     |     ".join(parts)
+
+    def aim_html(self) -> str:
+        """What the aim box says: the aim, the cut, the window, the outcome."""
+        st, pred = self.state, self.predictor
+        if st.problems():
+            n = len(st.problems())
+            return (f"<font color='#e5533d'>The layout has {n} problem{'s' if n > 1 else ''} "
+                    "(balls outlined in red).</font> Drag a ball to a free place to fix it.")
+        aim = st.aim
+        if aim is None:
+            return ("Not aimed. Click an object ball, then a pocket; or drag on the cloth; "
+                    "or take a shot from the list below.")
+        lines = []
+        d = st.direction_deg
+        if isinstance(aim, PocketAim):
+            via = f" off the {' then '.join(aim.rails)}" if aim.rails else ""
+            cue = f", cue at {d:.2f}\u00b0" if d is not None else ""
+            lines.append(f"<b>{'-'.join(aim.sequence)}</b> into <b>{aim.pocket}</b> "
+                         f"({aim.kind}{via}){cue}")
+        elif isinstance(aim, FreeAim):
+            lines.append(f"Free aim, cue at {aim.direction_deg:.2f}\u00b0")
+        g = pred.geometry
+        if g is not None:
+            lines.append(f"Cut {g.cut_deg:.1f}\u00b0, ball-hit {g.fraction:.2f} "
+                         f"({overlap_word(g.fraction)})")
+        w = pred.window
+        if w is not None:
+            inside = pred.in_window(st)
+            where = "" if isinstance(aim, PocketAim) else (
+                " \u00b7 aim inside" if inside else " \u00b7 <font color='#e5533d'>aim outside</font>")
+            lines.append(f"Window {w.window_deg:.2f}\u00b0 ({w.window_mm:.0f} mm){where}")
+        elif pred.window_note and isinstance(aim, PocketAim):
+            lines.append(f"<font color='#e5533d'>No window: {_escape(pred.window_note)}</font>")
+        out = pred.outcome
+        if out is not None:
+            potted = out.pocketed()
+            if "cue" in potted:
+                lines.append("<font color='#e5533d'>Scratch: the cue ball falls</font>")
+            balls = [b for b in potted if b != "cue"]
+            if balls:
+                lines.append("Pockets " + ", ".join(f"{b} ({potted[b]})" for b in balls))
+            elif "cue" not in potted:
+                lines.append("No ball pocketed")
+        elif pred.message:
+            lines.append(f"<font color='#e5533d'>{_escape(pred.message)}</font>")
+        return "<br>".join(lines)
+
+    # --------------------------------------------------------------- draw
+    def _dynamic_shapes(self) -> list[Shape]:
+        st, pred = self.state, self.predictor
+        play = self.playback
+        t = play.t if play.active and pred.outcome is not None else None
+        aimed = st.aim.pocket if isinstance(st.aim, PocketAim) else None
+        key = (st.layout, st.selection, self.hover_ball, id(pred.outcome), pred.geometry,
+               id(pred.window), st.direction_deg, st.settings.elevation_deg, t, aimed,
+               tuple(p.ball for p in st.problems()))
+        if key == self._shapes_key:
+            return self._shapes
+        table = st.table
+        R = table.ball_radius
+        shapes: list[Shape] = []
+        positions = st.layout.positions()
+        if pred.window is not None and "cue" in positions and t is None:
+            shapes += window_layer(pred.window, positions["cue"], R)
+        if pred.outcome is not None:
+            shapes += prediction_layer(pred.outcome, table)
+        if pred.geometry is not None and t is None:
+            shapes += aim_layer(pred.geometry, R)
+        hidden: list[str] = []
+        if t is not None:
+            positions = pred.outcome.positions(t)
+            hidden = [b for b, tp in pred.pocket_times().items() if t >= tp]
+        problem_balls = [p.ball for p in st.problems() if p.ball]
+        shapes += balls_layer(positions, R, problem_balls, hidden)
+        d = st.direction_deg
+        if d is not None and "cue" in positions and t is None:
+            shapes += cue_layer(positions["cue"], d, R, st.settings.elevation_deg)
+        invite = st.selection is not None and st.selection != "cue" and aimed is None
+        shapes += selection_layer(table, positions, st.selection, self.hover_ball, aimed, invite)
+        self._shapes_key, self._shapes = key, shapes
+        return shapes
+
+    def draw(self, surface: pygame.Surface) -> None:
+        """Draw the whole window onto ``surface``."""
+        self.start()
+        assert self.manager is not None and self.panels is not None
+        size = surface.get_size()
+        if size != self.size:
+            self.resize(size)
+        transform = self.transform
+        clip = pygame.Rect(*self.panels.regions.table)
+        # The table area is drawn on its own surface, through the same
+        # transform shifted to that surface's corner.
+        local = Transform(transform.scale, transform.origin_x - clip.left,
+                          transform.origin_y - clip.top, transform.bounds,
+                          (0, 0, clip.width, clip.height))
+        table = self.table_cache.surface(self.scene, local, clip.size, BACKGROUND)
+        shapes = self._dynamic_shapes()
+        # The table with everything on it is kept while nothing changes (most
+        # frames), so an idle frame is one blit and the widgets.
+        key = (id(table), local, self._shapes_key)
+        if key != self._frame_key or self._frame is None or self._frame.get_size() != clip.size:
+            if self._frame is None or self._frame.get_size() != clip.size:
+                self._frame = pygame.Surface(clip.size)
+            self._frame.blit(table, (0, 0))
+            self.painter.draw(self._frame, shapes, local)
+            self._frame_key = key
+        surface.fill(rgb(BACKGROUND))
+        surface.blit(self._frame, clip.topleft)
+        surface.set_clip(clip)
+        self._draw_notes(surface, clip)
+        surface.set_clip(None)
+        self.manager.draw_ui(surface)
+        if self.help_visible:
+            self._draw_help(surface)
+
+    def _text(self, surface: pygame.Surface, text: str, pos: tuple[float, float], size: int = 15,
+              colour: str = "#e6e3da", bold: bool = False) -> pygame.Rect:
+        img = self.painter.text_surface(text, size, colour, bold)
+        return surface.blit(img, (round(pos[0]), round(pos[1])))
+
+    def _draw_notes(self, surface: pygame.Surface, clip: pygame.Rect) -> None:
+        st = self.state
+        problems = st.problems()
+        if problems:
+            lines = [str(p) for p in problems[:6]]
+            if len(problems) > 6:
+                lines.append(f"... and {len(problems) - 6} more")
+            head = f"This layout has {len(problems)} problem{'s' if len(problems) > 1 else ''}:"
+            width = min(clip.width - 40, 900)
+            box = pygame.Rect(clip.left + 20, clip.top + 12, width, 30 + 21 * len(lines))
+            panel = pygame.Surface(box.size, pygame.SRCALPHA)
+            panel.fill((52, 24, 20, 225))
+            surface.blit(panel, box.topleft)
+            pygame.draw.rect(surface, rgb("#e5533d"), box, 1, border_radius=4)
+            self._text(surface, head, (box.left + 10, box.top + 6), 15, "#f4d6cf", bold=True)
+            for k, line in enumerate(lines):
+                line = _fit(self.painter.font(14), line, width - 20)
+                self._text(surface, line, (box.left + 10, box.top + 28 + 21 * k), 14, "#f4e9e4")
+        hint = ""
+        if not problems:
+            if st.selection not in (None, "cue") and not isinstance(st.aim, PocketAim):
+                hint = f"click a pocket to aim the {st.selection} at it"
+            elif self.predictor.outcome is None and self.predictor.message:
+                hint = self.predictor.message
+        if hint:
+            img = self.painter.text_surface(hint, 14, "#e3ebe5")
+            surface.blit(img, (clip.left + 16, clip.bottom - img.get_height() - 8))
+
+    def _draw_help(self, surface: pygame.Surface) -> None:
+        w, h = surface.get_size()
+        shade = pygame.Surface((w, h), pygame.SRCALPHA)
+        shade.fill((10, 12, 11, 200))
+        surface.blit(shade, (0, 0))
+        rows = [("Keys", "")] + list(KEYS) + [("", ""), ("Pointer", "")] + list(POINTER)
+        line = 23
+        bw, bh = min(760, w - 40), min(line * len(rows) + 70, h - 40)
+        box = pygame.Rect((w - bw) // 2, (h - bh) // 2, bw, bh)
+        pygame.draw.rect(surface, rgb("#202322"), box, border_radius=8)
+        pygame.draw.rect(surface, rgb("#d6b358"), box, 1, border_radius=8)
+        y = box.top + 18
+        for keys, what in rows:
+            if keys and not what:
+                self._text(surface, keys, (box.left + 24, y), 16, "#d6b358", bold=True)
+            elif keys:
+                self._text(surface, keys, (box.left + 24, y), 15, "#f4f1e8", bold=True)
+                self._text(surface, what, (box.left + 260, y), 15, "#d8d5cc")
+            y += line
+        self._text(surface, "any key or click closes this list", (box.left + 24, box.bottom - 30),
+                   13, "#9a9c97")
+
+    def _draw_loading(self, screen: pygame.Surface) -> None:
+        """A first frame while the physics engine loads (its first simulation
+        loads compiled code from disk, or compiles it once: up to ~10 s)."""
+        assert self.panels is not None
+        t = self.transform
+        area = pygame.Rect(*self.panels.regions.table)
+        local = Transform(t.scale, t.origin_x - area.left, t.origin_y - area.top, t.bounds,
+                          (0, 0, area.width, area.height))
+        screen.fill(rgb(BACKGROUND))
+        screen.blit(self.table_cache.surface(self.scene, local, area.size, BACKGROUND), area.topleft)
+        img = self.painter.text_surface("Loading the physics engine\u2026", 18, "#f4f1e8", True)
+        box = img.get_rect(center=area.center).inflate(40, 24)
+        pygame.draw.rect(screen, rgb("#202322"), box, border_radius=6)
+        pygame.draw.rect(screen, rgb("#d6b358"), box, 1, border_radius=6)
+        screen.blit(img, img.get_rect(center=box.center))
+        pygame.display.flip()
+        pygame.event.pump()
+
+    # ---------------------------------------------------------------- run
+    def screenshot(self, path: str | os.PathLike[str]) -> Path:
+        """Render the first frame (prediction and proposals complete) to a PNG."""
+        out = check_output_path(path, (".png",))
+        self.start()
+        self.settle()
+        surface = pygame.Surface(self.size)
+        self.draw(surface)
+        with atomic_path(out) as tmp:
+            with open(tmp, "wb") as fh:
+                pygame.image.save(surface, fh, "screenshot.png")
+        return out
+
+    def run(self) -> None:
+        """Open the window and run until it is closed."""
+        pygame.display.init()
+        pygame.font.init()
+        screen = pygame.display.set_mode(self.size, pygame.RESIZABLE)
+        pygame.key.set_repeat(350, 35)
+        self.start(screen.get_size())
+        self._draw_loading(screen)
+        clock = pygame.time.Clock()
+        try:
+            while self.running:
+                dt = clock.tick(60) / 1000.0
+                for event in pygame.event.get():
+                    self.process_event(event)
+                self.update(dt)
+                self.draw(screen)
+                pygame.display.flip()
+        finally:
+            self.close()
+            pygame.quit()
+
+
+def _escape(text: str) -> str:
+    """Text for pygame_gui's HTML subset (its markup characters escaped)."""
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+
+
+def _fit(font: pygame.font.Font, text: str, width: int) -> str:
+    """``text`` cut with an ellipsis to fit ``width`` px."""
+    if font.size(text)[0] <= width:
+        return text
+    while text and font.size(text + "\u2026")[0] > width:
+        text = text[:-1]
+    return text + "\u2026"
+

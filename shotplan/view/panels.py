@@ -1,0 +1,510 @@
+"""The table view's widgets (pygame_gui): toolbar, stroke panel, shots list, play bar, status line.
+
+:class:`Panels` builds the widgets for a window size (and builds them again
+when the window is resized), turns their events into *actions* for the app
+(``("speed", 2.4)``, ``("open", None)``...), and shows the model's values in
+them (:meth:`Panels.sync`). The cue-ball face is a pygame_gui image the panel
+draws itself: a click on it sets the tip offset, and the miscue limit is
+drawn on it as a circle.
+
+Speeds are set on a logarithmic scale, since the difference between 0.5 and
+1 m/s matters as much to a player as the one between 5 and 10; the trade's
+words for the speed ranges (:func:`shotplan.stroke.speed_word`) are written
+under the slider where their ranges lie.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+import pygame
+import pygame_gui
+from pygame_gui.elements import (
+    UIButton,
+    UIDropDownMenu,
+    UIHorizontalSlider,
+    UIImage,
+    UILabel,
+    UIPanel,
+    UISelectionList,
+    UITextBox,
+    UIWindow,
+)
+
+from ..stroke import speed_word
+from .draw import rgb
+from .state import ELEVATION_RANGE_DEG, SPEED_RANGE_MPS, Playback
+
+__all__ = [
+    "Regions",
+    "regions",
+    "Panels",
+    "RecoveryDialog",
+    "speed_to_slider",
+    "slider_to_speed",
+    "speed_bands",
+    "face_to_tip",
+    "draw_face",
+    "proposal_text",
+    "TOOLBAR",
+]
+
+TOOLBAR_H = 44
+STATUS_H = 28
+PANEL_W = 350
+PLAYBAR_H = 46
+SLIDER_STEPS = 1000
+"""Positions of the speed and time sliders (0 to SLIDER_STEPS)."""
+
+TOOLBAR: tuple[tuple[str, str], ...] = (
+    ("open", "Open"), ("save", "Save"), ("save-as", "Save as"), ("export", "Export"),
+    ("", ""), ("undo", "Undo"), ("redo", "Redo"),
+    ("", ""), ("rack-8", "8-ball rack"), ("rack-9", "9-ball rack"), ("clear", "Clear"),
+    ("add", "Add ball"), ("remove", "Remove ball"),
+    ("", ""), ("help", "Keys"),
+)
+"""Toolbar buttons: (action, label); an empty pair is a gap between groups."""
+
+TIP_PRESETS: tuple[tuple[str, str], ...] = (
+    ("centre", "Centre"), ("follow", "Follow"), ("stun", "Stun"), ("draw", "Draw"))
+"""Tip buttons beside the cue-ball face: (tip choice, label)."""
+
+
+@dataclass(frozen=True, slots=True)
+class Regions:
+    """Where each part of the window is, as (left, top, width, height) in px."""
+
+    toolbar: tuple[int, int, int, int]
+    """The button row along the top."""
+    table: tuple[int, int, int, int]
+    """The table area."""
+    playbar: tuple[int, int, int, int]
+    """The play controls under the table."""
+    panel: tuple[int, int, int, int]
+    """The stroke panel on the right."""
+    status: tuple[int, int, int, int]
+    """The status line along the bottom."""
+
+
+def regions(size: Sequence[int]) -> Regions:
+    """The parts of a window of ``size`` (width, height) px."""
+    w, h = max(int(size[0]), 640), max(int(size[1]), 480)
+    body = h - TOOLBAR_H - STATUS_H
+    left_w = w - PANEL_W
+    return Regions(
+        toolbar=(0, 0, w, TOOLBAR_H),
+        table=(0, TOOLBAR_H, left_w, body - PLAYBAR_H),
+        playbar=(0, TOOLBAR_H + body - PLAYBAR_H, left_w, PLAYBAR_H),
+        panel=(left_w, TOOLBAR_H, PANEL_W, body),
+        status=(0, h - STATUS_H, w, STATUS_H),
+    )
+
+
+# ------------------------------------------------------------- speed scale
+def speed_to_slider(speed_mps: float) -> int:
+    """Slider position (0 to :data:`SLIDER_STEPS`) of a speed, on the log scale."""
+    lo, hi = SPEED_RANGE_MPS
+    v = min(max(speed_mps, lo), hi)
+    return round(SLIDER_STEPS * math.log(v / lo) / math.log(hi / lo))
+
+
+def slider_to_speed(position: float) -> float:
+    """Speed (m/s) at a slider position, rounded to what the label shows (0.01 m/s)."""
+    lo, hi = SPEED_RANGE_MPS
+    f = min(max(float(position), 0.0), SLIDER_STEPS) / SLIDER_STEPS
+    return round(lo * (hi / lo) ** f, 2)
+
+
+def speed_bands(lo: float, hi: float) -> list[tuple[str, float, float]]:
+    """The trade's speed words over ``lo``..``hi`` m/s: (word, from, to) in order.
+
+    The edges are found from :func:`shotplan.stroke.speed_word` itself (by
+    bisection), so the slider always agrees with the words used elsewhere.
+    """
+    out: list[tuple[str, float, float]] = []
+    start, word = lo, speed_word(lo)
+    steps = 400
+    prev = lo
+    for k in range(1, steps + 1):
+        v = lo * (hi / lo) ** (k / steps)
+        w = speed_word(v)
+        if w != word:
+            a, b = prev, v
+            for _ in range(40):
+                m = 0.5 * (a + b)
+                if speed_word(m) == word:
+                    a = m
+                else:
+                    b = m
+            out.append((word, start, b))
+            start, word = b, w
+        prev = v
+    out.append((word, start, hi))
+    return out
+
+
+# --------------------------------------------------------- cue-ball face
+def face_to_tip(pos: Sequence[float], centre: Sequence[float], radius_px: float) -> tuple[float, float]:
+    """Tip offset (side, height) in ball radii for a click at ``pos`` on a face
+    of ``radius_px`` centred at ``centre``: right of centre is right english,
+    above is follow, as the player sees the ball from behind the cue."""
+    return ((pos[0] - centre[0]) / radius_px, (centre[1] - pos[1]) / radius_px)
+
+
+def draw_face(size: int, side: float, height: float, limit: float, font: pygame.font.Font
+              ) -> pygame.Surface:
+    """The cue-ball face: the ball, its centre lines, the natural-roll line
+    (0.4 R above centre), the miscue-limit circle and the tip where it strikes
+    (drawn to scale: a 13 mm tip on a 57 mm ball)."""
+    surf = pygame.Surface((size, size), pygame.SRCALPHA)
+    c = size / 2.0
+    r = size / 2.0 - 14
+    pygame.draw.aacircle(surf, rgb("#efece3"), (c, c), r)
+    pygame.draw.aacircle(surf, rgb("#b9b5aa"), (c, c), r, 2)
+    grid = rgb("#c9c5ba")
+    pygame.draw.line(surf, grid, (c - r + 4, c), (c + r - 4, c), 1)
+    pygame.draw.line(surf, grid, (c, c - r + 4), (c, c + r - 4), 1)
+    roll = c - 0.4 * r
+    half = math.sqrt(max(r * r - (0.4 * r) ** 2, 0.0)) - 4
+    for x in range(int(c - half), int(c + half), 6):
+        pygame.draw.line(surf, rgb("#7fa7c9"), (x, roll), (min(x + 3, c + half), roll), 1)
+    # Miscue limit: dashed.
+    lim = limit * r
+    n = 48
+    for k in range(0, n, 2):
+        a0, a1 = 2 * math.pi * k / n, 2 * math.pi * (k + 1) / n
+        pygame.draw.aaline(surf, rgb("#c8553d"), (c + lim * math.cos(a0), c + lim * math.sin(a0)),
+                           (c + lim * math.cos(a1), c + lim * math.sin(a1)), 2)
+    tip = (c + side * r, c - height * r)
+    tip_r = max(5.0, r * 0.0065 / 0.028575)
+    pygame.draw.aacircle(surf, rgb("#4f7aa8"), tip, tip_r)
+    pygame.draw.aacircle(surf, rgb("#1f3550"), tip, tip_r, 2)
+    ink = rgb("#d8d4c9")
+    for text, (lx, ly) in (("follow", (c, -1.0)), ("draw", (c, size - 13.0)),
+                           ("L", (1.0, c - 8)), ("R", (size - 1.0, c - 8))):
+        img = font.render(text, True, ink)
+        if text == "R":
+            lx -= img.get_width()
+        elif text in ("follow", "draw"):
+            lx -= img.get_width() / 2
+        surf.blit(img, (lx, ly))
+    return surf
+
+
+def _band_strip(width: int, height: int, lo: float, hi: float, font: pygame.font.Font,
+                track: tuple[float, float]) -> pygame.Surface:
+    """The trade's speed words laid out under the slider's track, alternately on
+    two rows so that each word has the room of two ranges."""
+    surf = pygame.Surface((width, height), pygame.SRCALPHA)
+    x0, x1 = track
+    ink, tick = rgb("#b8b4aa"), rgb("#5b605d")
+    row_h = height / 2.0
+    for k, (word, a, b) in enumerate(speed_bands(lo, hi)):
+        pa = x0 + (x1 - x0) * math.log(a / lo) / math.log(hi / lo)
+        pb = x0 + (x1 - x0) * math.log(b / lo) / math.log(hi / lo)
+        top = (k % 2) * row_h
+        pygame.draw.line(surf, tick, (pa, top + 2), (pb - 2, top + 2), 1)
+        pygame.draw.line(surf, tick, (pa, top), (pa, top + 5), 1)
+        img = font.render(word, True, ink)
+        x = min(max((pa + pb - img.get_width()) / 2, 0), width - img.get_width())
+        surf.blit(img, (x, top + 3))
+    return surf
+
+
+def proposal_text(k: int, shot: Any) -> str:
+    """One line of the shots list: number, kind, balls, pocket, rails (their
+    initials), cut and window."""
+    balls = "-".join(shot.balls)
+    via = "".join(r.split()[0][0].upper() for r in shot.rails)
+    return (f"{k:>2} {shot.kind:<6.6} {balls:<3} {shot.pocket:<10} {via:<2} "
+            f"{shot.cut_angle_deg:2.0f}\u00b0 {shot.window_deg:4.2f}\u00b0")
+
+
+class RecoveryDialog(UIWindow):
+    """Asks whether to restore the unsaved work found at start."""
+
+    def __init__(self, manager: pygame_gui.UIManager, size: Sequence[int], text: str):
+        w, h = 500, 270
+        rect = pygame.Rect((size[0] - w) // 2, (size[1] - h) // 2, w, h)
+        super().__init__(rect, manager, window_display_title="Unsaved work found",
+                         object_id="#recovery", resizable=False)
+        inner_w, inner_h = self.get_container().get_size()
+        UITextBox(text, pygame.Rect(12, 10, inner_w - 24, inner_h - 66), manager, container=self)
+        self.restore = UIButton(pygame.Rect(inner_w - 236, inner_h - 46, 110, 34), "Restore",
+                                manager, container=self)
+        self.discard = UIButton(pygame.Rect(inner_w - 122, inner_h - 46, 110, 34), "Discard",
+                                manager, container=self)
+
+
+class Panels:
+    """All the widgets, built for one window size.
+
+    Parameters
+    ----------
+    manager
+        The pygame_gui manager.
+    size
+        Window size (width, height), px.
+    """
+
+    def __init__(self, manager: pygame_gui.UIManager, size: Sequence[int]):
+        self.manager = manager
+        self.size = (int(size[0]), int(size[1]))
+        self.regions = regions(self.size)
+        self._small = pygame.font.Font(_font_path(), 12)
+        self._built: list[Any] = []
+        self._face_key: Any = None
+        self._aim_text = ""
+        self._aim_time = -1.0
+        self._status_text = ""
+        self._status_time = -1.0
+        self._list_source: Any = None
+        self._list_texts: list[str | tuple[str, str]] = []
+        self._play_label = ""
+        self.build()
+
+    # -------------------------------------------------------------- build
+    def build(self) -> None:
+        """Create every widget for :attr:`size` (killing any built before)."""
+        for w in self._built:
+            w.kill()
+        self._built = []
+        m = self.manager
+        reg = self.regions
+        self._face_key = None
+        self._aim_text = self._status_text = self._play_label = ""
+        self._list_source = None
+        self._list_texts = []
+
+        # Toolbar
+        tx, ty, tw, th = reg.toolbar
+        bar = UIPanel(pygame.Rect(tx, ty, tw, th), manager=m, object_id="#toolbar")
+        self._built.append(bar)
+        self.buttons: dict[str, UIButton] = {}
+        x = 8
+        font = pygame.font.Font(_font_path(), 14)
+        for action, label in TOOLBAR:
+            if not action:
+                x += 10
+                continue
+            bw = font.size(label)[0] + 22
+            self.buttons[action] = UIButton(pygame.Rect(x, 6, bw, th - 14), label, m, container=bar,
+                                            object_id="#toolbar_button")
+            x += bw + 5
+        self.title_label = UILabel(pygame.Rect(x + 10, 6, max(tw - x - 18, 10), th - 14), "", m,
+                                   container=bar, object_id="#small")
+
+        # Side panel
+        px, py, pw, ph = reg.panel
+        side = UIPanel(pygame.Rect(px, py, pw, ph), manager=m, object_id="#side")
+        self._built.append(side)
+        self.side = side
+        iw = pw - 24
+        y = 8
+        UILabel(pygame.Rect(12, y, iw, 22), "Stroke", m, container=side, object_id="#heading")
+        y += 24
+        self.speed_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
+        y += 24
+        self.speed_slider = UIHorizontalSlider(pygame.Rect(12, y, iw, 26), speed_to_slider(2.0),
+                                               (0, SLIDER_STEPS), m, container=side,
+                                               click_increment=5)
+        y += 27
+        arrow = 20  # the slider's arrow buttons, each side
+        track = (arrow + 10, iw - arrow - 10)  # centres of the thumb at both ends
+        self.bands = UIImage(pygame.Rect(12, y, iw, 30),
+                             _band_strip(iw, 30, *SPEED_RANGE_MPS, self._small, track), m,
+                             container=side)
+        y += 34
+        self.tip_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
+        y += 24
+        face = 130
+        self.face_size = face
+        self.face = UIImage(pygame.Rect(12, y, face, face), pygame.Surface((face, face),
+                                                                           pygame.SRCALPHA),
+                            m, container=side, object_id="#face")
+        self.face_origin = (px + 12, py + y)
+        self.tip_buttons: dict[str, UIButton] = {}
+        bx = 12 + face + 12
+        for k, (tip, label) in enumerate(TIP_PRESETS):
+            self.tip_buttons[tip] = UIButton(pygame.Rect(bx, y + 2 + 32 * k, iw - face - 12, 28),
+                                             label, m, container=side)
+        y += face + 6
+        self.elevation_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
+        y += 24
+        lo, hi = ELEVATION_RANGE_DEG
+        self.elevation_slider = UIHorizontalSlider(pygame.Rect(12, y, iw, 26), 0, (int(lo), int(hi)),
+                                                   m, container=side, click_increment=1)
+        y += 34
+        UILabel(pygame.Rect(12, y, iw, 22), "Aim", m, container=side, object_id="#heading")
+        y += 24
+        self.aim_box = UITextBox("", pygame.Rect(12, y, iw, 140), m, container=side)
+        y += 146
+        UILabel(pygame.Rect(12, y, iw, 22), "Shots, best first", m, container=side,
+                object_id="#heading")
+        y += 24
+        self.shots = UISelectionList(pygame.Rect(12, y, iw, max(ph - y - 10, 60)), [], m,
+                                     container=side, object_id="#shots")
+
+        # Play bar
+        bx0, by0, bw0, bh0 = reg.playbar
+        play = UIPanel(pygame.Rect(bx0, by0, bw0, bh0), manager=m, object_id="#playbar")
+        self._built.append(play)
+        self.play_button = UIButton(pygame.Rect(10, 7, 84, bh0 - 14), "Play", m, container=play)
+        self.reset_button = UIButton(pygame.Rect(100, 7, 74, bh0 - 14), "Reset", m, container=play)
+        names: list[str | tuple[str, str]] = [name for name, _ in Playback.RATES]
+        self.rate_menu = UIDropDownMenu(names, "real time", pygame.Rect(180, 7, 150, bh0 - 14), m,
+                                        container=play)
+        label_w = 150
+        self.time_slider = UIHorizontalSlider(
+            pygame.Rect(338, 9, max(bw0 - 338 - label_w - 16, 60), bh0 - 18), 0, (0, SLIDER_STEPS),
+            m, container=play, click_increment=10)
+        self.time_label = UILabel(pygame.Rect(bw0 - label_w - 8, 7, label_w, bh0 - 14), "", m,
+                                  container=play)
+
+        # Status line
+        sx, sy, sw, sh = reg.status
+        self.status = UILabel(pygame.Rect(sx, sy, sw, sh), "", m, object_id="#status")
+        self._built.append(self.status)
+
+    def resize(self, size: Sequence[int]) -> None:
+        """Build again for a new window size."""
+        self.size = (int(size[0]), int(size[1]))
+        self.regions = regions(self.size)
+        self.build()
+
+    # ------------------------------------------------------------- input
+    @property
+    def face_rect(self) -> pygame.Rect:
+        """The cue-ball face, in window coordinates."""
+        return pygame.Rect(*self.face_origin, self.face_size, self.face_size)
+
+    def face_tip(self, pos: Sequence[float]) -> tuple[float, float]:
+        """Tip offset for a pointer at ``pos`` (window px) on the face."""
+        r = self.face_size / 2.0 - 14
+        c = (self.face_origin[0] + self.face_size / 2.0, self.face_origin[1] + self.face_size / 2.0)
+        return face_to_tip(pos, c, r)
+
+    def face_point(self, side: float, height: float) -> tuple[float, float]:
+        """Window position of a tip offset on the face (the inverse of :meth:`face_tip`)."""
+        r = self.face_size / 2.0 - 14
+        c = (self.face_origin[0] + self.face_size / 2.0, self.face_origin[1] + self.face_size / 2.0)
+        return (c[0] + side * r, c[1] - height * r)
+
+    def over_widgets(self, pos: Sequence[int]) -> bool:
+        """Whether ``pos`` lies on the toolbar, the panel, the play bar or the status line."""
+        reg = self.regions
+        return any(pygame.Rect(*r).collidepoint(pos)
+                   for r in (reg.toolbar, reg.panel, reg.playbar, reg.status))
+
+    def handle(self, event: pygame.event.Event) -> tuple[str, Any] | None:
+        """The action a widget event asks for, or ``None``."""
+        if event.type == pygame_gui.UI_BUTTON_PRESSED:
+            el = event.ui_element
+            for action, button in self.buttons.items():
+                if el is button:
+                    return (action, None)
+            for tip, button in self.tip_buttons.items():
+                if el is button:
+                    return ("tip-preset", tip)
+            if el is self.play_button:
+                return ("play", None)
+            if el is self.reset_button:
+                return ("reset", None)
+        elif event.type == pygame_gui.UI_HORIZONTAL_SLIDER_MOVED:
+            el = event.ui_element
+            if el is self.speed_slider:
+                return ("speed", slider_to_speed(event.value))
+            if el is self.elevation_slider:
+                return ("elevation", float(event.value))
+            if el is self.time_slider:
+                return ("scrub", float(event.value) / SLIDER_STEPS)
+        elif event.type == pygame_gui.UI_DROP_DOWN_MENU_CHANGED and event.ui_element is self.rate_menu:
+            rates = dict(Playback.RATES)
+            return ("rate", rates.get(event.text, 1.0))
+        elif event.type == pygame_gui.UI_SELECTION_LIST_NEW_SELECTION and event.ui_element is self.shots:
+            words = str(event.text).split()
+            head = words[0] if words else ""
+            if head.isdigit():
+                return ("proposal", int(head) - 1)
+        return None
+
+    def slider_held(self) -> bool:
+        """Whether the pointer holds a slider's thumb (its value is then the user's)."""
+        return any(s.sliding_button is not None and s.sliding_button.held
+                   for s in (self.speed_slider, self.elevation_slider, self.time_slider))
+
+    # -------------------------------------------------------------- show
+    def sync(self, state: Any, predictor: Any, playback: Playback, status: str, title: str,
+             aim_html: str, now: float = 0.0, busy: bool = False) -> None:
+        """Show the model's values (only what changed is redrawn); ``busy``
+        (a drag in progress) lets the aim text refresh at a few hertz only."""
+        s = state.settings
+        self.speed_label.set_text(f"Speed {s.speed_mps:.2f} m/s \u00b7 {speed_word(s.speed_mps)}")
+        if not _held(self.speed_slider) and \
+                slider_to_speed(self.speed_slider.get_current_value()) != round(s.speed_mps, 2):
+            self.speed_slider.set_current_value(speed_to_slider(s.speed_mps), warn=False)
+        self.tip_label.set_text(_tip_words(s.side, s.height))
+        self.elevation_label.set_text(f"Cue elevation {s.elevation_deg:.0f}\u00b0")
+        if not _held(self.elevation_slider) and \
+                round(self.elevation_slider.get_current_value()) != round(s.elevation_deg):
+            self.elevation_slider.set_current_value(round(s.elevation_deg), warn=False)
+        key = (s.side, s.height, state.miscue_limit)
+        if key != self._face_key:
+            self._face_key = key
+            self.face.set_image(draw_face(self.face_size, s.side, s.height, state.miscue_limit,
+                                          self._small))
+        # A text box lays its text out again on every change: while the
+        # numbers run (a drag), a few times a second is enough to read them.
+        if aim_html != self._aim_text and (now - self._aim_time >= 0.12 or not busy):
+            self._aim_text, self._aim_time = aim_html, now
+            self.aim_box.set_text(aim_html)
+        source = (state.proposals, state.proposals_done, bool(state.problems()))
+        old = self._list_source
+        if old is None or old[0] is not source[0] or old[1:] != source[1:]:
+            self._list_source = source
+            texts: list[str | tuple[str, str]] = [proposal_text(k + 1, shot)
+                                                  for k, shot in enumerate(state.proposals)]
+            if not texts:
+                texts = ["   (fix the layout's problems first)" if state.problems() else
+                         "   (searching...)" if not state.proposals_done else "   (no shot found)"]
+            if texts != self._list_texts:
+                self._list_texts = texts
+                self.shots.set_item_list(texts)
+        duration = predictor.duration
+        label = f"{playback.t:5.2f} / {duration:.2f} s"
+        if label != self._play_label:
+            self._play_label = label
+            self.time_label.set_text(label)
+        self.play_button.set_text("Pause" if playback.playing else "Play")
+        if not _held(self.time_slider):
+            pos = round(SLIDER_STEPS * playback.t / duration) if duration > 0 else 0
+            if round(self.time_slider.get_current_value()) != pos:
+                self.time_slider.set_current_value(pos, warn=False)
+        if status != self._status_text and (now - self._status_time >= 0.06 or not busy):
+            self._status_text, self._status_time = status, now
+            self.status.set_text(status)
+        self.title_label.set_text(title)
+
+
+def _held(slider: UIHorizontalSlider) -> bool:
+    return slider.sliding_button is not None and bool(slider.sliding_button.held)
+
+
+def _tip_words(side: float, height: float) -> str:
+    if abs(side) < 0.005 and abs(height) < 0.005:
+        return "Tip: centre ball"
+    s = "centre" if abs(side) < 0.005 else f"{abs(side):.2f} R {'right' if side > 0 else 'left'}"
+    if abs(height) < 0.005:
+        h = "centre"
+    else:
+        h = f"{abs(height):.2f} R {'follow' if height > 0 else 'draw'}"
+    return f"Tip: side {s}, height {h}"
+
+
+def _font_path() -> str | None:
+    from .draw import ui_font_path
+
+    return ui_font_path()

@@ -1,0 +1,630 @@
+"""The table view's editable model: pure Python, no pygame.
+
+:class:`ViewState` holds what the user edits: the layout, the stroke settings
+(speed, tip offset, elevation), the aim (an object ball and a pocket, or a
+free cue direction), the selection, and the undo and redo stacks. Every edit
+is a method that returns whether anything changed; an edit that changes
+something pushes one snapshot (layout + settings + aim) on the undo stack.
+Edits of one gesture (a drag, a slider pull) share one undo step: they pass
+the same ``coalesce`` key, and :meth:`ViewState.end_gesture` closes it.
+
+What is *derived* from the model (the simulated outcome, the window, the
+proposals) is worked out by :mod:`shotplan.view.predict`; the proposals are
+kept here because choosing one is an edit.
+
+:func:`legal_spot` is how a dragged or added ball stays legal: the nearest
+place to where the pointer wants it that is on the bed, clear of every
+cushion and jaw (:meth:`shotplan.table.Table.is_legal`) and of every other
+ball (touching is allowed).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from ..errors import InputError, LayoutError
+from ..layout import Layout, Problem, rack
+from ..physics.params import Physics
+from ..stroke import MAX_SPEED_MPS, Stroke
+from ..table import Table
+
+__all__ = [
+    "SPEED_RANGE_MPS",
+    "ELEVATION_RANGE_DEG",
+    "MAX_UNDO",
+    "StrokeSettings",
+    "PocketAim",
+    "FreeAim",
+    "Aim",
+    "Snapshot",
+    "Playback",
+    "ViewState",
+    "legal_spot",
+    "clamp_tip",
+]
+
+SPEED_RANGE_MPS: tuple[float, float] = (0.2, 12.0)
+"""Launch speeds the speed control offers, m/s: from the gentlest touch to a
+hard break (a hard break is about 11-12 m/s: see :data:`shotplan.stroke.MAX_SPEED_MPS`)."""
+
+ELEVATION_RANGE_DEG: tuple[float, float] = (0.0, 45.0)
+"""Cue elevations the control offers, degrees (strokes accept up to 60; past
+45 is massé, which the view does not set up by hand)."""
+
+MAX_UNDO = 500
+"""Undo steps kept; the oldest go first."""
+
+_CLEARANCE = 1e-7
+"""A placed ball keeps this much air (m) to a ball it is pushed against, so
+that rounding never turns "touching" into "overlapping" (layouts allow 1e-9)."""
+
+
+@dataclass(frozen=True, slots=True)
+class StrokeSettings:
+    """The stroke without its direction (the aim gives that)."""
+
+    speed_mps: float = 2.0
+    """Cue-ball launch speed, m/s."""
+    side: float = 0.0
+    """Tip offset to the side, ball radii; + is right english."""
+    height: float = 0.0
+    """Tip offset above centre, ball radii; + follow, - draw."""
+    elevation_deg: float = 0.0
+    """Cue elevation, degrees."""
+
+    def stroke(self, direction_deg: float) -> Stroke:
+        """The full stroke in ``direction_deg``."""
+        return Stroke(float(direction_deg), self.speed_mps, self.side, self.height,
+                      self.elevation_deg)
+
+    @classmethod
+    def of(cls, stroke: Stroke) -> StrokeSettings:
+        """The settings of a stroke."""
+        return cls(stroke.speed_mps, stroke.side, stroke.height, stroke.elevation_deg)
+
+
+@dataclass(frozen=True, slots=True)
+class PocketAim:
+    """Aim an object ball at a pocket; the direction is worked out (ghost ball,
+    then corrected in simulation for throw and squirt)."""
+
+    ball: str
+    """The object ball the cue ball hits first."""
+    pocket: str
+    """The pocket, by its trade name (``foot-left``...)."""
+    kind: str = "direct"
+    """Kind of shot: ``direct``, ``bank``, ``kick`` or ``combination``."""
+    rails: tuple[str, ...] = ()
+    """Rails of a bank or kick, in order."""
+    balls: tuple[str, ...] = ()
+    """Object balls in the order hit (a combination has two); empty means ``(ball,)``."""
+
+    @property
+    def sequence(self) -> tuple[str, ...]:
+        """Object balls in the order hit; the last one is pocketed."""
+        return self.balls or (self.ball,)
+
+
+@dataclass(frozen=True, slots=True)
+class FreeAim:
+    """A cue direction set by hand."""
+
+    direction_deg: float
+    """Degrees counter-clockwise from +x (toward the foot)."""
+
+
+Aim = PocketAim | FreeAim | None
+"""What the cue is aimed by (``None``: not aimed yet)."""
+
+
+@dataclass(frozen=True, slots=True)
+class Snapshot:
+    """One undo step: everything an edit can change."""
+
+    layout: Layout
+    """The layout."""
+    settings: StrokeSettings
+    """The stroke settings."""
+    aim: Aim
+    """The aim."""
+
+
+class Playback:
+    """Where the animation of the predicted shot is: its time, whether it runs, how fast.
+
+    ``rate`` 1 is real time; 0.25 plays four times slower.
+    """
+
+    RATES: tuple[tuple[str, float], ...] = (
+        ("real time", 1.0), ("half speed", 0.5), ("quarter speed", 0.25), ("tenth speed", 0.1))
+    """The speed choices offered, with their rates."""
+
+    def __init__(self) -> None:
+        self.t = 0.0
+        self.playing = False
+        self.rate = 1.0
+
+    @property
+    def active(self) -> bool:
+        """Whether the balls are shown moved (playing, or stopped part-way)."""
+        return self.playing or self.t > 0.0
+
+    def toggle(self, duration: float) -> None:
+        """Play or pause; playing from the end starts again."""
+        if self.playing:
+            self.playing = False
+            return
+        if self.t >= duration:
+            self.t = 0.0
+        self.playing = duration > 0.0
+
+    def reset(self) -> None:
+        """Back to the start, stopped (the balls at their places)."""
+        self.t = 0.0
+        self.playing = False
+
+    def advance(self, dt: float, duration: float) -> None:
+        """Move on by ``dt`` seconds of wall time (``rate`` times as much shot time)."""
+        if not self.playing:
+            return
+        self.t = min(self.t + dt * self.rate, duration)
+        if self.t >= duration:
+            self.playing = False
+
+    def scrub(self, fraction: float, duration: float) -> None:
+        """Jump to ``fraction`` (0 to 1) of the shot, stopped."""
+        self.playing = False
+        self.t = min(max(float(fraction), 0.0), 1.0) * max(duration, 0.0)
+
+
+# ------------------------------------------------------------ placement
+def legal_spot(
+    table: Table,
+    target: Sequence[float],
+    others: Any = (),
+    *,
+    reach: float | None = None,
+) -> tuple[float, float] | None:
+    """The nearest place to ``target`` where a ball may lie.
+
+    Legal means :meth:`Table.is_legal` (on the bed, before every drop line,
+    clear of the cushions and jaws) and at least two radii from every point
+    of ``others`` (the other balls' centres; touching is allowed).
+
+    The exact candidates come first: the target itself, the target clamped
+    into the playing area, pushed straight out of each ball it overlaps, and
+    set in the notch between two such balls. Rings of points around the
+    clamped target, a millimetre apart near it and coarser further out, catch
+    what these miss (a jaw's rounded tip, a crowded rack). Returns ``None``
+    if nothing within ``reach`` (default: the whole table) is free.
+    """
+    R = table.ball_radius
+    two_r = 2.0 * R
+    co = table.contact_offset
+    L, W = table.length, table.width
+    tx, ty = float(target[0]), float(target[1])
+    if not (math.isfinite(tx) and math.isfinite(ty)):
+        raise InputError(f"legal_spot: target {target!r} is not a finite point")
+    oth = np.asarray(others, dtype=float).reshape(-1, 2)
+
+    def valid(points: np.ndarray) -> np.ndarray:
+        ok = table.is_legal(points)
+        if len(oth):
+            d = np.hypot(points[:, None, 0] - oth[None, :, 0], points[:, None, 1] - oth[None, :, 1])
+            ok &= np.all(d >= two_r - 1e-9, axis=1)
+        return ok
+
+    first = np.array([[tx, ty]])
+    if valid(first)[0]:
+        return (tx, ty)
+    cx = min(max(tx, co), L - co)
+    cy = min(max(ty, co), W - co)
+    cands = [(cx, cy)]
+    near = oth[np.hypot(oth[:, 0] - cx, oth[:, 1] - cy) < 2.0 * two_r + 1e-9] if len(oth) else oth
+    for q in near:
+        d = math.hypot(cx - q[0], cy - q[1])
+        ux, uy = ((cx - q[0]) / d, (cy - q[1]) / d) if d > 1e-12 else (1.0, 0.0)
+        cands.append((q[0] + ux * (two_r + _CLEARANCE), q[1] + uy * (two_r + _CLEARANCE)))
+    rr = two_r + _CLEARANCE
+    for i in range(len(near)):
+        for j in range(i + 1, len(near)):
+            (ax, ay), (bx, by) = near[i], near[j]
+            d = math.hypot(bx - ax, by - ay)
+            if d <= 1e-12 or d >= 2.0 * rr:
+                continue
+            mx, my = (ax + bx) / 2.0, (ay + by) / 2.0
+            h = math.sqrt(max(rr * rr - (d / 2.0) ** 2, 0.0))
+            px, py = -(by - ay) / d, (bx - ax) / d
+            cands += [(mx + px * h, my + py * h), (mx - px * h, my - py * h)]
+    pts = np.array(cands, dtype=float)
+    ok = valid(pts)
+    best: tuple[float, float] | None = None
+    best_d = math.inf
+    if ok.any():
+        # Each exact candidate is the nearest place for the constraint it
+        # answers (a cushion, one ball, two balls); the nearest of them is the spot.
+        d = np.hypot(pts[ok, 0] - tx, pts[ok, 1] - ty)
+        k = int(np.argmin(d))
+        return (float(pts[ok][k, 0]), float(pts[ok][k, 1]))
+
+    limit = reach if reach is not None else math.hypot(L, W)
+    # Rings around the clamped target, in batches of growing radius; a batch
+    # is only tried while it could hold something nearer than the best so far.
+    radii = np.concatenate([np.arange(0.001, 0.0101, 0.001), np.arange(0.012, 0.0601, 0.002),
+                            np.arange(0.065, 0.2001, 0.005), np.arange(0.22, limit + 0.02, 0.02)])
+    radii = radii[radii <= limit + 1e-12]
+    off = math.hypot(tx - cx, ty - cy)  # the rings are centred on the clamped point
+    start = 0
+    while start < len(radii):
+        if best is not None and radii[start] - off > best_d:
+            break
+        stop = min(start + 8, len(radii))
+        batch = []
+        for r in radii[start:stop]:
+            n = int(min(max(2 * math.pi * r / 0.0015, 24), 180))
+            ang = np.linspace(0.0, 2 * math.pi, n, endpoint=False)
+            batch.append(np.column_stack([cx + r * np.cos(ang), cy + r * np.sin(ang)]))
+        ring = np.vstack(batch)
+        ok = valid(ring)
+        if ok.any():
+            d = np.hypot(ring[ok, 0] - tx, ring[ok, 1] - ty)
+            k = int(np.argmin(d))
+            if d[k] < best_d:
+                best, best_d = (float(ring[ok][k, 0]), float(ring[ok][k, 1])), float(d[k])
+        start = stop
+    return best
+
+
+def clamp_tip(side: float, height: float, limit: float) -> tuple[float, float]:
+    """A tip offset moved onto the miscue-limit circle if it lies outside it."""
+    r = math.hypot(side, height)
+    if r <= limit or r == 0.0:
+        return (float(side), float(height))
+    k = limit / r
+    return (float(side) * k, float(height) * k)
+
+
+# ---------------------------------------------------------------- model
+_KEEP: Any = object()
+
+
+class ViewState:
+    """Everything the user edits in the table view, with undo and redo.
+
+    Parameters
+    ----------
+    layout
+        The layout shown. Its stroke, if any, gives the settings and a free
+        aim in the stroke's direction.
+    path
+        The file it came from (``None`` for a new layout).
+    load_message
+        A message to show on opening (a file that could not be read).
+    """
+
+    def __init__(self, layout: Layout, path: str | None = None, load_message: str = ""):
+        self.layout = layout
+        self.path = path
+        self.load_message = load_message
+        stroke = layout.stroke
+        self.settings = StrokeSettings.of(stroke) if stroke is not None else StrokeSettings()
+        self.aim: Aim = FreeAim(stroke.direction_deg) if stroke is not None else None
+        self.selection: str | None = None
+        self.derived_direction_deg: float | None = None
+        """Direction worked out for a :class:`PocketAim` (set by the predictor)."""
+        self.proposals: tuple[Any, ...] = ()
+        """Searched shots (:class:`shotplan.search.Shot`), best first."""
+        self.proposals_done = False
+        """Whether the search over every ball and pocket has finished."""
+        self.chosen: int | None = None
+        """Index of the proposal last chosen, while its aim is still the one in use."""
+        self.undo_stack: list[Snapshot] = []
+        self.redo_stack: list[Snapshot] = []
+        self.revision = 0
+        """Counts every change (edits, undo, redo, open): autosave and redraw watch it."""
+        self._saved = self.snapshot()
+        self._unsaved = False
+        self._coalesce: str | None = None
+        self._problems: tuple[Layout, list[Problem]] | None = None
+        self._physics: tuple[Any, Physics] | None = None
+
+    # ------------------------------------------------------------ queries
+    def snapshot(self) -> Snapshot:
+        """The current layout, settings and aim."""
+        return Snapshot(self.layout, self.settings, self.aim)
+
+    @property
+    def dirty(self) -> bool:
+        """Whether there is anything a save would keep that is not saved."""
+        return self._unsaved or self.snapshot() != self._saved
+
+    @property
+    def table(self) -> Table:
+        """The table's geometry."""
+        return self.layout.geometry
+
+    def problems(self) -> list[Problem]:
+        """The layout's problems (worked out once per layout)."""
+        if self._problems is None or self._problems[0] is not self.layout:
+            self._problems = (self.layout, self.layout.problems())
+        return self._problems[1]
+
+    def physics(self) -> Physics:
+        """The layout's physics values (worked out once per table and overrides)."""
+        key = (self.layout.table, self.layout.physics_overrides)
+        if self._physics is None or self._physics[0] != key:
+            self._physics = (key, self.layout.physics())
+        return self._physics[1]
+
+    @property
+    def miscue_limit(self) -> float:
+        """Largest tip offset, ball radii."""
+        return self.physics().miscue_limit
+
+    @property
+    def object_balls(self) -> tuple[str, ...]:
+        """Ids of every ball but the cue ball, in layout order."""
+        return tuple(b for b in self.layout.ball_ids if b != "cue")
+
+    @property
+    def direction_deg(self) -> float | None:
+        """The cue direction now in use, degrees, or ``None`` if not aimed."""
+        if isinstance(self.aim, FreeAim):
+            return self.aim.direction_deg
+        if isinstance(self.aim, PocketAim):
+            return self.derived_direction_deg
+        return None
+
+    def stroke(self) -> Stroke | None:
+        """The stroke now set up, or ``None`` if the cue is not aimed."""
+        d = self.direction_deg
+        return None if d is None else self.settings.stroke(d)
+
+    def layout_to_save(self) -> Layout:
+        """The layout with the stroke now set up (what Save writes)."""
+        return self.layout.with_stroke(self.stroke())
+
+    # ------------------------------------------------------------ editing
+    def _apply(self, coalesce: str | None, layout: Any = _KEEP, settings: Any = _KEEP,
+               aim: Any = _KEEP) -> bool:
+        new = Snapshot(self.layout if layout is _KEEP else layout,
+                       self.settings if settings is _KEEP else settings,
+                       self.aim if aim is _KEEP else aim)
+        old = self.snapshot()
+        if new == old:
+            return False
+        if coalesce is None or coalesce != self._coalesce:
+            self.undo_stack.append(old)
+            del self.undo_stack[:-MAX_UNDO]
+        self._coalesce = coalesce
+        self.redo_stack.clear()
+        self._restore(new)
+        return True
+
+    def _restore(self, snap: Snapshot) -> None:
+        if snap.aim != self.aim:
+            self.chosen = None
+            if not isinstance(snap.aim, PocketAim):
+                self.derived_direction_deg = None
+        self.layout, self.settings, self.aim = snap.layout, snap.settings, snap.aim
+        if self.selection is not None and self.selection not in self.layout.ball_ids:
+            self.selection = None
+        self.revision += 1
+
+    def end_gesture(self) -> None:
+        """Close the current gesture: the next edit starts a new undo step."""
+        self._coalesce = None
+
+    def undo(self) -> bool:
+        """Step back one edit; False if there is none."""
+        if not self.undo_stack:
+            return False
+        self.redo_stack.append(self.snapshot())
+        self._restore(self.undo_stack.pop())
+        self._coalesce = None
+        return True
+
+    def redo(self) -> bool:
+        """Step forward one undone edit; False if there is none."""
+        if not self.redo_stack:
+            return False
+        self.undo_stack.append(self.snapshot())
+        self._restore(self.redo_stack.pop())
+        self._coalesce = None
+        return True
+
+    def select(self, ball: str | None) -> None:
+        """Select a ball (or nothing); not an edit."""
+        self.selection = ball if ball is None or ball in self.layout.ball_ids else None
+
+    # balls
+    def _others(self, ball: str | None) -> np.ndarray:
+        pts = [xy for b, xy in self.layout.balls if b != ball]
+        return np.array(pts, dtype=float).reshape(-1, 2)
+
+    def move_ball(self, ball: str, xy: Sequence[float], coalesce: str | None = None
+                  ) -> tuple[float, float] | None:
+        """Move ``ball`` as near ``xy`` as it may lie (see :func:`legal_spot`);
+        returns where it went, or ``None`` if there was no room."""
+        self.layout.position(ball)  # raises LayoutError if absent
+        spot = legal_spot(self.table, xy, self._others(ball))
+        if spot is None:
+            return None
+        self._apply(coalesce, layout=self.layout.with_ball(ball, spot))
+        return spot
+
+    def next_ball_id(self) -> str | None:
+        """The id an added ball gets: the cue ball if missing, else the lowest
+        of the table's ball set not on the table; ``None`` if all are there."""
+        present = set(self.layout.ball_ids)
+        ids = self.layout.table.ball.ids
+        if "cue" in ids and "cue" not in present:
+            return "cue"
+        for b in ids:
+            if b not in present:
+                return b
+        return None
+
+    def add_ball(self, ball: str | None = None, xy: Sequence[float] | None = None) -> str:
+        """Add a ball (by default the next free id, near the foot spot or, for
+        the cue ball, the head spot) at the nearest free legal place; returns its id."""
+        ball = ball if ball is not None else self.next_ball_id()
+        if ball is None:
+            raise LayoutError("every ball of this table's set is already on the table")
+        if ball in self.layout.ball_ids:
+            raise LayoutError(f"ball {ball!r} is already on the table")
+        if xy is None:
+            xy = self._default_spot(ball)
+        spot = legal_spot(self.table, xy, self._others(None))
+        if spot is None:
+            raise LayoutError("no free place on the table for another ball")
+        self._apply(None, layout=self.layout.with_ball(ball, spot))
+        self.selection = ball
+        return ball
+
+    def _default_spot(self, ball: str) -> tuple[float, float]:
+        spec = self.layout.table
+        spots = {s.name: (s.x, s.y) for s in spec.spots}
+        if ball == "cue":
+            if "head spot" not in spots and spec.baulk_line_x_m and spec.d_radius_m:
+                # Snooker: the cue ball starts in the D.
+                return (spec.baulk_line_x_m - 0.5 * spec.d_radius_m, self.table.width / 2)
+            return spots.get("head spot", (self.table.length / 4, self.table.width / 2))
+        return spots.get("foot spot", (0.75 * self.table.length, self.table.width / 2))
+
+    def remove_ball(self, ball: str) -> bool:
+        """Take ``ball`` off the table (an aim that uses it goes too)."""
+        self.layout.position(ball)
+        aim = self.aim
+        if isinstance(aim, PocketAim) and (ball in aim.sequence or ball == "cue"):
+            aim = None
+        if ball == "cue" and isinstance(aim, FreeAim):
+            aim = None
+        changed = self._apply(None, layout=self.layout.without_ball(ball), aim=aim)
+        if self.selection == ball:
+            self.selection = None
+        return changed
+
+    def set_rack(self, kind: str) -> bool:
+        """Rack the balls as the trade does (``8-ball`` or ``9-ball``), cue ball on the head spot."""
+        balls = rack(kind, self.layout.table)
+        layout = Layout(self.layout.table, tuple(balls.items()), self.layout.stroke,
+                        self.layout.physics_overrides,
+                        self.layout.title, self.layout.note)
+        self.selection = None
+        return self._apply(None, layout=layout, aim=None)
+
+    def clear(self) -> bool:
+        """Take every object ball off; the cue ball stays (or comes back to the head spot)."""
+        cue = dict(self.layout.balls).get("cue")
+        if cue is None:
+            cue = legal_spot(self.table, self._default_spot("cue"), ()) or self._default_spot("cue")
+        layout = Layout(self.layout.table, (("cue", cue),), self.layout.stroke,
+                        self.layout.physics_overrides, self.layout.title, self.layout.note)
+        aim = self.aim if isinstance(self.aim, FreeAim) else None
+        self.selection = None
+        return self._apply(None, layout=layout, aim=aim)
+
+    # stroke settings
+    def set_speed(self, speed_mps: float, coalesce: str | None = None) -> bool:
+        """Set the launch speed (kept within :data:`SPEED_RANGE_MPS`)."""
+        lo, hi = SPEED_RANGE_MPS
+        v = min(max(float(speed_mps), lo), min(hi, MAX_SPEED_MPS))
+        return self._apply(coalesce, settings=_replace(self.settings, speed_mps=v))
+
+    def set_tip(self, side: float, height: float, coalesce: str | None = None) -> bool:
+        """Set the tip offset (ball radii), moved inside the miscue limit if beyond it."""
+        s, h = clamp_tip(float(side), float(height), self.miscue_limit)
+        return self._apply(coalesce, settings=_replace(self.settings, side=s, height=h))
+
+    def set_elevation(self, elevation_deg: float, coalesce: str | None = None) -> bool:
+        """Set the cue elevation (kept within :data:`ELEVATION_RANGE_DEG`)."""
+        lo, hi = ELEVATION_RANGE_DEG
+        e = min(max(float(elevation_deg), lo), hi)
+        return self._apply(coalesce, settings=_replace(self.settings, elevation_deg=e))
+
+    # aim
+    def aim_at_pocket(self, ball: str, pocket: str) -> bool:
+        """Aim ``ball`` (an object ball) straight at ``pocket``."""
+        if ball == "cue" or ball not in self.layout.ball_ids:
+            raise LayoutError(f"{ball!r} is not an object ball on the table")
+        self.table.pocket_index(pocket)  # KeyError names the valid pockets
+        return self._apply(None, aim=PocketAim(ball, pocket))
+
+    def aim_free(self, direction_deg: float, coalesce: str | None = None) -> bool:
+        """Aim the cue by hand in ``direction_deg`` (kept within -180..180)."""
+        d = (float(direction_deg) + 180.0) % 360.0 - 180.0
+        return self._apply(coalesce, aim=FreeAim(d))
+
+    def nudge_aim(self, delta_deg: float, coalesce: str | None = "nudge") -> bool:
+        """Turn the cue by ``delta_deg`` (counter-clockwise +); an aim at a
+        pocket becomes a free aim from its current direction."""
+        d = self.direction_deg
+        if d is None:
+            return False
+        return self.aim_free(d + delta_deg, coalesce)
+
+    def clear_aim(self) -> bool:
+        """Not aimed."""
+        return self._apply(None, aim=None)
+
+    def set_proposals(self, shots: Sequence[Any], done: bool) -> None:
+        """Replace the proposals (the predictor calls this; not an edit)."""
+        self.proposals = tuple(shots)
+        self.proposals_done = done
+
+    def choose_proposal(self, index: int) -> bool:
+        """Load the aim and the stroke of proposal ``index`` (0 = best)."""
+        if not 0 <= index < len(self.proposals):
+            raise InputError(f"proposal {index + 1} does not exist, there are "
+                             f"{len(self.proposals)}")
+        shot = self.proposals[index]
+        settings = StrokeSettings(shot.speed_mps, shot.side, shot.height, 0.0)
+        aim = PocketAim(shot.balls[0], shot.pocket, shot.kind, tuple(shot.rails), tuple(shot.balls))
+        self._apply(None, settings=settings, aim=aim)
+        self.derived_direction_deg = float(shot.direction_deg)
+        self.chosen = index
+        self.selection = shot.balls[0]
+        return True
+
+    # ------------------------------------------------------------- files
+    def replace_layout(self, layout: Layout, path: str | None, load_message: str = "") -> None:
+        """Open ``layout`` as a new document: history cleared, nothing unsaved."""
+        fresh = ViewState(layout, path, load_message)
+        self.layout, self.settings, self.aim = fresh.layout, fresh.settings, fresh.aim
+        self.path, self.load_message = path, load_message
+        self.selection = None
+        self.derived_direction_deg = None
+        self.proposals, self.proposals_done, self.chosen = (), False, None
+        self.undo_stack.clear()
+        self.redo_stack.clear()
+        self._coalesce = None
+        self._saved = self.snapshot()
+        self._unsaved = False
+        self.revision += 1
+
+    def restore_snapshot(self, snap: Snapshot, path: str | None) -> None:
+        """Take back recovered work: its layout, settings and aim, still unsaved."""
+        self.replace_layout(snap.layout, path)
+        self.settings, self.aim = snap.settings, snap.aim
+        self._unsaved = True  # recovered work is unsaved until it is saved
+        self.revision += 1
+
+    def mark_saved(self, path: str) -> None:
+        """The current state was written to ``path``."""
+        self.path = path
+        self._saved = self.snapshot()
+        self._unsaved = False
+        self.revision += 1
+
+
+def _replace(settings: StrokeSettings, **changes: float) -> StrokeSettings:
+    values = {"speed_mps": settings.speed_mps, "side": settings.side, "height": settings.height,
+              "elevation_deg": settings.elevation_deg}
+    values.update(changes)
+    return StrokeSettings(**values)

@@ -1,0 +1,12 @@
+"""Shared test set-up.
+
+The table view's tests run headless: SDL's dummy video and audio drivers are
+chosen before anything imports pygame (pygame reads them when its display
+starts), and pygame's greeting is kept off the test output.
+"""
+
+import os
+
+os.environ.setdefault("SDL_VIDEODRIVER", "dummy")
+os.environ.setdefault("SDL_AUDIODRIVER", "dummy")
+os.environ.setdefault("PYGAME_HIDE_SUPPORT_PROMPT", "1")
