@@ -52,7 +52,7 @@ if JIT_ENABLED:
         try:
             _dir = cache_dir()
             _dir.mkdir(parents=True, exist_ok=True)
-            numba.config.CACHE_DIR = str(_dir)
+            numba.config.CACHE_DIR = str(_dir)  # type: ignore[attr-defined]
         except OSError:  # pragma: no cover - no writable home: numba's default
             pass
 
