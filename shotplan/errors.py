@@ -14,6 +14,7 @@ __all__ = [
     "StrokeError",
     "PhysicsError",
     "InputError",
+    "UnknownName",
 ]
 
 
@@ -35,3 +36,13 @@ class PhysicsError(ShotplanError, ValueError):
 
 class InputError(ShotplanError, ValueError):
     """Any other bad input: a measurement file, a command-line value, an output path."""
+
+
+class UnknownName(ShotplanError, ValueError, KeyError):
+    """A name that is not one of the valid ones: a pocket, a spot, a ball id.
+
+    Also a ``KeyError``, so lookups can be caught as such; its text is the
+    plain message (a bare ``KeyError`` would quote it)."""
+
+    def __str__(self) -> str:
+        return str(self.args[0]) if self.args else ""
