@@ -569,6 +569,13 @@ def find_shots(
     if speed is not None and not 0.0 < speed <= 15.0:
         raise InputError(f"speed {speed!r} m/s is out of range, must be above 0 and at most 15")
     phys = physics if physics is not None else layout.physics()
+    limit = phys.miscue_limit
+    if not abs(side) <= limit:
+        raise InputError(f"side {side!r} is beyond the miscue limit, must be within "
+                         f"+-{limit:g} ball radii")
+    if height is not None and math.hypot(side, height) > limit:
+        raise InputError(f"tip offset side {side!r}, height {height!r} is beyond the miscue "
+                         f"limit {limit:g} ball radii")
     sim = simulator_for(layout.table, phys)
     table = sim.table
     positions = layout.positions()
@@ -750,6 +757,10 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
     found = None
     for v in speeds:
         h = height if height is not None else tip_height(tip, v, max(cand.cue_distance, 0.0), phys)
+        # With side on the tip, keep the whole offset inside the miscue limit.
+        room = math.sqrt(max((0.95 * phys.miscue_limit) ** 2 - side * side, 0.0))
+        if height is None:
+            h = max(min(h, room), -room)
         phi, e0 = _refine(ctx, err, phi_ghost, v, side, h)
         if phi is None:
             continue

@@ -239,3 +239,25 @@ def test_scratch_rejected_unless_allowed():
     res = find_shots(lay, kinds=["direct"], balls=["1"], pockets=["foot-right"], tip="follow",
                      speed=2.0, allow_scratch=True)
     assert res.shots and res.shots[0].scratch and res.shots[0].cue_finish is None
+
+
+@pytest.mark.parametrize("side", [-0.3, 0.2, 0.35])
+def test_aim_corrects_for_squirt(side):
+    # Squirt by the cue's end mass (published end-mass analysis of squirt):
+    # tan(alpha) = (5/2) a sqrt(1 - a^2) / (1 + m/m_e + (5/2)(1 - a^2)), the
+    # ball leaving to the left of the cue line for right english. With no
+    # ball-ball friction (no throw) the search's aim must differ from the
+    # centre-ball aim by exactly that, turned the other way.
+    phys = Physics(ball_friction=0.0)
+    lay = cut_layout(20.0, d_cue=0.6, s_ob=0.5)
+    plain = only(lay, physics=phys, speed=2.5)
+    english = only(lay, physics=phys, speed=2.5, side=side)
+    m, m_e = SPEC.ball.mass_kg, phys.cue_end_mass_kg
+    alpha = math.degrees(math.atan(2.5 * side * math.sqrt(1 - side**2)
+                                   / (1 + m / m_e + 2.5 * (1 - side**2))))
+    assert english.direction_deg - plain.direction_deg == pytest.approx(-alpha, abs=0.02)
+
+
+def test_side_beyond_the_miscue_limit_is_refused():
+    with pytest.raises(InputError, match="miscue limit"):
+        find_shots(straight_in(0.5, 0.5), side=0.51)
