@@ -167,6 +167,8 @@ def _add_search_options(p: argparse.ArgumentParser) -> None:
                    help="stun, follow, draw or centre (default: stun)")
     p.add_argument("--side", type=float, default=0.0, metavar="F",
                    help="side offset in ball radii, + is right english (default 0)")
+    p.add_argument("--elevation", type=float, default=0.0, metavar="DEG",
+                   help="cue elevation for every shot, degrees (default 0)")
     p.add_argument("--allow-scratch", action="store_true",
                    help="keep shots where the cue ball falls too (flagged)")
 
@@ -177,7 +179,7 @@ def _search(args: argparse.Namespace, layout: Any) -> Any:
     kinds = [k.strip() for k in args.kinds.split(",") if k.strip()]
     return find_shots(layout, balls=args.ball, pockets=args.pocket, kinds=kinds,
                       speed=args.speed, tip=args.tip, side=args.side,
-                      allow_scratch=args.allow_scratch)
+                      elevation_deg=args.elevation, allow_scratch=args.allow_scratch)
 
 
 def _playable(layout: Any, name: str) -> None:

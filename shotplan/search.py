@@ -116,6 +116,8 @@ class Shot:
     """Object ball's path to the pocket."""
     difficulty: float
     """A rank key after the window: grows with the cut and the distances."""
+    elevation_deg: float = 0.0
+    """Cue elevation, degrees."""
 
     @property
     def window_deg(self) -> float:
@@ -124,7 +126,8 @@ class Shot:
 
     def stroke(self) -> Stroke:
         """The stroke to play this shot."""
-        return Stroke(self.direction_deg, self.speed_mps, self.side, self.height)
+        return Stroke(self.direction_deg, self.speed_mps, self.side, self.height,
+                      self.elevation_deg)
 
     def to_dict(self) -> dict[str, Any]:
         """The JSON object of ``shotplan plan --json``."""
@@ -148,6 +151,7 @@ class Shot:
             "speed_word": speed_word(self.speed_mps),
             "side": self.side,
             "height": self.height,
+            "elevation_deg": self.elevation_deg,
             "tip": self.tip,
             "cue_finish": list(self.cue_finish) if self.cue_finish is not None else None,
             "scratch": self.scratch,
@@ -293,17 +297,18 @@ class _Run:
 
 
 class _Context:
-    def __init__(self, sim: Simulator, ids: list[str], pos: np.ndarray):
+    def __init__(self, sim: Simulator, ids: list[str], pos: np.ndarray, elevation: float = 0.0):
         self.sim = sim
         self.ids = ids
         self.pos = pos
         self.cue = ids.index("cue")
         self.count = 0
         self.R = sim.radius
+        self.elevation = elevation
 
     def play(self, direction: float, speed: float, side: float, height: float) -> _Run:
         self.count += 1
-        ln = self.sim.launch(Stroke(direction, speed, side, height))
+        ln = self.sim.launch(Stroke(direction, speed, side, height, self.elevation))
         return _Run(self.sim.run_raw(self.pos, self.cue, ln.velocity, ln.spin))
 
 
@@ -536,6 +541,7 @@ def find_shots(
     tip: str = "stun",
     side: float = 0.0,
     height: float | None = None,
+    elevation_deg: float = 0.0,
     top: int | None = None,
     allow_scratch: bool = False,
     max_cut_deg: float = MAX_CUT_DEG,
@@ -557,6 +563,8 @@ def find_shots(
         Tip choice (:data:`TIPS`) and side offset (ball radii) for every shot.
     height
         Tip height (ball radii) for every shot, instead of the tip choice.
+    elevation_deg
+        Cue elevation for every shot, degrees.
     allow_scratch
         Keep shots that pocket the cue ball too (flagged ``scratch``).
     """
@@ -583,7 +591,10 @@ def find_shots(
     if "cue" not in ids:
         raise InputError("the layout has no cue ball: nothing to strike")
     pos = np.array([positions[i] for i in ids], dtype=float)
-    ctx = _Context(sim, ids, pos)
+    if not 0.0 <= elevation_deg <= 60.0:
+        raise InputError(f"elevation {elevation_deg!r} deg is out of range, must be between 0 "
+                         "and 60 degrees")
+    ctx = _Context(sim, ids, pos, elevation_deg)
     R = sim.radius
     reff = table.contact_offset
     cue = ctx.cue
@@ -826,6 +837,7 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
         cue_distance_m=cand.cue_distance,
         object_distance_m=cand.object_path,
         difficulty=difficulty,
+        elevation_deg=ctx.elevation,
     ), ""
 
 

@@ -271,14 +271,15 @@ class Predictor:
             s = state.settings
             if (shot.balls == aim.sequence and shot.pocket == aim.pocket and shot.kind == aim.kind
                     and tuple(shot.rails) == aim.rails and shot.speed_mps == s.speed_mps
-                    and shot.side == s.side and shot.height == s.height):
+                    and shot.side == s.side and shot.height == s.height
+                    and shot.elevation_deg == s.elevation_deg):
                 return shot, ""
         s = state.settings
         self.window_searches += 1
         try:
             res = find_shots(state.layout, balls=[aim.ball], pockets=[aim.pocket], kinds=(aim.kind,),
                              speed=s.speed_mps, side=s.side, height=s.height,
-                             physics=state.physics())
+                             elevation_deg=s.elevation_deg, physics=state.physics())
         except (ShotplanError, KeyError) as e:
             return None, str(e)
         for shot in res.shots:
