@@ -90,7 +90,6 @@ from __future__ import annotations
 import csv
 import math
 import os
-import stat
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -100,6 +99,7 @@ import numpy as np
 
 from .equipment import OVERRIDE_KEYS, PRESETS, TableSpec
 from .errors import InputError, LayoutError, ShotplanError
+from .fileio import read_limited
 from .physics.params import Physics
 
 __all__ = [
@@ -359,28 +359,8 @@ def _valid_columns_text() -> str:
 
 def _read_text(path: str | os.PathLike[str]) -> str:
     name = str(path)
-    p = Path(path)
-    try:
-        st = p.stat()
-    except (FileNotFoundError, NotADirectoryError):
-        raise InputError(f"{name}: no such file") from None
-    except OSError as e:
-        raise InputError(f"{name}: cannot read: {e.strerror or e}") from None
-    except ValueError as e:
-        raise InputError(f"{name!r}: not a usable file name ({e})") from None
-    if stat.S_ISDIR(st.st_mode):
-        raise InputError(f"{name}: is a folder, not a measurement file (.csv)")
-    if stat.S_ISREG(st.st_mode) and st.st_size > MAX_FILE_BYTES:
-        raise InputError(f"{name}: the file is too large ({st.st_size / 1e6:.1f} MB), "
-                         f"measurement files are at most {MAX_FILE_BYTES // (1024 * 1024)} MB")
-    try:
-        with open(p, "rb") as fh:
-            data = fh.read(MAX_FILE_BYTES + 1)
-    except OSError as e:
-        raise InputError(f"{name}: cannot read: {e.strerror or e}") from None
-    if len(data) > MAX_FILE_BYTES:
-        raise InputError(f"{name}: the file is too large, measurement files are at most "
-                         f"{MAX_FILE_BYTES // (1024 * 1024)} MB")
+    data = read_limited(path, MAX_FILE_BYTES, InputError, "measurement file (.csv)",
+                        "measurement files")
     if b"\x00" in data:
         raise InputError(f"{name}: not a text file (it holds NUL bytes); measurement files "
                          "are CSV text")

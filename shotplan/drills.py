@@ -72,7 +72,7 @@ import numpy as np
 
 from .errors import InputError, LayoutError
 from .fileio import atomic_write_text, check_output_path
-from .layout import Layout, _kind, _show, load_layout, read_json_file
+from .layout import Layout, _kind, _show, check_format, check_version, load_layout, read_json_file
 from .position import Zone, _Player, setting_words, zone_words
 from .stroke import Stroke
 
@@ -311,21 +311,8 @@ class Drill:
             if key not in DRILL_KEYS:
                 raise LayoutError(f"{where}: unknown field {key!r}, must be one of "
                                   f"{', '.join(DRILL_KEYS)}")
-        if "format" not in data:
-            raise LayoutError(f"{where}: format: missing, a drill file has "
-                              f"\"format\": \"{FORMAT}\"")
-        if data["format"] != FORMAT:
-            raise LayoutError(f"{where}: format: {_show(data['format'])} is not a drill file "
-                              f"format, must be \"{FORMAT}\"")
-        if "version" not in data:
-            raise LayoutError(f"{where}: version: missing, must be {VERSION}")
-        v = data["version"]
-        if isinstance(v, bool) or not isinstance(v, int):
-            raise LayoutError(f"{where}: version: {_show(v)} is not a version number, "
-                              f"must be {VERSION}")
-        if v != VERSION:
-            raise LayoutError(f"{where}: version: {v} is not supported, this shotplan reads "
-                              f"drill version {VERSION}")
+        check_format(data, where, FORMAT, kind="drill")
+        check_version(data, where, VERSION, kind="drill")
         if "title" not in data:
             raise LayoutError(f"{where}: title: missing, must be the drill's title (text)")
         title = _text(data["title"], f"{where}: title", required=True)

@@ -11,13 +11,15 @@ from __future__ import annotations
 
 import contextlib
 import os
+import stat
 import tempfile
 from collections.abc import Iterator
 from pathlib import Path
 
 from .errors import InputError
 
-__all__ = ["atomic_path", "atomic_write_text", "atomic_write_bytes", "check_output_path"]
+__all__ = ["atomic_path", "atomic_write_text", "atomic_write_bytes", "check_output_path",
+           "read_limited"]
 
 
 def check_output_path(path: str | os.PathLike[str], suffixes: tuple[str, ...] | None = None) -> Path:
@@ -86,3 +88,34 @@ def atomic_write_bytes(path: str | os.PathLike[str], data: bytes) -> None:
 def atomic_write_text(path: str | os.PathLike[str], text: str) -> None:
     """Write ``text`` (UTF-8) to ``path`` atomically."""
     atomic_write_bytes(path, text.encode("utf-8"))
+
+
+def read_limited(path: str | os.PathLike[str], max_bytes: int, error: type[Exception],
+                 noun: str = "file", plural: str = "files") -> bytes:
+    """The bytes of an input file, every way that can fail turned into one
+    ``error`` line starting with the file name: missing, unreadable, a folder
+    (``is a folder, not a <noun>``), larger than ``max_bytes``."""
+    name = str(path)
+    p = Path(path)
+    size_mb = f"{max_bytes / (1024 * 1024):g} MB"
+    try:
+        st = p.stat()
+    except (FileNotFoundError, NotADirectoryError):
+        raise error(f"{name}: no such file") from None
+    except OSError as e:
+        raise error(f"{name}: cannot read: {e.strerror or e}") from None
+    except ValueError as e:  # a NUL byte in the name
+        raise error(f"{name!r}: not a usable file name ({e})") from None
+    if stat.S_ISDIR(st.st_mode):
+        raise error(f"{name}: is a folder, not a {noun}")
+    if stat.S_ISREG(st.st_mode) and st.st_size > max_bytes:
+        raise error(f"{name}: the file is too large ({st.st_size / 1e6:.1f} MB), "
+                    f"{plural} are at most {size_mb}")
+    try:
+        with open(p, "rb") as fh:
+            data = fh.read(max_bytes + 1)
+    except OSError as e:
+        raise error(f"{name}: cannot read: {e.strerror or e}") from None
+    if len(data) > max_bytes:
+        raise error(f"{name}: the file is too large, {plural} are at most {size_mb}")
+    return data

@@ -39,10 +39,8 @@ import json
 import math
 import os
 import re
-import stat
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
-from pathlib import Path
 from typing import Any
 
 import numpy as np
@@ -50,7 +48,7 @@ import shapely
 
 from .equipment import PRESETS, TableSpec
 from .errors import LayoutError, PhysicsError, StrokeError
-from .fileio import atomic_write_text, check_output_path
+from .fileio import atomic_write_text, check_output_path, read_limited
 from .physics.params import Physics
 from .stroke import Stroke
 from .table import LINE_RAIL, Table
@@ -325,9 +323,9 @@ class Layout:
                 raise LayoutError(f"{where}: unknown field {key!r}, must be one of "
                                   f"{', '.join(LAYOUT_KEYS)}")
         if header or "format" in data:
-            _check_format(data, where)
+            check_format(data, where)
         if header or "version" in data:
-            _check_version(data, where)
+            check_version(data, where)
         table = _table_from_json(data.get("table", _MISSING), where)
         if "balls" not in data:
             raise LayoutError(f"{where}: balls: missing, must be an object of ball id: [x, y] "
@@ -415,28 +413,7 @@ def read_json_file(path: str | os.PathLike[str], max_bytes: int = MAX_FILE_BYTES
     """Read and parse a JSON file, turning every way it can fail into one
     :class:`LayoutError` line that starts with the file name."""
     name = str(path)
-    p = Path(path)
-    try:
-        st = p.stat()
-    except (FileNotFoundError, NotADirectoryError):
-        raise LayoutError(f"{name}: no such file") from None
-    except OSError as e:
-        raise LayoutError(f"{name}: cannot read: {e.strerror or e}") from None
-    except ValueError as e:  # a NUL byte in the name
-        raise LayoutError(f"{name!r}: not a usable file name ({e})") from None
-    if stat.S_ISDIR(st.st_mode):
-        raise LayoutError(f"{name}: is a folder, not a file")
-    if stat.S_ISREG(st.st_mode) and st.st_size > max_bytes:
-        raise LayoutError(f"{name}: the file is too large ({st.st_size / 1e6:.1f} MB), "
-                          f"files are at most {max_bytes / (1024 * 1024):g} MB")
-    try:
-        with open(p, "rb") as fh:
-            data = fh.read(max_bytes + 1)
-    except OSError as e:
-        raise LayoutError(f"{name}: cannot read: {e.strerror or e}") from None
-    if len(data) > max_bytes:
-        raise LayoutError(f"{name}: the file is too large, files are at most "
-                          f"{max_bytes / (1024 * 1024):g} MB")
+    data = read_limited(path, max_bytes, LayoutError)
     try:
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError as e:
@@ -600,25 +577,30 @@ def _check_numbers(data: Any, where: str) -> None:
                 stack.append((v, f"{path}[{i}]"))
 
 
-def _check_format(data: Mapping[str, Any], where: str) -> None:
+def check_format(data: Mapping[str, Any], where: str, fmt: str = FORMAT,
+                 kind: str = "layout") -> None:
+    """Check a file's ``format`` field (``kind`` names the kind of file in
+    messages: layout, drill...)."""
     if "format" not in data:
-        raise LayoutError(f"{where}: format: missing, a layout file has "
-                          f"\"format\": \"{FORMAT}\"")
-    if data["format"] != FORMAT:
-        raise LayoutError(f"{where}: format: {_show(data['format'])} is not a layout file "
-                          f"format, must be \"{FORMAT}\"")
+        raise LayoutError(f"{where}: format: missing, a {kind} file has "
+                          f"\"format\": \"{fmt}\"")
+    if data["format"] != fmt:
+        raise LayoutError(f"{where}: format: {_show(data['format'])} is not a {kind} file "
+                          f"format, must be \"{fmt}\"")
 
 
-def _check_version(data: Mapping[str, Any], where: str) -> None:
+def check_version(data: Mapping[str, Any], where: str, version: int = VERSION,
+                  kind: str = "layout") -> None:
+    """Check a file's ``version`` field."""
     if "version" not in data:
-        raise LayoutError(f"{where}: version: missing, must be {VERSION}")
+        raise LayoutError(f"{where}: version: missing, must be {version}")
     v = data["version"]
     if isinstance(v, bool) or not isinstance(v, int):
         raise LayoutError(f"{where}: version: {_show(v)} is not a version number, "
-                          f"must be {VERSION}")
-    if v != VERSION:
+                          f"must be {version}")
+    if v != version:
         raise LayoutError(f"{where}: version: {v} is not supported, this shotplan reads "
-                          f"layout version {VERSION}")
+                          f"{kind} version {version}")
 
 
 def _table_from_json(value: Any, where: str) -> TableSpec:

@@ -50,6 +50,17 @@ def _reach(vx, vy, ax, ay, h):  # type: ignore[no-untyped-def]
 
 
 @jit
+def _circle_quartic(c, qx, qy, vx, vy, bx, by, rr):  # type: ignore[no-untyped-def]
+    """Fill c with |q + v t + b t^2|^2 - rr^2: a point moving on a parabola
+    against a circle of radius rr (ball-ball, jaw tip, jaw corner)."""
+    c[0] = qx * qx + qy * qy - rr * rr
+    c[1] = 2.0 * (qx * vx + qy * vy)
+    c[2] = vx * vx + vy * vy + 2.0 * (qx * bx + qy * by)
+    c[3] = 2.0 * (vx * bx + vy * by)
+    c[4] = bx * bx + by * by
+
+
+@jit
 def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  # type: ignore[no-untyped-def]
     """Absolute time balls i and j next come into contact before
     ``t_now + horizon``, or ``inf``."""
@@ -81,11 +92,7 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
     if gap > _reach(qx, qy, 2.0 * bx, 2.0 * by, h) + 1e-12:
         return math.inf
     c = np.empty(5)
-    c[0] = px * px + py * py - D * D
-    c[1] = 2.0 * (px * qx + py * qy)
-    c[2] = qx * qx + qy * qy + 2.0 * (px * bx + py * by)
-    c[3] = 2.0 * (qx * bx + qy * by)
-    c[4] = bx * bx + by * by
+    _circle_quartic(c, px, py, qx, qy, bx, by, D)
     t = first_down_crossing(c, 4, h, buf)
     return t_now + t
 
@@ -167,13 +174,7 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             qx = x - x1
             qy = y - y1
             if math.hypot(qx, qy) - reff <= reach:
-                bx = 0.5 * ax
-                by = 0.5 * ay
-                c[0] = qx * qx + qy * qy - reff * reff
-                c[1] = 2.0 * (qx * vx + qy * vy)
-                c[2] = vx * vx + vy * vy + 2.0 * (qx * bx + qy * by)
-                c[3] = 2.0 * (vx * bx + vy * by)
-                c[4] = bx * bx + by * by
+                _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, reff)
                 t = first_down_crossing(c, 4, best, buf)
                 if t < best:
                     px = x + vx * t + 0.5 * ax * t * t
@@ -191,13 +192,7 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         rr = rho + reff
         if math.hypot(qx, qy) - rr > reach:
             continue
-        bx = 0.5 * ax
-        by = 0.5 * ay
-        c[0] = qx * qx + qy * qy - rr * rr
-        c[1] = 2.0 * (qx * vx + qy * vy)
-        c[2] = vx * vx + vy * vy + 2.0 * (qx * bx + qy * by)
-        c[3] = 2.0 * (vx * bx + vy * by)
-        c[4] = bx * bx + by * by
+        _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, rr)
         t = first_down_crossing(c, 4, best, buf)
         if t < best:
             best = t
