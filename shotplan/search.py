@@ -318,10 +318,6 @@ def _cut_reason(cut: float, limit: float) -> str:
     return f"cut too thin ({cut:.0f} deg, limit {limit:.0f})"
 
 
-def _angle_diff(a: float, b: float) -> float:
-    return (a - b + 180.0) % 360.0 - 180.0
-
-
 # ----------------------------------------------------------------- geometry
 def _blocker(pos: np.ndarray, ids: Sequence[str], a: Any, b: Any,
              skip: Iterable[int], R: float) -> str | None:
@@ -405,7 +401,6 @@ class _Candidate:
     cue_distance: float
     object_path: float
     bounce_lines: tuple[int, ...] = ()  # cushion line indices (bank) in order
-    error: str = ""  # which signed error to use
 
 
 def _error_fn(ctx: _Context, cand: _Candidate, target: tuple[float, float]

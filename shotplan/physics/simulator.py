@@ -9,7 +9,6 @@ piecewise-polynomial trajectories, which can be sampled at any time.
 
 from __future__ import annotations
 
-import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
@@ -250,7 +249,8 @@ def simulate(layout: Any, stroke: Stroke | Mapping[str, Any] | None = None,
             raise StrokeError("the layout has no stroke: give one (direction and speed)")
     elif isinstance(stroke, Mapping):
         stroke = Stroke.from_dict(stroke)
-    assert isinstance(stroke, Stroke)  # narrowed above; for the type checker
+    if not isinstance(stroke, Stroke):
+        raise StrokeError(f"stroke: {stroke!r} is not a stroke, give a Stroke or a stroke object")
     phys = physics if physics is not None else layout.physics()
     sim = simulator_for(layout.table, phys)
     positions = layout.positions()
@@ -487,7 +487,3 @@ class Outcome:
     def __repr__(self) -> str:
         return (f"<Outcome {self.n_events} events, {self.duration:.3f} s, "
                 f"pocketed {self.pocketed() or 'none'}>")
-
-
-def _finite(x: float) -> bool:
-    return math.isfinite(x)
