@@ -13,7 +13,6 @@ no traceback, and nothing written or half-written.
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from collections.abc import Callable, Sequence
 from typing import Any, NoReturn
@@ -22,8 +21,10 @@ from . import __version__
 from .equipment import PRESETS, TableSpec
 from .errors import InputError, ShotplanError
 from .fileio import check_output_path
+from .jsonout import NonFiniteError
+from .jsonout import emit as emit_json
 from .layout import load_layout
-from .units import to_inches, to_mm
+from .units import to_diamonds, to_inches, to_mm, where_words
 
 __all__ = ["main", "build_parser", "DIAGRAM_SUFFIXES"]
 
@@ -53,9 +54,8 @@ def _error_line(message: str) -> None:
     print(f"shotplan: error: {flat}", file=sys.stderr, flush=True)
 
 
-def _emit_json(value: Any) -> None:
-    """Print a JSON document (indented, finite numbers only) on stdout."""
-    print(json.dumps(value, indent=2, ensure_ascii=False, allow_nan=False))
+_emit_json = emit_json
+"""Kept for the command modules: the one strict JSON printer."""
 
 
 def _os_message(error: OSError) -> str:
@@ -142,12 +142,13 @@ def _run_check(args: argparse.Namespace) -> int:
         })
     elif not problems:
         print(f"ok: {name}: {len(layout.balls)} balls on {layout.table.name}")
-    else:
-        for p in problems:
-            print(f"{name}: {p}")
     if problems:
+        # Problems are diagnostics: stderr, one line each, then the summary.
+        if not args.json:
+            for p in problems:
+                _error_line(f"{name}: {p}")
         n = len(problems)
-        _error_line(f"{name}: {n} problem{'s' if n > 1 else ''}, listed above")
+        _error_line(f"{name}: {n} problem{'s' if n > 1 else ''}")
         return EXIT_ERROR
     return EXIT_OK
 
@@ -297,7 +298,8 @@ def _run_simulate(args: argparse.Namespace) -> int:
             print(f"  {bid:>6}  pocketed in {fin['pocket']}")
         else:
             moved = " (not moved)" if bid not in outcome.moved() else ""
-            print(f"  {bid:>6}  x {fin['x']:.3f} m, y {fin['y']:.3f} m{moved}")
+            place = where_words(fin["x"], fin["y"], layout.table.length_m, layout.table.width_m)
+            print(f"  {bid:>6}  {place}{moved}")
     if not outcome.complete:
         print("  (stopped at the event limit before every ball was still)")
     return EXIT_OK
@@ -332,17 +334,22 @@ def _run_plan(args: argparse.Namespace) -> int:
         return EXIT_OK
     print(f"{args.layout}: {len(result.shots)} shot{'s' if len(result.shots) != 1 else ''} "
           f"found ({result.simulations} simulations, {result.seconds * 1000:.0f} ms)")
+    length, width = layout.table.length_m, layout.table.width_m
     if shots:
         print(f"{'#':>3} {'kind':<11} {'balls':<7} {'pocket':<11} {'cut':>6} {'aim':>8} "
-              f"{'window':>7} {'mm':>4}  {'speed':<14} {'tip':<6} cue ball ends")
+              f"{'window':>7} {'mm':>4}  {'speed':<14} {'tip':<6} {'cue ball ends (m; diamonds)':<29} "
+              "route")
     for k, s in enumerate(shots, 1):
-        finish = ("SCRATCH" if s.cue_finish is None
-                  else f"({s.cue_finish[0]:.2f}, {s.cue_finish[1]:.2f})")
-        via = f" via {'+'.join(r.split()[0] for r in s.rails)}" if s.rails else ""
+        if s.cue_finish is None:
+            finish = "SCRATCH"
+        else:
+            fx, fy = s.cue_finish
+            da, dc = to_diamonds(fx, fy, length, width)
+            finish = f"({fx:.2f}, {fy:.2f}); ({da:.1f}, {dc:.1f})"
         print(f"{k:>3} {s.kind:<11} {'-'.join(s.balls):<7} {s.pocket:<11} "
               f"{s.cut_angle_deg:5.1f}\u00b0 {s.direction_deg:7.2f}\u00b0 "
               f"{s.window_deg:6.2f}\u00b0 {s.window_mm:4.0f}  "
-              f"{s.speed_mps:4.2f} {speed_word(s.speed_mps):<9} {s.tip:<6} {finish}{via}")
+              f"{s.speed_mps:4.2f} {speed_word(s.speed_mps):<9} {s.tip:<6} {finish:<29} {s.route()}")
     if args.explain and result.rejected:
         print("rejected:")
         for r in result.rejected:
@@ -427,6 +434,11 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_ERROR
     except KeyboardInterrupt:
         return 130
+    except NonFiniteError as e:
+        # Inside shotplan a NaN is a bug: say so in one line, not a traceback.
+        _error_line(f"internal error: a non-finite number in the JSON output ({e}); "
+                    "please report this with the command line")
+        return 1
 
 
 def _silence_stdout() -> None:

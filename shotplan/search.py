@@ -33,7 +33,7 @@ import numpy as np
 from .aim import aim_at, contact_fraction, direction_deg, mirror_point
 from .errors import InputError
 from .physics import Physics, Simulator, simulator_for
-from .physics.state import EV_COLLISION, EV_CUSHION, EV_POCKET, EV_ROLLING
+from .physics.state import EV_COLLISION, EV_CUSHION, EV_JAW, EV_POCKET, EV_ROLLING
 from .stroke import Stroke, speed_word
 from .table import Table
 
@@ -87,10 +87,12 @@ class Shot:
     direction_deg: float
     """Cue direction to play: corrected in simulation for throw, squirt and
     cushion rebound."""
-    throw_deg: float
-    """How far the first object ball leaves off the ghost-ball line when the
-    plain ghost-ball aim is played (cut- and spin-induced throw), degrees;
-    positive is counter-clockwise."""
+    throw_deg: float | None
+    """How far the object ball leaves off the ghost-ball line when the plain
+    ghost-ball aim is played (cut- and spin-induced throw), degrees; positive
+    is counter-clockwise. For a combination, the last ball's. None for banks
+    and kicks: their ghost-ball aim is taken off a rail, so there is no
+    straight ghost-ball line to measure throw against."""
     window_low_deg: float
     """Lowest cue direction that still pockets."""
     window_high_deg: float
@@ -160,9 +162,22 @@ class Shot:
             "difficulty": self.difficulty,
         }
 
+    def route(self) -> str:
+        """Which ball goes where, in words: ``ball 2 off the foot rail``,
+        ``the cue ball off the left rail onto ball 2``, ``ball 2 onto ball 9``,
+        ``ball 2 direct to the pocket``."""
+        rails = " then the ".join(self.rails)
+        if self.kind == "bank":
+            return f"ball {self.balls[0]} off the {rails}"
+        if self.kind == "kick":
+            return f"the cue ball off the {rails} onto ball {self.balls[0]}"
+        if self.kind == "combination":
+            return " onto ".join(f"ball {b}" for b in self.balls)
+        return f"ball {self.balls[0]} direct to the pocket"
+
     def describe(self) -> str:
         """One line for people."""
-        via = f" off the {' then '.join(self.rails)}" if self.rails else ""
+        via = f" ({self.route()})" if self.kind != "direct" else ""
         return (f"{self.kind} {'-'.join(self.balls)} into {self.pocket}{via}: aim "
                 f"{self.direction_deg:.2f} deg, cut {self.cut_angle_deg:.1f} deg, window "
                 f"{self.window_deg:.2f} deg ({self.window_mm:.0f} mm)")
@@ -310,6 +325,64 @@ class _Context:
         self.count += 1
         ln = self.sim.launch(Stroke(direction, speed, side, height, self.elevation))
         return _Run(self.sim.run_raw(self.pos, self.cue, ln.velocity, ln.spin))
+
+
+def _miss_reason(ctx: _Context, table: Table, cand: _Candidate, run: _Run) -> str:
+    """Why a simulated attempt did not pocket the planned ball, in the
+    player's terms: what the cue ball touched first, whether the ball was
+    knocked off line by another ball, rattled in the jaws, fell elsewhere or
+    stopped short, and how far from the pocket it ended."""
+    ids = ctx.ids
+    cue, first, last = ctx.cue, cand.first, cand.last
+    pocket = table.pockets[cand.pocket].name
+    _k, other = run.first_collision(cue)
+    if other < 0:
+        gap = math.dist(run.final[cue, :2], ctx.pos[first]) - 2.0 * ctx.R
+        if len(run.cushion_events(cue)) == 0 and run.pocket_of(cue) < 0:
+            return f"the cue ball stops {gap * 100.0:.0f} cm short of ball {ids[first]}"
+        return f"the cue ball misses ball {ids[first]}"
+    if other != first:
+        return f"the cue ball hits ball {ids[other]} before ball {ids[first]}"
+    start = _k
+    if cand.kind == "combination":
+        hits = np.flatnonzero((run.kind == EV_COLLISION) & ((run.a == first) | (run.b == first)))
+        later = [int(h) for h in hits if int(h) > start]
+        if not later:
+            return f"ball {ids[first]} misses ball {ids[last]}"
+        k2 = later[0]
+        hit = int(run.b[k2] if run.a[k2] == first else run.a[k2])
+        if hit != last:
+            return f"ball {ids[first]} hits {_ball_word(ids, hit)} before ball {ids[last]}"
+        start = k2
+    mine = np.flatnonzero(((run.a == last) | (run.b == last)) & (np.arange(run.n_ev) > start))
+    for k in mine:
+        kind = int(run.kind[k])
+        if kind == EV_COLLISION:
+            hit = int(run.b[k] if run.a[k] == last else run.a[k])
+            if hit != cue:
+                return f"ball {ids[last]} is knocked off line by {_ball_word(ids, hit)}"
+        if kind == EV_POCKET:
+            into = table.pockets[int(run.elem[k])].name
+            return f"ball {ids[last]} falls in {into} instead of {pocket}"
+    jaws = [k for k in mine if int(run.kind[k]) == EV_JAW]
+    if jaws:
+        return f"ball {ids[last]} rattles in the {pocket} jaws and stays out"
+    target = _pocket_target(table, cand.pocket)
+    end = (float(run.final[last, 0]), float(run.final[last, 1]))
+    away = math.dist(end, target) * 100.0
+    if cand.kind == "bank":
+        n_hit = len(run.cushion_events(last))
+        if n_hit < len(cand.rails):
+            return (f"ball {ids[last]} stops before it reaches the {cand.rails[n_hit]}, "
+                    f"{away:.0f} cm from {pocket}")
+    rails_after = [k for k in mine if int(run.kind[k]) == EV_CUSHION]
+    if cand.kind != "bank" and rails_after:
+        return f"ball {ids[last]} misses {pocket} and hits the cushion, ending {away:.0f} cm away"
+    return f"ball {ids[last]} stops short of {pocket}, {away:.0f} cm from it"
+
+
+def _ball_word(ids: Sequence[str], k: int) -> str:
+    return "the cue ball" if ids[k] == "cue" else f"ball {ids[k]}"
 
 
 def _cut_reason(cut: float, limit: float) -> str:
@@ -627,9 +700,11 @@ def find_shots(
                 block_ob = _blocker(pos, ids, bxy, target, (b, cue), R)
                 block_cue = _blocker(pos, ids, cue_xy, a.ghost, (b, cue), R)
                 if block_cue:
-                    reject("direct", name, pk, (), f"blocked by ball {block_cue}")
+                    reject("direct", name, pk, (), f"the cue ball's path to ball {ids[b]} is "
+                           f"blocked by {_ball_word(ids, ids.index(block_cue))}")
                 elif block_ob:
-                    reject("direct", name, pk, (), f"blocked by ball {block_ob}")
+                    reject("direct", name, pk, (), f"ball {ids[b]}'s path to the pocket is "
+                           f"blocked by {_ball_word(ids, ids.index(block_ob))}")
                 elif a.cut_deg > max_cut_deg:
                     reject("direct", name, pk, (), _cut_reason(a.cut_deg, max_cut_deg))
                 elif not _approach_ok(table, pk, bxy, target):
@@ -666,10 +741,15 @@ def find_shots(
                         continue
                     a = aim_at(cue_xy, bxy, pts[1], R)
                     blk = _blocker(pos, ids, cue_xy, a.ghost, (b, cue), R)
+                    if blk:
+                        reject("bank", name, pk, rl, f"the cue ball's path to ball {ids[b]} is "
+                               f"blocked by {_ball_word(ids, ids.index(blk))}")
+                        continue
                     for s0, s1 in zip(pts[:-1], pts[1:], strict=True):
                         blk = blk or _blocker(pos, ids, s0, s1, (b,), R)
                     if blk:
-                        reject("bank", name, pk, rl, f"blocked by ball {blk}")
+                        reject("bank", name, pk, rl, f"ball {ids[b]}'s path off the rail is "
+                               f"blocked by {_ball_word(ids, ids.index(blk))}")
                         continue
                     if a.cut_deg > max_cut_deg:
                         reject("bank", name, pk, rl, _cut_reason(a.cut_deg, max_cut_deg))
@@ -689,10 +769,15 @@ def find_shots(
                         bp = _bounce_point(r[2], cue_xy, img, reff)
                         if bp is None:
                             continue
-                        blk = (_blocker(pos, ids, cue_xy, bp, (cue,), R)
-                               or _blocker(pos, ids, bp, g, (cue, b), R))
+                        blk = _blocker(pos, ids, cue_xy, bp, (cue,), R)
                         if blk:
-                            reject("kick", name, pk, (r[1],), f"blocked by ball {blk}")
+                            reject("kick", name, pk, (r[1],), f"the cue ball's path to the "
+                                   f"{r[1]} is blocked by {_ball_word(ids, ids.index(blk))}")
+                            continue
+                        blk = _blocker(pos, ids, bp, g, (cue, b), R)
+                        if blk:
+                            reject("kick", name, pk, (r[1],), f"the cue ball's path off the "
+                                   f"{r[1]} is blocked by {_ball_word(ids, ids.index(blk))}")
                             continue
                         # cut as seen from the bounce point
                         a2 = aim_at(bp, bxy, target, R)
@@ -720,7 +805,8 @@ def find_shots(
                            or _blocker(pos, ids, bxy, a_c.ghost, (b, c), R)
                            or _blocker(pos, ids, cxy, target, (c,), R))
                     if blk:
-                        reject("combination", name, pk, (), f"blocked by ball {blk}")
+                        reject("combination", name, pk, (),
+                               f"the path is blocked by {_ball_word(ids, ids.index(blk))}")
                         continue
                     if a_b.cut_deg > 60.0:
                         reject("combination", name, pk, (), _cut_reason(a_b.cut_deg, 60.0))
@@ -769,6 +855,9 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
             h = max(min(h, room), -room)
         phi, e0 = _refine(ctx, err, phi_ghost, v, side, h)
         if phi is None:
+            # The aim could not be made to work at this speed: say what the
+            # plain ghost-ball aim does instead.
+            why = _miss_reason(ctx, table, cand, ctx.play(phi_ghost, v, side, h))
             continue
 
         def outcome(p: float, v: float = v, h: float = h) -> tuple[bool, bool, _Run]:
@@ -779,6 +868,7 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
 
         potted, scratch, run = outcome(phi)
         if not potted:
+            why = _miss_reason(ctx, table, cand, run)
             continue
         if scratch and not allow_scratch:
             why = f"scratches (cue ball into {table.pockets[run.pocket_of(cue)].name})"
@@ -798,7 +888,7 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
         return None, f"window too narrow to play ({hi - lo:.2f} deg)"
     win_mm = math.radians(hi - lo) * cand.cue_distance * 1000.0
     throw = math.degrees(e0) if (e0 is not None and cand.kind in ("direct", "combination")) \
-        else float("nan")
+        else None
     cue_finish = None if scratch else (float(run.final[cue, 0]), float(run.final[cue, 1]))
     a0 = aim_at(ctx.pos[cue], ctx.pos[cand.first], cand.aim_target, ctx.R) \
         if cand.kind != "kick" else None

@@ -30,6 +30,7 @@ from pathlib import Path
 from typing import IO, Any
 
 from .errors import InputError, LayoutError
+from .jsonout import missing_as_null
 
 __all__ = [
     "add_subcommands",
@@ -403,23 +404,12 @@ def _finish(args: argparse.Namespace, result: Any, chart: Path | None, table: Pa
     if args.json:
         from .cli import _emit_json
 
-        _emit_json({**_finite(result.to_dict()), "files": written})
+        _emit_json({**missing_as_null(result.to_dict()), "files": written})
         return 0
     print(format_study(result))
     for name in written:
         print(f"wrote {name}")
     return 0
-
-
-def _finite(value: Any) -> Any:
-    """A JSON-safe copy: no NaN or infinity (None instead)."""
-    if isinstance(value, float):
-        return value if math.isfinite(value) else None
-    if isinstance(value, Mapping):
-        return {k: _finite(v) for k, v in value.items()}
-    if isinstance(value, list | tuple):
-        return [_finite(v) for v in value]
-    return value
 
 
 def _run_window(args: argparse.Namespace) -> int:

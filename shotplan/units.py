@@ -19,6 +19,8 @@ __all__ = [
     "deg",
     "to_deg",
     "STANDARD_GRAVITY",
+    "to_diamonds",
+    "where_words",
 ]
 
 INCH = 0.0254
@@ -59,3 +61,18 @@ def deg(value_deg: float) -> float:
 def to_deg(value_rad: float) -> float:
     """Radians to degrees."""
     return math.degrees(value_rad)
+
+
+def to_diamonds(x: float, y: float, length: float, width: float) -> tuple[float, float]:
+    """A table point in diamonds: (along, across), a diamond being ``L/8``
+    along the length and ``W/4`` across, counted from the head-right corner
+    of the cushion noses (the sights split a long rail into eight and a short
+    one into four: common practice, no source)."""
+    return (x / (length / 8.0), y / (width / 4.0))
+
+
+def where_words(x: float, y: float, length: float, width: float) -> str:
+    """A place for people, in metres and in diamonds:
+    ``x 1.969 m, y 0.206 m (6.20 along, 0.65 across in diamonds)``."""
+    along, across = to_diamonds(x, y, length, width)
+    return f"x {x:.3f} m, y {y:.3f} m ({along:.2f} along, {across:.2f} across in diamonds)"

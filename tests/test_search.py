@@ -128,7 +128,7 @@ def test_blocked_ball_is_not_proposed_direct():
     lay = lay.with_ball("2", blocker)
     res = find_shots(lay, kinds=["direct"], balls=["1"], pockets=["foot-right"])
     assert not res.shots
-    assert any(r.reason == "blocked by ball 2" for r in res.rejected)
+    assert any(r.reason == "ball 1's path to the pocket is blocked by ball 2" for r in res.rejected)
 
 
 def test_bank_found_where_the_mirror_construction_says():
