@@ -13,6 +13,16 @@ from .table import Table
 
 __version__ = "0.1.0"
 
+
+def __getattr__(name: str) -> object:
+    # The engine (numba) loads on first use, so that importing shotplan and
+    # the commands that do not simulate stay fast.
+    if name in ("simulate", "Outcome"):
+        from . import physics
+
+        return getattr(physics, name)
+    raise AttributeError(f"module 'shotplan' has no attribute {name!r}")
+
 __all__ = [
     "__version__",
     "PRESETS",
@@ -24,6 +34,8 @@ __all__ = [
     "save_layout",
     "Stroke",
     "Physics",
+    "Outcome",
+    "simulate",
     "ShotplanError",
     "LayoutError",
     "StrokeError",
