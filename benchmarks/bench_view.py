@@ -43,7 +43,7 @@ def main() -> None:
     pygame.display.init()
     pygame.font.init()
     screen = pygame.display.set_mode((1280, 800))
-    app = App(_layout(), recovery_path=None, offer_recovery=False)
+    app = App(_layout(), recovery_dir=None, offer_recovery=False)
     app.start((1280, 800))
     st = app.state
     st.aim_at_pocket("1", "foot-left")

@@ -46,7 +46,7 @@ def display():
 
 
 def make_app(tmp_path, layout=None, path=None, **kw):
-    kw.setdefault("recovery_path", tmp_path / "state" / "recovery.json")
+    kw.setdefault("recovery_dir", tmp_path / "state")
     kw.setdefault("offer_recovery", False)
     app = App(layout, str(path) if path else None, **kw)
     app.start((1280, 800))
@@ -442,68 +442,171 @@ def test_export_refuses_other_suffixes(demo, tmp_path):
 
 # ------------------------------------------------------------ recovery
 def test_recovery_file_is_written_and_offered_back(tmp_path):
-    rec = tmp_path / "state" / "shotplan" / "recovery.json"
-    app = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_path=rec)
+    folder = tmp_path / "state" / "shotplan"
+    app = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder)
     st = app.state
+    rec = app.session.path
     cue = st.layout.position("cue")
     drag(app, screen(app, cue), screen(app, (cue[0] - 0.25, cue[1])))
     app.do("speed", 2.5)
     assert not rec.exists()  # debounced: not yet
     app.update(1.0)
-    assert rec.exists()
+    assert rec.exists() and rec.parent == folder
     found = read_recovery(rec)
     assert found.snapshot.layout == st.layout_to_save()
     assert found.snapshot.settings == st.settings and found.snapshot.aim == st.aim
     assert found.source == str(DEMO)
 
-    # The next start finds it and asks; Restore brings the work back, unsaved.
-    again = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_path=rec, offer_recovery=True)
+    # While the first view runs, a second one does not offer its work.
+    second = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert second.recovered is None and second._recovery_dialog is None
+
+    # The first view ends without saving: the next start finds its work and
+    # asks; Restore brings it back, unsaved, as the new session's own.
+    app.close()
+    again = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder, offer_recovery=True)
     assert again.recovered is not None and again._recovery_dialog is not None
+    # ...and while it asks, no other start offers the same file.
+    rival = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert rival.recovered is None
     click_widget(again, again._recovery_dialog.restore)
     assert again.state.layout.positions() == st.layout.positions()
     assert again.state.settings.speed_mps == 2.5
+    assert again.state.path == str(DEMO)
     assert again.state.dirty
+    assert not rec.exists() and read_recovery(again.session.path).snapshot.settings.speed_mps == 2.5
 
-    # A third start: Discard removes it.
-    third = make_app(tmp_path, None, recovery_path=rec, offer_recovery=True)
+    # It ends too; a third start discards its work: only that file goes.
+    again.close()
+    third = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
     click_widget(third, third._recovery_dialog.discard)
-    assert not rec.exists()
+    assert not again.session.path.exists()
+    assert sorted(folder.glob("*.json")) == []
+
+
+def test_two_views_keep_their_own_recovery_files(tmp_path):
+    # The sequence of the report: view A edits, view B starts and discards
+    # (or edits), A is killed: A's work must still be there, whole.
+    folder = tmp_path / "rec"
+    a = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder)
+    a.do("speed", 2.7)
+    a.update(1.0)
+    b = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert b.recovered is None  # A runs: nothing is offered, nothing to discard
+    b.do("speed", 1.3)
+    b.update(1.0)
+    assert a.session.path != b.session.path
+    assert read_recovery(a.session.path).snapshot.settings.speed_mps == 2.7
+    assert read_recovery(b.session.path).snapshot.settings.speed_mps == 1.3
+    b.save_file(tmp_path / "b.json")  # B's save removes B's file only
+    assert not b.session.path.exists() and a.session.path.exists()
+    a.session._lock.close()  # A dies without a word (the system drops its lock)
+    a.session._lock = None
+    c = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert c.recovered is not None and c.recovered.snapshot.settings.speed_mps == 2.7
+
+
+def test_a_view_in_another_process_is_not_offered(tmp_path):
+    # A lock held by another live process (not only another file handle here).
+    folder = tmp_path / "rec"
+    folder.mkdir()
+    first = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder)
+    first.do("speed", 2.4)
+    first.update(1.0)
+    path = first.session.path
+    first.session._lock.close()
+    first.session._lock = None
+    code = ("import fcntl, sys, time; fh = open(sys.argv[1], 'a+'); "
+            "fcntl.flock(fh, fcntl.LOCK_EX); print('held', flush=True); time.sleep(30)")
+    holder = subprocess.Popen([sys.executable, "-c", code, str(path.with_suffix(".lock"))],
+                              stdout=subprocess.PIPE, text=True)
+    try:
+        assert holder.stdout.readline().strip() == "held"
+        other = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+        assert other.recovered is None
+    finally:
+        holder.kill()
+        holder.wait()
+    later = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert later.recovered is not None
 
 
 def test_closing_the_recovery_question_keeps_the_old_work(tmp_path):
-    rec = tmp_path / "s" / "recovery.json"
-    first = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_path=rec)
+    folder = tmp_path / "s"
+    first = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder)
     first.do("speed", 2.6)
     first.update(1.0)
-    again = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_path=rec, offer_recovery=True)
+    first.close()
+    again = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder, offer_recovery=True)
     again._recovery_dialog.kill()  # the window's close button
     again.update(0.02)
-    kept = list(rec.parent.glob("recovery-*.json"))
+    kept = list(folder.glob("*.kept"))
     assert len(kept) == 1 and read_recovery(kept[0]).snapshot.settings.speed_mps == 2.6
     again.do("speed", 1.1)
     again.update(1.0)
-    assert read_recovery(rec).snapshot.settings.speed_mps == 1.1  # autosave goes on
+    assert read_recovery(again.session.path).snapshot.settings.speed_mps == 1.1  # autosave goes on
+    again.close()
+    later = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert later.recovered.snapshot.settings.speed_mps == 1.1  # the kept one is not offered
+
+
+def test_bad_recovery_files_are_kept_side_by_side(tmp_path):
+    folder = tmp_path / "s"
+    folder.mkdir()
+    bad = []
+    for k in range(3):
+        (folder / "recovery.json").write_text("{not json" + "!" * k)
+        app = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+        assert app.recovered is None and "could not be read" in app.note
+        bad.append(sorted(p.name for p in folder.glob("recovery.json.bad*")))
+    assert bad[-1] == ["recovery.json.bad", "recovery.json.bad.2", "recovery.json.bad.3"]
+    texts = {(folder / n).read_text() for n in bad[-1]}
+    assert texts == {"{not json", "{not json!", "{not json!!"}  # none overwritten
+
+
+@pytest.mark.parametrize("source, usable", [
+    ("{demo}", True),
+    ("{tmp}/no-such-folder/x.json", False),
+    ("{tmp}", False),  # a folder
+    ("{tmp}/picture.png", False),  # not a layout file
+])
+def test_recovered_source_is_checked_before_it_is_the_save_target(tmp_path, source, usable):
+    folder = tmp_path / "s"
+    first = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder)
+    first.do("speed", 2.6)
+    first.update(1.0)
+    first.close()
+    doc = json.loads(first.session.path.read_text())
+    doc["source"] = source.format(demo=DEMO, tmp=tmp_path)
+    first.session.path.write_text(json.dumps(doc))
+    again = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    click_widget(again, again._recovery_dialog.restore)
+    assert again.state.settings.speed_mps == 2.6
+    assert again.state.path == (doc["source"] if usable else None)
+    if not usable:
+        assert "Save as" in again.note
+        again.do("save")  # no target: asks for one instead of writing there
+        assert any(p == "save-as" for p in again._dialogs.values())
 
 
 def test_saving_removes_the_recovery_file(tmp_path):
-    rec = tmp_path / "r" / "recovery.json"
-    app = make_app(tmp_path, load_layout(DEMO), None, recovery_path=rec)
+    app = make_app(tmp_path, load_layout(DEMO), None, recovery_dir=tmp_path / "r")
     app.do("speed", 2.2)
     app.update(1.0)
-    assert rec.exists()
+    assert app.session.path.exists()
     assert app.save_file(tmp_path / "done.json")
     app.update(1.0)
-    assert not rec.exists()
+    assert not app.session.path.exists()
 
 
-def test_recovery_path_follows_xdg_state_home(monkeypatch, tmp_path):
-    from shotplan.view.recovery import default_recovery_path
+def test_recovery_dir_follows_xdg_state_home(monkeypatch, tmp_path):
+    from shotplan.view.recovery import default_recovery_dir
 
     monkeypatch.setenv("XDG_STATE_HOME", str(tmp_path))
     # XDG Base Directory Specification: $XDG_STATE_HOME/<app>/...
-    assert default_recovery_path() == tmp_path / "shotplan" / "recovery.json"
+    assert default_recovery_dir() == tmp_path / "shotplan"
     monkeypatch.delenv("XDG_STATE_HOME")
-    assert default_recovery_path() == Path.home() / ".local" / "state" / "shotplan" / "recovery.json"
+    assert default_recovery_dir() == Path.home() / ".local" / "state" / "shotplan"
 
 
 # -------------------------------------------------- balls, racks, play

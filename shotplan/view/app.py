@@ -22,7 +22,6 @@ from __future__ import annotations
 
 import math
 import os
-import time
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -43,12 +42,15 @@ from .layers import aim_layer, balls_layer, cue_layer, prediction_layer, selecti
 from .panels import Panels, RecoveryDialog
 from .predict import Predictor
 from .recovery import (
+    Claim,
     Recovered,
-    default_recovery_path,
-    discard_recovery,
+    Session,
+    checked_source,
+    claim,
+    default_recovery_dir,
+    left_over,
     read_recovery,
     set_aside,
-    write_recovery,
 )
 from .state import FreeAim, Playback, PocketAim, ViewState
 from .transform import Transform, to_diamonds
@@ -105,7 +107,7 @@ POINTER: tuple[tuple[str, str], ...] = (
 
 _DEFAULT: Any = object()
 DEFAULT_RECOVERY: Any = _DEFAULT
-"""Pass as ``recovery_path`` to use :func:`shotplan.view.recovery.default_recovery_path`."""
+"""Pass as ``recovery_dir`` to use :func:`shotplan.view.recovery.default_recovery_dir`."""
 
 
 def theme_resource() -> Any:
@@ -144,18 +146,20 @@ class App:
         Preset for a new layout.
     load_message
         A message to show at start (a file that could not be opened).
-    recovery_path
-        Where unsaved work is kept: :data:`DEFAULT_RECOVERY` for the usual
-        place, ``None`` for nowhere (screenshots).
+    recovery_dir
+        The folder where unsaved work is kept (this session's own file, see
+        :mod:`shotplan.view.recovery`): :data:`DEFAULT_RECOVERY` for the
+        usual place, ``None`` for nowhere (screenshots).
     offer_recovery
-        Whether to offer back unsaved work found at start.
+        Whether to offer back unsaved work left over by views that ended
+        without saving.
     size
         Window size, px.
     """
 
     def __init__(self, layout: Layout | None = None, path: str | None = None, *,
                  table: str = "pool-9ft", load_message: str = "",
-                 recovery_path: Any = DEFAULT_RECOVERY, offer_recovery: bool = True,
+                 recovery_dir: Any = DEFAULT_RECOVERY, offer_recovery: bool = True,
                  size: tuple[int, int] = DEFAULT_SIZE):
         if layout is None:
             layout = new_layout(TableSpec.preset(table))
@@ -167,11 +171,13 @@ class App:
         self.now = 0.0
         """The view's clock: the sum of the time steps given to :meth:`update`, s."""
         self.help_visible = False
-        self.recovery_path: Path | None = (default_recovery_path() if recovery_path is _DEFAULT
-                                           else (Path(recovery_path) if recovery_path else None))
+        folder = default_recovery_dir() if recovery_dir is _DEFAULT else recovery_dir
+        self.session: Session | None = Session(folder) if folder else None
+        """This view's own recovery file (``None``: unsaved work is kept nowhere)."""
         self.offer_recovery = offer_recovery
         self.recovered: Recovered | None = None
-        """Unsaved work found at start, while the question is open."""
+        """Unsaved work left over by another view, while the question is open."""
+        self._claim: Claim | None = None
         self.note = ""
         """The last thing the view said (status line)."""
         self.hover_pos: tuple[int, int] | None = None
@@ -210,7 +216,7 @@ class App:
         self.table_cache = TableCache(self.painter)
         self.panels = Panels(self.manager, self.size)
         self._started = True
-        if self.offer_recovery and self.recovery_path is not None:
+        if self.offer_recovery and self.session is not None:
             self._offer_recovery()
         if self.state.load_message:
             self._message("Could not open the layout", self.state.load_message)
@@ -263,56 +269,78 @@ class App:
 
     # ----------------------------------------------------------- recovery
     def _offer_recovery(self) -> None:
-        assert self.recovery_path is not None and self.manager is not None
-        try:
-            found = read_recovery(self.recovery_path)
-        except ShotplanError as e:
-            bad = set_aside(self.recovery_path)
-            self.say(f"the recovery file could not be read ({e}); it was kept as {bad}")
+        """Ask about the oldest left-over recovery file whose view has ended
+        (its lock taken, so no other view offers it at the same time)."""
+        assert self.session is not None and self.manager is not None
+        for path in left_over(self.session.folder, own=self.session.path):
+            held = claim(path)
+            if held is None:
+                continue  # its view still runs, or another start has it
+            try:
+                found = read_recovery(path)
+            except ShotplanError as e:
+                bad = set_aside(path)
+                held.release(remove=bad is not None)
+                self.say(f"a recovery file could not be read ({e}); it was kept as {bad}")
+                continue
+            if found is None:
+                held.release()
+                continue
+            self.recovered, self._claim = found, held
+            src = f"from {found.source}" if found.source else "on a new layout"
+            when = (found.written.replace("T", " ").replace("Z", " UTC") if found.written
+                    else "earlier")
+            text = (f"A table view ended with work not saved ({_escape(src)}, kept "
+                    f"{_escape(when)}).<br><br>Restore it, or discard it?")
+            self._recovery_dialog = RecoveryDialog(self.manager, self.size, text)
             return
-        if found is None:
-            return
-        self.recovered = found
-        src = f"from {found.source}" if found.source else "on a new layout"
-        when = found.written.replace("T", " ").replace("Z", " UTC") if found.written else "earlier"
-        text = (f"The last session ended with work not saved ({_escape(src)}, kept "
-                f"{_escape(when)}).<br><br>Restore it, or discard it?")
-        self._recovery_dialog = RecoveryDialog(self.manager, self.size, text)
 
     def _answer_recovery(self, restore: bool) -> None:
-        found = self.recovered
-        self.recovered = None
+        found, held = self.recovered, self._claim
+        self.recovered, self._claim = None, None
         if self._recovery_dialog is not None:
             self._recovery_dialog.kill()
             self._recovery_dialog = None
-        if found is None or self.recovery_path is None:
+        if found is None or held is None or self.session is None:
             return
         if restore:
-            self.state.restore_snapshot(found.snapshot, found.source)
-            self.say("restored the unsaved work")
+            source, why = checked_source(found.source)
+            self.state.restore_snapshot(found.snapshot, source)
+            self._autosaved_rev = -1
+            try:  # the work is this session's own before the old file goes
+                self.session.write(self.state)
+                self._autosaved_rev = self.state.revision
+            except (OSError, ShotplanError) as e:
+                held.release()
+                self.say(f"restored the unsaved work; its recovery file is kept ({e})")
+                return
+            held.release(remove=True)
+            self.say("restored the unsaved work" + (
+                f"; it will not be saved to its old file ({why}): use Save as" if why else ""))
         else:
-            discard_recovery(self.recovery_path)
+            held.release(remove=True)
             self.say("discarded the unsaved work")
-        self._autosaved_rev = self.state.revision if not restore else -1
+        if self._started:
+            self._offer_recovery()  # the next one left over, if any
 
     def _keep_recovery(self) -> None:
-        """The question was closed unanswered: the old work is moved to a
-        file of its own (nothing is lost) and this session's autosave goes on."""
+        """The question was closed unanswered: the old work is renamed so that
+        it is never offered again (nothing is lost); this session goes on."""
         self.recovered = None
-        if self.recovery_path is None:
+        held, self._claim = self._claim, None
+        if held is None:
             return
-        stamp = time.strftime("%Y%m%d-%H%M%S")
-        kept = self.recovery_path.with_name(f"recovery-{stamp}.json")
-        try:
-            os.replace(self.recovery_path, kept)
-        except OSError as e:
-            self.say(f"the unsaved work from the last session could not be set aside: {e}")
-            return
-        self.say(f"the unsaved work from the last session was kept in {kept}")
+        kept = set_aside(held.path, "kept")
+        held.release(remove=kept is not None)
+        if kept is None:
+            self.say("the unsaved work left over could not be set aside; it is offered again "
+                     "at the next start")
+        else:
+            self.say(f"the unsaved work left over was kept in {kept}")
 
     def _autosave(self, force: bool = False) -> None:
         st = self.state
-        if self.recovery_path is None or self.recovered is not None:
+        if self.session is None or self.recovered is not None:
             return  # nothing to keep, or the old work is not answered for yet
         if st.revision == self._autosaved_rev:
             return
@@ -321,15 +349,21 @@ class App:
         self._autosaved_rev = st.revision
         try:
             if st.dirty:
-                write_recovery(self.recovery_path, st)
+                self.session.write(st)
             else:
-                discard_recovery(self.recovery_path)
+                self.session.discard()
         except (OSError, ShotplanError) as e:
             self.say(f"the recovery file could not be written: {e}")
 
     def close(self) -> None:
-        """Write what is unsaved to the recovery file (or remove it if all is saved)."""
+        """Write what is unsaved to this session's recovery file (or remove it
+        if all is saved) and let it go: a later start offers it back."""
         self._autosave(force=True)
+        if self._claim is not None:  # asked, never answered: offered again next time
+            self._claim.release()
+            self._claim = None
+        if self.session is not None:
+            self.session.close()
 
     # -------------------------------------------------------------- files
     def open_file(self, path: str | os.PathLike[str]) -> bool:
@@ -362,8 +396,8 @@ class App:
             self._message("Could not save", str(e))
             return False
         self.state.mark_saved(str(target))
-        if self.recovery_path is not None and self.recovered is None:
-            discard_recovery(self.recovery_path)
+        if self.session is not None and self.recovered is None:
+            self.session.discard()
             self._autosaved_rev = self.state.revision
         self.say(f"saved {target}")
         return True

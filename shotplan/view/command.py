@@ -97,7 +97,7 @@ def run_view(args: argparse.Namespace) -> int:
         try:
             pygame.display.set_mode((1280, 800), pygame.HIDDEN)
             app = App(layout, args.layout if layout is not None else None,
-                      table=spec.name if spec else "pool-9ft", recovery_path=None,
+                      table=spec.name if spec else "pool-9ft", recovery_dir=None,
                       offer_recovery=False)
             out = app.screenshot(shot)
         finally:
