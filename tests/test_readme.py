@@ -9,7 +9,6 @@ timings may differ). When a change alters an output on purpose, rerun
 from __future__ import annotations
 
 import pytest
-
 import readme_examples as rx
 
 EXAMPLES = rx.examples(rx.README.read_text(encoding="utf-8"))
