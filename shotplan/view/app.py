@@ -28,7 +28,7 @@ from typing import Any
 
 import pygame
 import pygame_gui
-from pygame_gui.windows import UIConfirmationDialog, UIFileDialog, UIMessageWindow
+from pygame_gui.windows import UIConfirmationDialog, UIMessageWindow
 
 from ..aim import direction_deg, overlap_word
 from ..equipment import TableSpec
@@ -38,8 +38,17 @@ from ..layout import Layout, load_layout, save_layout
 from ..scene import Scene, Shape, layout_scene, shot_scene, table_scene
 from ..search import tip_height
 from .draw import Painter, TableCache, rgb
-from .layers import aim_layer, balls_layer, cue_layer, prediction_layer, selection_layer, window_layer
-from .panels import Panels, RecoveryDialog
+from .layers import (
+    aim_layer,
+    balls_layer,
+    cue_layer,
+    off_table_layer,
+    prediction_layer,
+    selection_layer,
+    shown_positions,
+    window_layer,
+)
+from .panels import Panels, PathDialog, RecoveryDialog
 from .predict import Predictor
 from .recovery import (
     Claim,
@@ -437,7 +446,7 @@ class App:
         w, h = min(640, self.size[0] - 40), min(480, self.size[1] - 40)
         rect = pygame.Rect((self.size[0] - w) // 2, (self.size[1] - h) // 2, w, h)
         self._dialogs = {d: p for d, p in self._dialogs.items() if d.alive()}
-        dialog = UIFileDialog(rect, self.manager, window_title=titles[purpose],
+        dialog = PathDialog(rect, self.manager, window_title=titles[purpose],
                               allowed_suffixes=suffixes, initial_file_path=initial,
                               allow_existing_files_only=(purpose == "open"))
         self._dialogs[dialog] = purpose
@@ -610,11 +619,16 @@ class App:
         x, y = t.to_table(*pos)
         reach = self.state.table.ball_radius + t.metres(DRAG_PX)
         best, best_d = None, math.inf
-        for b, (bx, by) in self.state.layout.balls:
+        for b, (bx, by) in self.shown_positions().items():
             d = math.hypot(bx - x, by - y)
             if d <= reach and d < best_d:
                 best, best_d = b, d
         return best
+
+    def shown_positions(self) -> dict[str, tuple[float, float]]:
+        """Where each ball is drawn: where it stands, or, off the table, at the
+        cloth's edge (:func:`shotplan.view.layers.shown_positions`)."""
+        return shown_positions(self.state.table, self.state.layout.positions())[0]
 
     def pocket_at(self, pos: tuple[float, float]) -> str | None:
         """The pocket under the window position ``pos``, if any."""
@@ -677,7 +691,7 @@ class App:
                 return True
             ball = self.ball_at(pos)
             if ball is not None:
-                bx, by = st.layout.position(ball)
+                bx, by = self.shown_positions()[ball]
                 x, y = self.transform.to_table(*pos)
                 self._press = _Press("ball", pos, ball, (bx - x, by - y))
                 return True
@@ -921,9 +935,10 @@ class App:
         play = self.playback
         t = play.t if play.active and pred.outcome is not None else None
         aimed = st.aim.pocket if isinstance(st.aim, PocketAim) else None
+        mm_per_px = self.transform.metres(1.0) * 1000.0
         key = (st.layout, st.selection, self.hover_ball, id(pred.outcome), pred.geometry,
                id(pred.window), st.direction_deg, st.settings.elevation_deg, t, aimed,
-               tuple(p.ball for p in st.problems()))
+               tuple(p.ball for p in st.problems()), round(mm_per_px, 4))
         if key == self._shapes_key:
             return self._shapes
         table = st.table
@@ -933,13 +948,18 @@ class App:
         if pred.window is not None and "cue" in positions and t is None:
             shapes += window_layer(pred.window, positions["cue"], R)
         if pred.outcome is not None:
-            shapes += prediction_layer(pred.outcome, table)
+            shapes += prediction_layer(pred.outcome, table, mm_per_px)
         if pred.geometry is not None and t is None:
             shapes += aim_layer(pred.geometry, R)
         hidden: list[str] = []
         if t is not None:
             positions = pred.outcome.positions(t)
             hidden = [b for b, tp in pred.pocket_times().items() if t >= tp]
+        else:
+            # A ball off the table is drawn at the cloth's edge, marked.
+            shown, off = shown_positions(table, positions)
+            shapes += off_table_layer(table, positions, shown, off)
+            positions = shown
         problem_balls = [p.ball for p in st.problems() if p.ball]
         shapes += balls_layer(positions, R, problem_balls, hidden)
         d = st.direction_deg

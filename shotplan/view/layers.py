@@ -10,13 +10,16 @@ selection. Pure Python: the same shapes could go to a file.
 
 from __future__ import annotations
 
+import colorsys
+import dataclasses
 import functools
 import math
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable, Mapping, Sequence
 from typing import Any
 
 from ..scene import (
     BALL_COLOURS,
+    STRIPE_IDS,
     CircleShape,
     Layer,
     PolylineShape,
@@ -26,6 +29,7 @@ from ..scene import (
     ghost_ball_shape,
     marker_shape,
     outcome_shapes,
+    path_shapes,
     window_shape,
 )
 from ..table import Table
@@ -33,6 +37,10 @@ from .predict import AimGeometry
 
 __all__ = [
     "ACCENT",
+    "PathStyle",
+    "path_styles",
+    "shown_positions",
+    "off_table_layer",
     "balls_layer",
     "prediction_layer",
     "aim_layer",
@@ -48,6 +56,123 @@ _WHITE = "#f6f4ec"
 _WARN = "#e5533d"
 _WOOD = "#d8bd8f"
 _TIP = "#5f86b0"
+_HALO = "#101814"
+"""Under every path: a dark edge that lets any path colour read on any cloth."""
+_PATH_MM = 2.5
+"""A path's least width, mm of table (as the printed diagrams)."""
+_PATH_PX = 3.0
+"""A path's least width on the screen, px."""
+_HALO_PX = 2.0
+"""The halo's edge each side of a path, px."""
+_MIN_LIGHTNESS = 0.7
+"""Path colours are lifted to at least this HLS lightness: a black or a
+maroon ball's path in its own colour would vanish on the cloth."""
+_MIN_DISTANCE = 60.0
+"""Two paths whose colours are nearer than this (RGB distance) are made apart."""
+
+
+@dataclasses.dataclass(frozen=True, slots=True)
+class PathStyle:
+    """How one ball's predicted path is drawn in the view."""
+
+    colour: str
+    """Line colour, ``#rrggbb``."""
+    striped: bool
+    """Drawn in dashes of its colour over white, as a striped ball looks (a
+    striped ball's path, or a second ball of the same colour)."""
+    dashed: bool
+    """Dashed (the cue ball's path)."""
+
+
+def _rgb(colour: str) -> tuple[int, int, int]:
+    return (int(colour[1:3], 16), int(colour[3:5], 16), int(colour[5:7], 16))
+
+
+def _hex(r: float, g: float, b: float) -> str:
+    return "#" + "".join(f"{max(0, min(255, round(c * 255))):02x}" for c in (r, g, b))
+
+
+def _readable(colour: str, lightness: float = _MIN_LIGHTNESS) -> str:
+    """``colour`` with its HLS lightness raised to at least ``lightness`` (hue kept)."""
+    r, g, b = (c / 255.0 for c in _rgb(colour))
+    h, lum, sat = colorsys.rgb_to_hls(r, g, b)
+    return _hex(*colorsys.hls_to_rgb(h, max(lum, lightness), sat))
+
+
+def path_styles(balls: Sequence[str], cue_id: str = "cue") -> dict[str, PathStyle]:
+    """A style per moving ball, told apart from each other: the ball's own
+    colour made light enough to read on its dark halo; a striped ball's path
+    in dashes over white; a ball whose style would match another's (two
+    reds, an unknown id) gets a lighter shade, or the other pattern, or, if
+    every variant is taken, the one least like the others."""
+    out: dict[str, PathStyle] = {}
+    for b in balls:
+        if b == cue_id:
+            out[b] = PathStyle(_WHITE, False, True)
+            continue
+        base = BALL_COLOURS.get(b, "#9a9a96")
+        striped = b in STRIPE_IDS
+        variants = [PathStyle(_readable(base, _MIN_LIGHTNESS + shift), striped != flip, False)
+                    for flip in (False, True) for shift in (0.0, 0.1, 0.18)]
+
+        def nearest(style: PathStyle) -> float:
+            # How alike the nearest style already given is (a pattern apart counts as far).
+            return min([math.dist(_rgb(o.colour), _rgb(style.colour))
+                        + (1000.0 if o.striped != style.striped else 0.0)
+                        for o in out.values() if not o.dashed] + [math.inf])
+
+        free = [v for v in variants if nearest(v) >= _MIN_DISTANCE]
+        out[b] = free[0] if free else max(variants, key=nearest)
+    return out
+
+
+def shown_positions(table: Table, positions: Mapping[str, tuple[float, float]]
+                    ) -> tuple[dict[str, tuple[float, float]], set[str]]:
+    """Where each ball is drawn, and which balls are off the table.
+
+    A ball whose centre lies off the cloth's rectangle (a layout written by
+    hand, or for another table) is drawn at the nearest place on the cloth's
+    edge, a ball's radius inside it, so that it can be seen and dragged back.
+    """
+    R = table.ball_radius
+    L, W = table.length, table.width
+    shown: dict[str, tuple[float, float]] = {}
+    off: set[str] = set()
+    for b, (x, y) in positions.items():
+        if 0.0 <= x <= L and 0.0 <= y <= W:
+            shown[b] = (x, y)
+            continue
+        off.add(b)
+        shown[b] = (min(max(x, R), L - R), min(max(y, R), W - R))
+    return shown, off
+
+
+def off_table_layer(table: Table, positions: Mapping[str, tuple[float, float]],
+                    shown: Mapping[str, tuple[float, float]], off: Iterable[str]) -> list[Shape]:
+    """For each ball off the table (see :func:`shown_positions`): a dashed red
+    ring where it is drawn, an arrow toward where it really is, and the words
+    ``off the table``."""
+    R = table.ball_radius
+    out: list[Shape] = []
+    for b in sorted(off):
+        sx, sy = shown[b]
+        x, y = positions[b]
+        d = math.hypot(x - sx, y - sy)
+        ux, uy = ((x - sx) / d, (y - sy) / d) if d > 1e-12 else (1.0, 0.0)
+        out.append(CircleShape((sx, sy), 1.7 * R, fill=None, edge=_WARN, line_width_mm=3.0,
+                               dash=True, layer=Layer.MARKER))
+        a = (sx + ux * 1.9 * R, sy + uy * 1.9 * R)
+        tip = (sx + ux * 3.2 * R, sy + uy * 3.2 * R)
+        out.append(PolylineShape((a, tip), colour=_WARN, line_width_mm=3.0, arrow=True,
+                                 layer=Layer.MARKER))
+        # The words go inward, toward the middle of the table.
+        cx, cy = table.length / 2 - sx, table.width / 2 - sy
+        n = math.hypot(cx, cy) or 1.0
+        pos = (sx + cx / n * 2.4 * R, sy + cy / n * 2.4 * R)
+        anchor = "w" if cx / n > 0.4 else "e" if cx / n < -0.4 else ("s" if cy > 0 else "n")
+        out.append(TextShape(pos, f"{b}: off the table", size_mm=30.0, colour=_WARN,
+                             anchor=anchor, layer=Layer.LABEL, bold=True))
+    return out
 
 
 @functools.lru_cache(maxsize=1024)
@@ -71,20 +196,53 @@ def balls_layer(positions: Mapping[str, tuple[float, float]], radius: float,
     return out
 
 
-def prediction_layer(outcome: Any, table: Table) -> list[Shape]:
-    """The simulated stroke: paths (cue ball dashed white, object balls in
-    their colour), contact and cushion markers, where each ball stops, and a
-    mark at each pocket a ball falls into (``scratch`` for the cue ball)."""
+def _path_shapes(ball: str, points: Any, style: PathStyle, mm_per_px: float) -> list[Shape]:
+    """One ball's path in the view's style: a dark halo, the line (dashed for
+    the cue ball; dashes of its colour over white if striped), an arrow head
+    at the end."""
+    width = max(_PATH_MM, _PATH_PX * mm_per_px)
+    out: list[Shape] = []
+    for line in path_shapes({ball: points}, line_width_mm=width):
+        line = dataclasses.replace(line, colour=style.colour, dash=style.dashed or style.striped,
+                                   alpha=1.0, layer=Layer.PATH)
+        out.append(dataclasses.replace(line, colour=_HALO, dash=False, arrow=False,
+                                       line_width_mm=width + 2 * _HALO_PX * mm_per_px,
+                                       layer=Layer.PATH - 4))
+        if style.striped:
+            out.append(dataclasses.replace(line, colour=_WHITE, dash=False, arrow=False,
+                                           layer=Layer.PATH - 3))
+        out.append(line)
+    return out
+
+
+def prediction_layer(outcome: Any, table: Table, mm_per_px: float = 0.0) -> list[Shape]:
+    """The simulated stroke: each moving ball's path in its own style
+    (:func:`path_styles`), contact and cushion markers, a ring where each ball
+    stops, and a mark at each pocket a ball falls into (``scratch`` for the
+    cue ball). ``mm_per_px`` (the screen's scale) keeps the paths and their
+    halos a few pixels wide at any zoom."""
     R = table.ball_radius
-    shapes: list[Shape] = list(outcome_shapes(outcome, R))
+    # The markers come from the scene; the paths and their end rings are
+    # drawn here in the view's own colours.
+    shapes: list[Shape] = [s for s in outcome_shapes(outcome, R)
+                           if not (isinstance(s, PolylineShape) and s.layer == Layer.PATH)
+                           and not (isinstance(s, CircleShape) and s.layer == Layer.GHOST)]
+    moved = list(outcome.moved())
+    styles = path_styles(moved)
+    for b in moved:
+        pts = outcome.path(b)
+        shapes += _path_shapes(b, pts, styles[b], mm_per_px)
+        if len(pts):
+            end = (float(pts[-1][0]), float(pts[-1][1]))
+            shapes.append(CircleShape(end, R, fill=None, edge=styles[b].colour,
+                                      line_width_mm=1.5, layer=Layer.GHOST, dash=True))
     count: dict[str, int] = {}
     for ball, pocket_name in outcome.pocketed().items():
         p = table.pocket(pocket_name)
         n = count.get(pocket_name, 0)
         count[pocket_name] = n + 1
-        colour = BALL_COLOURS.get(ball, "#9a9a96") if ball != "cue" else _WARN
-        if colour in ("#1d1d1d",):  # a black ring does not show on the hole
-            colour = _CHALK
+        colour = styles[ball].colour if ball in styles and ball != "cue" else (
+            _WARN if ball == "cue" else _readable(BALL_COLOURS.get(ball, "#9a9a96")))
         shapes.append(CircleShape(p.drop_centre, 1.3 * R + n * 0.4 * R, fill=None, edge=colour,
                                   line_width_mm=3.0, layer=Layer.MARKER))
         ax, ay = p.axis

@@ -18,6 +18,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
+from pathlib import Path
 from typing import Any
 
 import pygame
@@ -33,6 +34,7 @@ from pygame_gui.elements import (
     UITextBox,
     UIWindow,
 )
+from pygame_gui.windows import UIFileDialog
 
 from ..stroke import speed_word
 from .draw import rgb
@@ -41,8 +43,17 @@ from .state import ELEVATION_RANGE_DEG, SPEED_RANGE_MPS, Playback
 __all__ = [
     "Regions",
     "regions",
+    "panel_width",
+    "toolbar_layout",
+    "MIN_SIZE",
+    "SHOT_COLUMNS",
+    "shot_columns",
+    "ball_width",
+    "RAIL_LEGEND",
+    "no_shot_text",
     "Panels",
     "RecoveryDialog",
+    "PathDialog",
     "speed_to_slider",
     "slider_to_speed",
     "speed_bands",
@@ -52,10 +63,18 @@ __all__ = [
     "TOOLBAR",
 ]
 
-TOOLBAR_H = 44
+TOOLBAR_ROW_H = 38
+"""Height of one row of toolbar buttons, px (the toolbar wraps onto more rows in a narrow window)."""
+TOOLBAR_H = TOOLBAR_ROW_H + 6
+"""The toolbar's height with one row, px."""
 STATUS_H = 28
-PANEL_W = 350
+PANEL_W = (330, 380)
+"""The stroke panel's least and greatest width, px (30 % of the window between)."""
 PLAYBAR_H = 46
+TITLE_MIN_W = 150
+"""The layout's title gets a toolbar row of its own when less than this is left beside the buttons."""
+MIN_SIZE = (800, 600)
+"""The smallest window everything is laid out for, px; a smaller window shows its top-left part."""
 SLIDER_STEPS = 1000
 """Positions of the speed and time sliders (0 to SLIDER_STEPS)."""
 
@@ -89,18 +108,64 @@ class Regions:
     """The status line along the bottom."""
 
 
-def regions(size: Sequence[int]) -> Regions:
-    """The parts of a window of ``size`` (width, height) px."""
-    w, h = max(int(size[0]), 640), max(int(size[1]), 480)
-    body = h - TOOLBAR_H - STATUS_H
-    left_w = w - PANEL_W
+def panel_width(window_width: int) -> int:
+    """The stroke panel's width in a window ``window_width`` px wide."""
+    return min(max(round(0.3 * window_width), PANEL_W[0]), PANEL_W[1])
+
+
+def regions(size: Sequence[int], toolbar_h: int = TOOLBAR_H) -> Regions:
+    """The parts of a window of ``size`` (width, height) px, under a toolbar
+    ``toolbar_h`` px high (see :func:`toolbar_layout`)."""
+    w, h = max(int(size[0]), MIN_SIZE[0]), max(int(size[1]), MIN_SIZE[1])
+    body = h - toolbar_h - STATUS_H
+    pw = panel_width(w)
+    left_w = w - pw
     return Regions(
-        toolbar=(0, 0, w, TOOLBAR_H),
-        table=(0, TOOLBAR_H, left_w, body - PLAYBAR_H),
-        playbar=(0, TOOLBAR_H + body - PLAYBAR_H, left_w, PLAYBAR_H),
-        panel=(left_w, TOOLBAR_H, PANEL_W, body),
+        toolbar=(0, 0, w, toolbar_h),
+        table=(0, toolbar_h, left_w, body - PLAYBAR_H),
+        playbar=(0, toolbar_h + body - PLAYBAR_H, left_w, PLAYBAR_H),
+        panel=(left_w, toolbar_h, pw, body),
         status=(0, h - STATUS_H, w, STATUS_H),
     )
+
+
+def toolbar_layout(width: int, button_widths: Sequence[int], gaps: Sequence[bool] = (),
+                   title_min: int = TITLE_MIN_W
+                   ) -> tuple[list[tuple[int, int, int, int]], tuple[int, int, int, int], int]:
+    """Place the toolbar's buttons in rows across ``width`` px.
+
+    ``gaps[k]`` true puts a group gap before button ``k``; a group that does
+    not fit on the row moves to the next one whole (a group wider than a row
+    is split). The title goes on the last row if ``title_min`` px are left
+    there, else on a row of its own. Returns the buttons' rects and the
+    title's (left, top, width, height), and the toolbar's height, px.
+    """
+    pad, space, group = 8, 4, 10
+    groups: list[list[int]] = []
+    for k in range(len(button_widths)):
+        if not groups or (k < len(gaps) and gaps[k]):
+            groups.append([])
+        groups[-1].append(k)
+    rects: list[tuple[int, int, int, int]] = [(0, 0, 0, 0)] * len(button_widths)
+    row, x = 0, pad
+    bh = TOOLBAR_ROW_H - 8
+    for members in groups:
+        need = sum(button_widths[k] for k in members) + space * (len(members) - 1)
+        start = x + (group if x > pad else 0)
+        if start + need > width - pad and x > pad:
+            row, start = row + 1, pad
+        x = start
+        for k in members:
+            bw = button_widths[k]
+            if x + bw > width - pad and x > pad:
+                row, x = row + 1, pad
+            rects[k] = (x, 4 + row * TOOLBAR_ROW_H, bw, bh)
+            x += bw + space
+    left = x + group - space if x > pad else pad
+    if width - pad - left < title_min:
+        row, left = row + 1, pad
+    title = (left, 4 + row * TOOLBAR_ROW_H, width - pad - left, bh)
+    return rects, title, (row + 1) * TOOLBAR_ROW_H + 6
 
 
 # ------------------------------------------------------------- speed scale
@@ -214,13 +279,90 @@ def _band_strip(width: int, height: int, lo: float, hi: float, font: pygame.font
     return surf
 
 
-def proposal_text(k: int, shot: Any) -> str:
-    """One line of the shots list: number, kind, balls, pocket, rails (their
-    initials), cut and window."""
+_KIND_SHORT = {"combination": "combo"}
+"""Kinds written shorter in the list's narrow column (the trade says combo too)."""
+
+RAIL_LEGEND = "F H L R: off the foot, head, left, right rail \u00b7 angles in \u00b0"
+"""The key under the shots list."""
+
+
+def shot_columns(ball_width: int = 4) -> str:
+    """The heading over the shots list's columns, for a ball column
+    ``ball_width`` characters wide (the rows come from :func:`proposal_text`)."""
+    return f"{'#':>2} {'shot':<7} {'ball':<{ball_width}} {'pocket':<10} {'cut':>3} {'window':>6}"
+
+
+SHOT_COLUMNS = shot_columns()
+"""The heading over the shots list's columns, for ball ids of up to four characters."""
+
+
+def ball_width(shots: Sequence[Any]) -> int:
+    """The ball column's width for ``shots`` (at least 4 characters)."""
+    return max([4] + [len("-".join(s.balls)) for s in shots])
+
+
+def proposal_text(k: int, shot: Any, ball_width: int = 4) -> str:
+    """One line of the shots list, under :func:`shot_columns`: number, the
+    kind with the rails in turn (their initials: ``bank FH`` goes off the
+    foot rail, then the head rail), the balls, the pocket, the cut angle and
+    the window (degrees)."""
     balls = "-".join(shot.balls)
     via = "".join(r.split()[0][0].upper() for r in shot.rails)
-    return (f"{k:>2} {shot.kind:<6.6} {balls:<3} {shot.pocket:<10} {via:<2} "
-            f"{shot.cut_angle_deg:2.0f}\u00b0 {shot.window_deg:4.2f}\u00b0")
+    kind = _KIND_SHORT.get(shot.kind, shot.kind) + (f" {via}" if via else "")
+    return (f"{k:>2} {kind:<7} {balls:<{ball_width}} {shot.pocket:<10} "
+            f"{shot.cut_angle_deg:3.0f} {shot.window_deg:6.2f}")
+
+
+def no_shot_text(rejected: Sequence[Any], most: int = 4) -> str:
+    """Why the search found no shot (pygame_gui HTML): the reasons it gave,
+    the most frequent first, each with how many candidates it turned down."""
+    if not rejected:
+        return ("<b>No shot found.</b> Nothing was tried: there is no object ball, "
+                "or the table has no pockets.")
+    counts: dict[str, int] = {}
+    for r in rejected:
+        counts[str(r.reason)] = counts.get(str(r.reason), 0) + 1
+    ranked = sorted(counts.items(), key=lambda kv: (-kv[1], kv[0]))
+    lines = [f"<b>No shot found.</b> {len(rejected)} tried, turned down because:"]
+    for reason, n in ranked[:most]:
+        lines.append(f"{n} \u00d7 {_html(reason)}")
+    if len(ranked) > most:
+        rest = sum(n for _, n in ranked[most:])
+        lines.append(f"{rest} for {len(ranked) - most} other reason"
+                     f"{'s' if len(ranked) - most > 1 else ''}")
+    return "<br>".join(lines)
+
+
+def _html(text: str) -> str:
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+
+
+class PathDialog(UIFileDialog):
+    """pygame_gui's file dialog, where Return in the path field saves (or
+    opens) the file typed, as the OK button does; Return on a folder's path
+    still opens that folder in the list."""
+
+    def process_event(self, event: pygame.event.Event) -> bool:
+        """Handle one event (see :class:`pygame_gui.windows.UIFileDialog`)."""
+        if event.type == pygame_gui.UI_TEXT_ENTRY_FINISHED and \
+                event.ui_element is self.file_path_text_line:
+            text = self.file_path_text_line.get_text().strip()
+            if text:
+                typed = Path(text).expanduser().absolute()
+                if not typed.is_dir() and typed.parent.is_dir() and \
+                        (typed.exists() or not self.allow_existing_files_only):
+                    self._pick(typed)
+                    return True
+        return bool(super().process_event(event))
+
+    def _pick(self, path: Path) -> None:
+        # As the OK button does: post the path picked, then close. The app
+        # checks the path (suffix, folder) and says what is wrong, if anything.
+        self.current_file_path = path
+        pygame.event.post(pygame.event.Event(pygame_gui.UI_FILE_DIALOG_PATH_PICKED, {
+            "text": str(path), "ui_element": self,
+            "ui_object_id": self.most_specific_combined_id}))
+        self.kill()
 
 
 class RecoveryDialog(UIWindow):
@@ -255,6 +397,7 @@ class Panels:
         self.size = (int(size[0]), int(size[1]))
         self.regions = regions(self.size)
         self._small = pygame.font.Font(_font_path(), 12)
+        self._why_text = ""
         self._built: list[Any] = []
         self._face_key: Any = None
         self._aim_text = ""
@@ -273,54 +416,67 @@ class Panels:
             w.kill()
         self._built = []
         m = self.manager
-        reg = self.regions
         self._face_key = None
         self._aim_text = self._status_text = self._play_label = ""
         self._list_source = None
         self._list_texts = []
+        self._why_text = ""
+        self._columns_text = SHOT_COLUMNS
 
-        # Toolbar
+        # Toolbar: the buttons wrap onto a second row in a narrow window.
+        width = max(self.size[0], MIN_SIZE[0])
+        font = pygame.font.Font(_font_path(), 14)
+        actions = [a for a, _ in TOOLBAR if a]
+        labels = [lab for a, lab in TOOLBAR if a]
+        gaps = []
+        gap = False
+        for action, _ in TOOLBAR:
+            if not action:
+                gap = True
+                continue
+            gaps.append(gap)
+            gap = False
+        rects, title_rect, toolbar_h = toolbar_layout(
+            width, [font.size(lab)[0] + 18 for lab in labels], gaps)
+        self.regions = reg = regions(self.size, toolbar_h)
         tx, ty, tw, th = reg.toolbar
         bar = UIPanel(pygame.Rect(tx, ty, tw, th), manager=m, object_id="#toolbar")
         self._built.append(bar)
         self.buttons: dict[str, UIButton] = {}
-        x = 8
-        font = pygame.font.Font(_font_path(), 14)
-        for action, label in TOOLBAR:
-            if not action:
-                x += 10
-                continue
-            bw = font.size(label)[0] + 22
-            self.buttons[action] = UIButton(pygame.Rect(x, 6, bw, th - 14), label, m, container=bar,
+        for action, label, rect in zip(actions, labels, rects, strict=True):
+            self.buttons[action] = UIButton(pygame.Rect(rect), label, m, container=bar,
                                             object_id="#toolbar_button")
-            x += bw + 5
-        self.title_label = UILabel(pygame.Rect(x + 10, 6, max(tw - x - 18, 10), th - 14), "", m,
-                                   container=bar, object_id="#small")
+        self.title_label = UILabel(pygame.Rect(title_rect), "", m, container=bar,
+                                   object_id="#small")
 
-        # Side panel
+        # Side panel: fixed rows, then the aim box and the shots list share
+        # what is left (the list first to its least height).
         px, py, pw, ph = reg.panel
         side = UIPanel(pygame.Rect(px, py, pw, ph), manager=m, object_id="#side")
         self._built.append(side)
         self.side = side
+        roomy = ph >= 600
         iw = pw - 24
-        y = 8
-        UILabel(pygame.Rect(12, y, iw, 22), "Stroke", m, container=side, object_id="#heading")
-        y += 24
+        y = 8 if roomy else 6
+        if roomy:
+            UILabel(pygame.Rect(12, y, iw, 22), "Stroke", m, container=side, object_id="#heading")
+            y += 24
         self.speed_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
-        y += 24
+        y += 24 if roomy else 22
         self.speed_slider = UIHorizontalSlider(pygame.Rect(12, y, iw, 26), speed_to_slider(2.0),
                                                (0, SLIDER_STEPS), m, container=side,
                                                click_increment=5)
         y += 27
         arrow = 20  # the slider's arrow buttons, each side
         track = (arrow + 10, iw - arrow - 10)  # centres of the thumb at both ends
-        self.bands = UIImage(pygame.Rect(12, y, iw, 30),
-                             _band_strip(iw, 30, *SPEED_RANGE_MPS, self._small, track), m,
+        band_h = 36
+        self.bands = UIImage(pygame.Rect(12, y, iw, band_h),
+                             _band_strip(iw, band_h, *SPEED_RANGE_MPS, self._small, track), m,
                              container=side)
-        y += 34
+        y += band_h + (4 if roomy else 2)
         self.tip_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
-        y += 24
-        face = 130
+        y += 24 if roomy else 22
+        face = 130 if roomy else 104
         self.face_size = face
         self.face = UIImage(pygame.Rect(12, y, face, face), pygame.Surface((face, face),
                                                                            pygame.SRCALPHA),
@@ -328,40 +484,65 @@ class Panels:
         self.face_origin = (px + 12, py + y)
         self.tip_buttons: dict[str, UIButton] = {}
         bx = 12 + face + 12
+        step = (face - 2) // len(TIP_PRESETS)
         for k, (tip, label) in enumerate(TIP_PRESETS):
-            self.tip_buttons[tip] = UIButton(pygame.Rect(bx, y + 2 + 32 * k, iw - face - 12, 28),
-                                             label, m, container=side)
-        y += face + 6
-        self.elevation_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
-        y += 24
+            self.tip_buttons[tip] = UIButton(pygame.Rect(bx, y + 2 + step * k, iw - face - 12,
+                                                         step - 4), label, m, container=side)
+        y += face + (6 if roomy else 4)
+        # Elevation: its words and its slider on one row.
+        lab_w = 140
+        self.elevation_label = UILabel(pygame.Rect(12, y + 2, lab_w, 22), "", m, container=side)
         lo, hi = ELEVATION_RANGE_DEG
-        self.elevation_slider = UIHorizontalSlider(pygame.Rect(12, y, iw, 26), 0, (int(lo), int(hi)),
-                                                   m, container=side, click_increment=1)
-        y += 34
-        UILabel(pygame.Rect(12, y, iw, 22), "Aim", m, container=side, object_id="#heading")
-        y += 24
-        self.aim_box = UITextBox("", pygame.Rect(12, y, iw, 140), m, container=side)
-        y += 146
-        UILabel(pygame.Rect(12, y, iw, 22), "Shots, best first", m, container=side,
-                object_id="#heading")
-        y += 24
-        self.shots = UISelectionList(pygame.Rect(12, y, iw, max(ph - y - 10, 60)), [], m,
+        self.elevation_slider = UIHorizontalSlider(pygame.Rect(12 + lab_w, y, iw - lab_w, 26), 0,
+                                                   (int(lo), int(hi)), m, container=side,
+                                                   click_increment=1)
+        y += 26 + (8 if roomy else 6)
+        if roomy:  # in a low window the box speaks for itself
+            UILabel(pygame.Rect(12, y, iw, 22), "Aim", m, container=side, object_id="#heading")
+            y += 23
+        heading_h, columns_h, legend_h, bottom = (23 if roomy else 0), 19, 18, 6
+        list_min = (4 if roomy else 3) * 24 + 4
+        free = ph - y - heading_h - columns_h - legend_h - bottom - 6
+        aim_h = max(min(free - list_min, 150), 60)
+        self.aim_box = UITextBox("", pygame.Rect(12, y, iw, aim_h), m, container=side)
+        y += aim_h + 6
+        if roomy:  # else the column heading says what the list is
+            UILabel(pygame.Rect(12, y, iw, 22), "Shots, best first", m, container=side,
+                    object_id="#heading")
+        y += heading_h
+        # The column heading is a list of one row, so that it is drawn exactly
+        # as the rows under it are (a label's text is spaced a little apart).
+        self.columns = UISelectionList(pygame.Rect(12, y, iw, columns_h), [SHOT_COLUMNS], m,
+                                       container=side, object_id="#columns")
+        self.columns.disable()
+        y += columns_h
+        list_h = max(ph - y - legend_h - bottom, 48)
+        self.shots = UISelectionList(pygame.Rect(12, y, iw, list_h), [], m,
                                      container=side, object_id="#shots")
+        self.why = UITextBox("", pygame.Rect(12, y, iw, list_h), m, container=side,
+                             object_id="#why")
+        self.why.hide()
+        y += list_h
+        self.legend = UILabel(pygame.Rect(12, y + 1, iw, legend_h - 1), RAIL_LEGEND, m,
+                              container=side, object_id="#legend")
 
-        # Play bar
+        # Play bar: the time slider takes what the buttons leave.
         bx0, by0, bw0, bh0 = reg.playbar
         play = UIPanel(pygame.Rect(bx0, by0, bw0, bh0), manager=m, object_id="#playbar")
         self._built.append(play)
-        self.play_button = UIButton(pygame.Rect(10, 7, 84, bh0 - 14), "Play", m, container=play)
-        self.reset_button = UIButton(pygame.Rect(100, 7, 74, bh0 - 14), "Reset", m, container=play)
+        bh = bh0 - 14
+        self.play_button = UIButton(pygame.Rect(8, 7, 60, bh), "Play", m, container=play)
+        self.reset_button = UIButton(pygame.Rect(72, 7, 58, bh), "Reset", m, container=play)
         names: list[str | tuple[str, str]] = [name for name, _ in Playback.RATES]
-        self.rate_menu = UIDropDownMenu(names, "real time", pygame.Rect(180, 7, 150, bh0 - 14), m,
+        rate_w = 106
+        self.rate_menu = UIDropDownMenu(names, names[0], pygame.Rect(134, 7, rate_w, bh), m,
                                         container=play)
-        label_w = 150
+        label_w = 96
+        x0 = 134 + rate_w + 10
         self.time_slider = UIHorizontalSlider(
-            pygame.Rect(338, 9, max(bw0 - 338 - label_w - 16, 60), bh0 - 18), 0, (0, SLIDER_STEPS),
-            m, container=play, click_increment=10)
-        self.time_label = UILabel(pygame.Rect(bw0 - label_w - 8, 7, label_w, bh0 - 14), "", m,
+            pygame.Rect(x0, 11, max(bw0 - x0 - label_w - 14, 60), bh0 - 22), 0, (0, SLIDER_STEPS),
+            m, container=play, click_increment=10, object_id="#time")
+        self.time_label = UILabel(pygame.Rect(bw0 - label_w - 4, 7, label_w, bh), "", m,
                                   container=play)
 
         # Status line
@@ -369,10 +550,20 @@ class Panels:
         self.status = UILabel(pygame.Rect(sx, sy, sw, sh), "", m, object_id="#status")
         self._built.append(self.status)
 
+    def widgets(self) -> dict[str, Any]:
+        """Every widget laid out by :meth:`build`, by name (for checks of the layout)."""
+        out: dict[str, Any] = {f"button {a}": b for a, b in self.buttons.items()}
+        out.update({f"tip {t}": b for t, b in self.tip_buttons.items()})
+        for name in ("title_label", "speed_label", "speed_slider", "bands", "tip_label", "face",
+                     "elevation_label", "elevation_slider", "aim_box", "columns", "shots",
+                     "legend", "play_button", "reset_button", "rate_menu", "time_slider",
+                     "time_label", "status"):
+            out[name] = getattr(self, name)
+        return out
+
     def resize(self, size: Sequence[int]) -> None:
         """Build again for a new window size."""
         self.size = (int(size[0]), int(size[1]))
-        self.regions = regions(self.size)
         self.build()
 
     # ------------------------------------------------------------- input
@@ -461,20 +652,42 @@ class Panels:
         if aim_html != self._aim_text and (now - self._aim_time >= 0.12 or not busy):
             self._aim_text, self._aim_time = aim_html, now
             self.aim_box.set_text(aim_html)
-        source = (state.proposals, state.proposals_done, bool(state.problems()))
+        source = (state.proposals, state.rejections, state.proposals_done,
+                  bool(state.problems()))
         old = self._list_source
-        if old is None or old[0] is not source[0] or old[1:] != source[1:]:
+        if old is None or old[0] is not source[0] or old[1] is not source[1] or \
+                old[2:] != source[2:]:
             self._list_source = source
-            texts: list[str | tuple[str, str]] = [proposal_text(k + 1, shot)
+            bw = ball_width(state.proposals)
+            texts: list[str | tuple[str, str]] = [proposal_text(k + 1, shot, bw)
                                                   for k, shot in enumerate(state.proposals)]
+            columns = shot_columns(bw)
+            if columns != self._columns_text:
+                self._columns_text = columns
+                self.columns.set_item_list([columns])
+                self.columns.disable()
+            why = ""
             if not texts:
-                texts = ["   (fix the layout's problems first)" if state.problems() else
-                         "   (searching...)" if not state.proposals_done else "   (no shot found)"]
+                if state.problems():
+                    texts = ["   (fix the layout's problems first)"]
+                elif not state.proposals_done:
+                    texts = ["   (searching...)"]
+                else:
+                    why = no_shot_text(state.rejections)
             if texts != self._list_texts:
                 self._list_texts = texts
                 self.shots.set_item_list(texts)
+            if why != self._why_text:
+                self._why_text = why
+                self.why.set_text(why)
+            if why and not self.why.visible:
+                self.shots.hide()
+                self.why.show()
+            elif not why and self.why.visible:
+                self.why.hide()
+                self.shots.show()
         duration = predictor.duration
-        label = f"{playback.t:5.2f} / {duration:.2f} s"
+        label = f"{playback.t:.2f} / {duration:.2f} s"
         if label != self._play_label:
             self._play_label = label
             self.time_label.set_text(label)

@@ -26,7 +26,7 @@ from typing import Any
 
 from ..aim import aim_at, contact_fraction
 from ..errors import ShotplanError
-from ..search import KINDS, Shot, find_shots
+from ..search import KINDS, Rejected, Shot, find_shots
 from .state import FreeAim, PocketAim, ViewState
 
 __all__ = ["AimGeometry", "Predictor", "MAX_PROPOSALS"]
@@ -100,6 +100,7 @@ class Predictor:
         self._prop_layout: Any = None
         self._prop_queue: list[tuple[str, str, str]] | None = None
         self._prop_shots: list[Shot] = []
+        self._prop_rejected: list[Rejected] = []
         self._layout_time = 0.0
 
     # ------------------------------------------------------------- queries
@@ -144,6 +145,7 @@ class Predictor:
             self._prop_layout = layout
             self._prop_queue = None
             self._prop_shots = []
+            self._prop_rejected = []
             self._layout_time = now
             state.set_proposals((), False)
             state.chosen = None  # the list it indexed is gone
@@ -364,6 +366,7 @@ class Predictor:
             self._prop_queue = [(b, p.name, k) for b in state.object_balls
                                 for p in state.table.pockets for k in KINDS]
             self._prop_shots = []
+            self._prop_rejected = []
         t0 = time.perf_counter()
         added = False
         while self._prop_queue and time.perf_counter() - t0 < self.budget_s:
@@ -373,6 +376,7 @@ class Predictor:
                                  physics=state.physics())
             except (ShotplanError, KeyError):
                 continue
+            self._prop_rejected.extend(res.rejected)
             if res.shots:
                 self._prop_shots.extend(res.shots)
                 added = True
@@ -380,7 +384,8 @@ class Predictor:
         self._prop_shots.sort(key=lambda s: (-round(s.window_deg, 2), s.difficulty))
         done = not self._prop_queue
         if added or done:
-            state.set_proposals(self._prop_shots[:MAX_PROPOSALS], done)
+            state.set_proposals(self._prop_shots[:MAX_PROPOSALS], done,
+                                self._prop_rejected if done else ())
             return True
         return False
 

@@ -141,7 +141,7 @@ class Playback:
     """
 
     RATES: tuple[tuple[str, float], ...] = (
-        ("real time", 1.0), ("half speed", 0.5), ("quarter speed", 0.25), ("tenth speed", 0.1))
+        ("real time", 1.0), ("1/2 speed", 0.5), ("1/4 speed", 0.25), ("1/10 speed", 0.1))
     """The speed choices offered, with their rates."""
 
     def __init__(self) -> None:
@@ -321,6 +321,9 @@ class ViewState:
         """Searched shots (:class:`shotplan.search.Shot`), best first."""
         self.proposals_done = False
         """Whether the search over every ball and pocket has finished."""
+        self.rejections: tuple[Any, ...] = ()
+        """The candidates the finished search turned down
+        (:class:`shotplan.search.Rejected`, each with its reason)."""
         self.chosen: int | None = None
         """Index of the proposal last chosen, while its aim is still the one in use."""
         self.undo_stack: list[Snapshot] = []
@@ -511,21 +514,23 @@ class ViewState:
         return changed
 
     def set_rack(self, kind: str) -> bool:
-        """Rack the balls as the trade does (``8-ball`` or ``9-ball``), cue ball on the head spot."""
+        """Rack the balls as the trade does (``8-ball`` or ``9-ball``), cue ball
+        on the head spot. A new layout: titled after the rack, the old title
+        and note (which described other balls) dropped."""
         balls = rack(kind, self.layout.table)
         layout = Layout(self.layout.table, tuple(balls.items()), self.layout.stroke,
-                        self.layout.physics_overrides,
-                        self.layout.title, self.layout.note)
+                        self.layout.physics_overrides, f"{kind} rack", "")
         self.selection = None
         return self._apply(None, layout=layout, aim=None)
 
     def clear(self) -> bool:
-        """Take every object ball off; the cue ball stays (or comes back to the head spot)."""
+        """Take every object ball off; the cue ball stays (or comes back to the
+        head spot). The title and the note go with the balls they described."""
         cue = dict(self.layout.balls).get("cue")
         if cue is None:
             cue = legal_spot(self.table, self._default_spot("cue"), ()) or self._default_spot("cue")
         layout = Layout(self.layout.table, (("cue", cue),), self.layout.stroke,
-                        self.layout.physics_overrides, self.layout.title, self.layout.note)
+                        self.layout.physics_overrides, "", "")
         aim = self.aim if isinstance(self.aim, FreeAim) else None
         self.selection = None
         return self._apply(None, layout=layout, aim=aim)
@@ -573,10 +578,12 @@ class ViewState:
         """Not aimed."""
         return self._apply(None, aim=None)
 
-    def set_proposals(self, shots: Sequence[Any], done: bool) -> None:
-        """Replace the proposals (the predictor calls this; not an edit)."""
+    def set_proposals(self, shots: Sequence[Any], done: bool, rejected: Sequence[Any] = ()) -> None:
+        """Replace the proposals and the candidates turned down (the predictor
+        calls this; not an edit)."""
         self.proposals = tuple(shots)
         self.proposals_done = done
+        self.rejections = tuple(rejected)
 
     def choose_proposal(self, index: int) -> bool:
         """Load the aim and the stroke of proposal ``index`` (0 = best)."""
@@ -601,6 +608,7 @@ class ViewState:
         self.selection = None
         self.derived_direction_deg = None
         self.proposals, self.proposals_done, self.chosen = (), False, None
+        self.rejections = ()
         self.undo_stack.clear()
         self.redo_stack.clear()
         self._coalesce = None
