@@ -203,7 +203,11 @@ def _add_draw(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--title", help="heading (default: the layout's title)")
     p.add_argument("--note", help="caption (default: the layout's note)")
     p.add_argument("--dpi", type=_int_in(20, 2400), default=150,
-                   help="pixels per inch of a PNG (default 150)")
+                   help="pixels per inch of a PNG, 20 to 2400 (default 150); a PNG may have "
+                        "at most 100 million pixels, about 1300 dpi for a 9 ft table")
+    p.add_argument("--style", choices=("print", "colour"), default="print",
+                   help="print: a light-on-ink drawing to scale, for paper and greyscale "
+                        "(default); colour: the table as it looks, as in the table view")
     p.add_argument("--shot", type=_int_in(1, 10000), metavar="K",
                    help="draw the K-th proposed shot (1 = best)")
     p.add_argument("--paths", action="store_true",
@@ -218,7 +222,7 @@ def _run_draw(args: argparse.Namespace) -> int:
     try:
         # Imported here so that the commands that do not draw stay fast.
         from .export import write_scene
-        from .scene import layout_scene, shot_scene
+        from .scene import layout_scene, shot_caption, shot_scene
     except ImportError as e:
         raise InputError(f"drawing is not available: {e}") from e
     if args.shot is not None:
@@ -233,17 +237,18 @@ def _run_draw(args: argparse.Namespace) -> int:
                              if result.shots else f"--shot {args.shot}: no shot found")
         shot = result.shots[args.shot - 1]
         outcome = simulate(layout, shot.stroke())
-        note = args.note if args.note is not None else shot.describe()
-        scene = shot_scene(layout, outcome, shot, title=args.title, note=note)
+        note = args.note if args.note is not None else shot_caption(shot)
+        scene = shot_scene(layout, outcome, shot, title=args.title, note=note, style=args.style)
     elif args.paths:
         _playable(layout, args.layout)
         from .physics import simulate
 
         if layout.stroke is None:
             raise InputError(f"{args.layout}: stroke: --paths needs a stroke in the layout")
-        scene = shot_scene(layout, simulate(layout), None, title=args.title, note=args.note)
+        scene = shot_scene(layout, simulate(layout), None, title=args.title, note=args.note,
+                           style=args.style)
     else:
-        scene = layout_scene(layout, title=args.title, note=args.note)
+        scene = layout_scene(layout, title=args.title, note=args.note, style=args.style)
     write_scene(scene, out, dpi=args.dpi)
     print(f"wrote {out}")
     return EXIT_OK

@@ -61,6 +61,8 @@ __all__ = [
     "render_figure",
     "DEFAULT_WIDTH_IN",
     "A4_PORTRAIT_IN",
+    "DPI_RANGE",
+    "MAX_PIXELS",
 ]
 
 FORMATS: dict[str, str] = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
@@ -71,6 +73,14 @@ DEFAULT_WIDTH_IN = 10.0
 
 A4_PORTRAIT_IN = (210 / 25.4, 297 / 25.4)
 """ISO 216 A4 portrait (210 x 297 mm), inches: the page of :func:`write_pages`."""
+
+DPI_RANGE = (10, 2400)
+"""Least and greatest pixels per inch a drawing may ask for."""
+
+MAX_PIXELS = 100_000_000
+"""Most pixels a PNG may have (width x height): 100 million, about 400 MB
+while it is drawn. A 10 inch drawing of a 9 ft table stays under it up to
+about 1300 dpi."""
 
 _INK = "#1b1b1b"
 _PAPER = "#ffffff"
@@ -108,9 +118,21 @@ class Page:
 # ------------------------------------------------------------- figures
 
 def _check_dpi(dpi: Any) -> float:
-    if isinstance(dpi, bool) or not isinstance(dpi, int | float) or not 10 <= dpi <= 1200:
-        raise InputError(f"dpi: {dpi!r} is out of range, must be a number from 10 to 1200")
+    low, high = DPI_RANGE
+    if isinstance(dpi, bool) or not isinstance(dpi, int | float) or not low <= dpi <= high:
+        raise InputError(f"dpi: {dpi!r} is out of range, must be a number from {low} to {high}")
     return float(dpi)
+
+
+def _check_pixels(w_px: int, h_px: int, dpi: float, where: str) -> None:
+    """Refuse a raster larger than :data:`MAX_PIXELS` before it is allocated."""
+    n = w_px * h_px
+    if n > MAX_PIXELS:
+        # Pixels grow with the square of the dpi.
+        fit = int(dpi * math.sqrt(MAX_PIXELS / n))
+        raise InputError(f"{where}: a {w_px} x {h_px} pixel PNG ({n / 1e6:.0f} million pixels) "
+                         f"is more than the {MAX_PIXELS // 1_000_000} million allowed, use a "
+                         f"dpi of {fit} or less")
 
 
 def _check_width(width_in: Any) -> float:
@@ -194,13 +216,16 @@ class _Texts:
                      fontsize=self.note_pt, color=_INK, linespacing=_NOTE_SPACING)
 
 
-def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None) -> Figure:
+def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None, *,
+                  max_pixels_for: str | None = None) -> Figure:
     """A figure of ``scene`` alone: the title band, the table, the note band.
 
     The table's axes are exactly as wide as the figure and keep the bounds'
     aspect ratio to the pixel (see :func:`shotplan.scene.figure_size`); with no
     title and no note the figure is the table and nothing else. Title and
-    note are wrapped to the figure's width.
+    note are wrapped to the figure's width. With ``max_pixels_for`` (the name
+    of the PNG to be written), a raster larger than :data:`MAX_PIXELS` is
+    refused before it is drawn.
     """
     dpi = _check_dpi(dpi)
     w_in, axes_h_in = figure_size(scene.bounds, _check_width(width_in), dpi)
@@ -212,6 +237,8 @@ def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None)
     axes_px = round(axes_h_in * dpi)
     total_px = title_px + axes_px + note_px
     w_px = round(w_in * dpi)
+    if max_pixels_for is not None:
+        _check_pixels(w_px, total_px, dpi, max_pixels_for)
     fig = Figure(figsize=(w_px / dpi, total_px / dpi), dpi=dpi, facecolor=_PAPER)
     FigureCanvasAgg(fig)
     ax = fig.add_axes((0.0, note_px / total_px, 1.0, axes_px / total_px))
@@ -329,9 +356,9 @@ def _draw_shape(ax: Axes, shape: Any, pt_per_m: float, z: int) -> None:
         head = arrow_head(shape.points, shape.line_width_mm) if shape.arrow else None
         if head is not None:
             pts[-1] = head[0]
+        style: Any = (0, shape.pattern) if shape.pattern else (_DASH if shape.dash else "solid")
         ax.add_line(Line2D(pts[:, 0], pts[:, 1], color=shape.colour, linewidth=lw,
-                           alpha=shape.alpha, zorder=z, clip_on=False,
-                           linestyle=_DASH if shape.dash else "solid",
+                           alpha=shape.alpha, zorder=z, clip_on=False, linestyle=style,
                            solid_capstyle="round", dash_capstyle="butt",
                            solid_joinstyle="round"))
         if head is not None:
@@ -392,7 +419,8 @@ def write_scene(
     p, fmt = _format_of(path)
     if not isinstance(scene, Scene):
         raise InputError(f"{str(p)!r}: {scene!r} is not a Scene")
-    fig = render_figure(scene, dpi=dpi, width_in=width_in)
+    fig = render_figure(scene, dpi=dpi, width_in=width_in,
+                        max_pixels_for=str(path) if fmt == "png" else None)
     with atomic_path(p) as tmp:
         # The temporary name ends in .part, so the format is given explicitly.
         fig.savefig(tmp, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=_PAPER)
@@ -401,7 +429,7 @@ def write_scene(
 
 def render_png_bytes(scene: Scene, dpi: float = 100, width_in: float | None = None) -> bytes:
     """The PNG of ``scene`` as bytes (for tests and the table view)."""
-    fig = render_figure(scene, dpi=dpi, width_in=width_in)
+    fig = render_figure(scene, dpi=dpi, width_in=width_in, max_pixels_for="PNG")
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=dpi, metadata=_METADATA["png"], facecolor=_PAPER)
     return buf.getvalue()

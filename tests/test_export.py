@@ -252,3 +252,67 @@ def test_failed_write_leaves_the_old_file(nine_foot, tmp_path, monkeypatch):
         write_scene(nine_foot, target)
     assert target.read_bytes() == b"the old diagram"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["keep.png"]
+
+
+# ------------------------------------------------- patterns, print style, limits
+
+def test_a_dash_pattern_leaves_its_gaps():
+    # 1 m drawn 500 px wide, a 10 mm (5 px) line; pattern 3 on, 1 off (in line
+    # widths): 15 px ink, 5 px gap, so 3/4 of the line's length is ink (hand check).
+    solid = PolylineShape([(0.1, 0.5), (0.9, 0.5)], colour="#000000", line_width_mm=10.0)
+    dashed = PolylineShape([(0.1, 0.5), (0.9, 0.5)], colour="#000000", line_width_mm=10.0,
+                           pattern=(3.0, 1.0))
+    row = {}
+    for name, line in (("solid", solid), ("dashed", dashed)):
+        img = _image(render_png_bytes(Scene((line,), (0, 0, 1, 1)), dpi=50, width_in=10))
+        row[name] = (img[250, 60:440].sum(axis=1) < 383).mean()
+    assert row["solid"] == 1.0
+    assert row["dashed"] == pytest.approx(0.75, abs=0.06)
+
+
+def test_print_style_is_light_on_ink():
+    # Ink: the share of pixels darker than mid grey. The print style's table
+    # is a line drawing; the colour style's is mostly dark cloth and wood.
+    spec = TableSpec.preset("pool-9ft")
+    balls = {"cue": (0.635, 0.635), "1": (1.905, 0.635)}
+    share = {}
+    for style in ("print", "colour"):
+        scene = layout_scene(StandInLayout(spec, balls), style=style)
+        img = _image(render_png_bytes(scene, dpi=60))
+        share[style] = (img.sum(axis=2) < 3 * 128).mean()
+    assert share["print"] < 0.04 < 0.5 < share["colour"]
+
+
+def test_pixel_limit_refuses_before_drawing(nine_foot, tmp_path, monkeypatch):
+    from shotplan.export import DPI_RANGE, MAX_PIXELS
+
+    assert DPI_RANGE[1] == 2400
+    # 10 in at 2400 dpi: 24000 px wide, and the 9 ft table with its rails is
+    # 1.626 / 2.896 as tall (hand check): far over the limit.
+    assert 24000 * 24000 * 1.626 / 2.896 > MAX_PIXELS
+    with pytest.raises(InputError, match=r"big\.png.*24000 x \d+ pixel PNG.*million allowed, "
+                                         r"use a dpi of \d+ or less"):
+        write_scene(nine_foot, tmp_path / "big.png", dpi=2400)
+    assert list(tmp_path.iterdir()) == []
+    # The same dpi on a drawing 1 in wide is fine (2400 px), and a vector file
+    # has no pixels to count.
+    write_scene(nine_foot, tmp_path / "small.png", dpi=2400, width_in=1.0)
+    write_scene(nine_foot, tmp_path / "big.svg", dpi=2400)
+    assert _png_size((tmp_path / "small.png").read_bytes())[0] == 2400
+
+
+def test_draw_dpi_help_and_limit_agree(tmp_path, capsys):
+    # Issue 12: 'draw --dpi 2400' was inside the help's range but refused.
+    from shotplan.cli import build_parser, main
+
+    layout = (__import__("pathlib").Path(__file__).resolve().parent.parent
+              / "assets" / "layouts" / "club-night-1-straight-in.json")
+    helptext = " ".join(build_parser()._subparsers._group_actions[0]  # type: ignore[union-attr]
+                        .choices["draw"].format_help().split())
+    assert "20 to 2400" in helptext and "100 million pixels" in helptext
+    out = tmp_path / "x.png"
+    assert main(["draw", str(layout), "-o", str(out), "--dpi", "2400"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "million pixels" in err[0] and "x.png" in err[0]
+    assert not out.exists()
+    assert main(["draw", str(layout), "-o", str(tmp_path / "y.png"), "--dpi", "20"]) == 0
