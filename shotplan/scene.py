@@ -1267,7 +1267,7 @@ def outcome_shapes(outcome: _OutcomeLike, radius: float, cue_id: str = "cue", *,
         shapes.append(CircleShape(end, radius, fill=None, edge=edge, line_width_mm=1.5,
                                   layer=Layer.GHOST, dash=True))
         if style == "print":
-            shapes.append(TextShape(end, _short_name(b, cue_id), size_mm=0.55 * radius * 1000.0,
+            shapes.append(TextShape(end, _short_name(b, cue_id), size_mm=0.75 * radius * 1000.0,
                                     colour=edge, anchor="c", layer=Layer.GHOST))
     return shapes
 
