@@ -97,6 +97,27 @@ def test_resizing_lays_everything_out_again(tmp_path):
     assert app.panels.regions.status[1] + app.panels.regions.status[3] == MIN_SIZE[1]
 
 
+def test_dialogs_move_into_a_smaller_window(tmp_path):
+    app = make_app(tmp_path, load_layout(DEMO), DEMO, size=(1920, 1080))
+    app.do("export")
+    pump(app)
+    dialog = next(iter(app._dialogs))
+    app.resize((800, 600))
+    assert pygame.Rect(0, 0, 800, 600).contains(dialog.get_abs_rect())
+    dialog.kill()
+
+
+def test_long_hints_wrap_to_the_table_width():
+    from shotplan.view.app import _wrap
+    from shotplan.view.draw import Painter
+
+    font = Painter().font(14)
+    text = "not aimed yet: click an object ball, then a pocket, or drag on the cloth to aim the cue"
+    lines = _wrap(font, text, 200)
+    assert len(lines) > 1 and " ".join(lines) == text
+    assert all(font.size(line)[0] <= 200 for line in lines)
+
+
 def test_toolbar_wraps_by_groups_hand_worked():
     # Widths chosen by hand: 8 px margin, 4 px between buttons, 10 px between groups.
     widths = [50, 50, 50, 50]
@@ -141,6 +162,7 @@ def test_no_shot_found_says_why(tmp_path):
     app.settle()
     assert app.state.proposals == () and app.state.proposals_done
     assert app.panels.why.visible and not app.panels.shots.visible
+    assert not app.panels.columns.visible  # no columns over a list that is not there
     # The reasons the search itself gives for the whole table, counted here.
     result = find_shots(layout)
     assert not result.shots

@@ -28,6 +28,7 @@ from typing import Any
 
 import pygame
 import pygame_gui
+from pygame_gui.elements import UIWindow
 from pygame_gui.windows import UIConfirmationDialog, UIMessageWindow
 
 from ..aim import direction_deg, overlap_word
@@ -48,7 +49,7 @@ from .layers import (
     shown_positions,
     window_layer,
 )
-from .panels import Panels, PathDialog, RecoveryDialog
+from .panels import MIN_SIZE, Panels, PathDialog, RecoveryDialog
 from .predict import Predictor
 from .recovery import (
     Claim,
@@ -232,12 +233,18 @@ class App:
 
     def resize(self, size: tuple[int, int]) -> None:
         """Fit everything to a new window size."""
-        self.size = (max(int(size[0]), 640), max(int(size[1]), 480))
+        self.size = (max(int(size[0]), 320), max(int(size[1]), 240))
         if not self._started:
             return
         assert self.manager is not None and self.panels is not None
         self.manager.set_window_resolution(self.size)
         self.panels.resize(self.size)
+        # Open dialogs move to the middle of the new window, so none is left outside it.
+        root: Any = self.manager.get_root_container()
+        for element in list(getattr(root, "elements", ())):
+            if isinstance(element, UIWindow) and element.alive():
+                w, h = element.get_abs_rect().size
+                element.set_position(((self.size[0] - w) // 2, max((self.size[1] - h) // 2, 0)))
 
     @property
     def transform(self) -> Transform:
@@ -1034,8 +1041,12 @@ class App:
             elif self.predictor.outcome is None and self.predictor.message:
                 hint = self.predictor.message
         if hint:
-            img = self.painter.text_surface(hint, 14, "#e3ebe5")
-            surface.blit(img, (clip.left + 16, clip.bottom - img.get_height() - 8))
+            lines = _wrap(self.painter.font(14), hint, clip.width - 32)
+            y = clip.bottom - 8
+            for line in reversed(lines):
+                img = self.painter.text_surface(line, 14, "#e3ebe5")
+                y -= img.get_height()
+                surface.blit(img, (clip.left + 16, y))
 
     def _draw_help(self, surface: pygame.Surface) -> None:
         w, h = surface.get_size()
@@ -1095,6 +1106,10 @@ class App:
         pygame.display.init()
         pygame.font.init()
         screen = pygame.display.set_mode(self.size, pygame.RESIZABLE)
+        try:  # the panels are laid out for MIN_SIZE and up; SDL keeps the window there
+            pygame.Window.from_display_module().minimum_size = MIN_SIZE
+        except (AttributeError, pygame.error):  # pragma: no cover - an older pygame
+            pass
         pygame.key.set_repeat(350, 35)
         self.start(screen.get_size())
         self._draw_loading(screen)
@@ -1115,6 +1130,18 @@ class App:
 def _escape(text: str) -> str:
     """Text for pygame_gui's HTML subset (its markup characters escaped)."""
     return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+
+
+def _wrap(font: pygame.font.Font, text: str, width: int) -> list[str]:
+    """``text`` broken at spaces into lines that fit ``width`` px (a word
+    longer than a line is cut to fit, with an ellipsis)."""
+    lines: list[str] = []
+    for word in text.split():
+        if lines and font.size(lines[-1] + " " + word)[0] <= width:
+            lines[-1] += " " + word
+        else:
+            lines.append(_fit(font, word, width))
+    return lines
 
 
 def _fit(font: pygame.font.Font, text: str, width: int) -> str:

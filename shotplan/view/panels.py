@@ -519,8 +519,9 @@ class Panels:
         list_h = max(ph - y - legend_h - bottom, 48)
         self.shots = UISelectionList(pygame.Rect(12, y, iw, list_h), [], m,
                                      container=side, object_id="#shots")
-        self.why = UITextBox("", pygame.Rect(12, y, iw, list_h), m, container=side,
-                             object_id="#why")
+        # When nothing is found, the reasons take the headings' and the list's place.
+        self.why = UITextBox("", pygame.Rect(12, y - columns_h, iw, list_h + columns_h), m,
+                             container=side, object_id="#why")
         self.why.hide()
         y += list_h
         self.legend = UILabel(pygame.Rect(12, y + 1, iw, legend_h - 1), RAIL_LEGEND, m,
@@ -682,9 +683,11 @@ class Panels:
                 self.why.set_text(why)
             if why and not self.why.visible:
                 self.shots.hide()
+                self.columns.hide()
                 self.why.show()
             elif not why and self.why.visible:
                 self.why.hide()
+                self.columns.show()
                 self.shots.show()
         duration = predictor.duration
         label = f"{playback.t:.2f} / {duration:.2f} s"
