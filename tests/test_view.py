@@ -551,6 +551,17 @@ def test_closing_the_recovery_question_keeps_the_old_work(tmp_path):
     assert later.recovered.snapshot.settings.speed_mps == 1.1  # the kept one is not offered
 
 
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="FIFOs are POSIX")
+def test_a_fifo_in_the_recovery_folder_is_never_opened(tmp_path):
+    # Opening a FIFO for reading waits for a writer for ever.
+    folder = tmp_path / "s"
+    folder.mkdir()
+    os.mkfifo(folder / "session-fifo.json")
+    os.mkfifo(folder / "recovery.json")
+    app = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
+    assert app.recovered is None
+
+
 def test_bad_recovery_files_are_kept_side_by_side(tmp_path):
     folder = tmp_path / "s"
     folder.mkdir()
@@ -584,7 +595,9 @@ def test_recovered_source_is_checked_before_it_is_the_save_target(tmp_path, sour
     click_widget(again, again._recovery_dialog.restore)
     assert again.state.settings.speed_mps == 2.6
     assert again.state.path == (doc["source"] if usable else None)
-    if not usable:
+    if usable:
+        assert f"Save writes to {doc['source']}" in again.note
+    else:
         assert "Save as" in again.note
         again.do("save")  # no target: asks for one instead of writing there
         assert any(p == "save-as" for p in again._dialogs.values())

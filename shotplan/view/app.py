@@ -332,7 +332,8 @@ class App:
                 return
             held.release(remove=True)
             self.say("restored the unsaved work" + (
-                f"; it will not be saved to its old file ({why}): use Save as" if why else ""))
+                f"; it will not be saved to its old file ({why}): use Save as" if why else
+                f" (Save writes to {source})" if source else ""))
         else:
             held.release(remove=True)
             self.say("discarded the unsaved work")
