@@ -204,7 +204,7 @@ def _add_draw(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--note", help="caption (default: the layout's note)")
     p.add_argument("--dpi", type=_int_in(20, 2400), default=150,
                    help="pixels per inch of a PNG, 20 to 2400 (default 150); a PNG may have "
-                        "at most 100 million pixels, about 1300 dpi for a 9 ft table")
+                        "at most 100 million pixels, about 1180 dpi for a 9 ft table")
     p.add_argument("--style", choices=("print", "colour"), default="print",
                    help="print: a light-on-ink drawing to scale, for paper and greyscale "
                         "(default); colour: the table as it looks, as in the table view")

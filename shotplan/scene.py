@@ -1067,23 +1067,29 @@ def path_shapes(
     least :data:`MIN_CONTRAST` against ``cloth``. A path of fewer than two
     points is left out.
     """
+    clean = _clean_paths(points_by_ball)
+    looks = path_looks(list(clean), cue_id, style=style, cloth=cloth)
+    return [PolylineShape(_points(arr, f"path of ball {b!r}", 2), colour=looks[b].colour,
+                          line_width_mm=line_width_mm, dash=looks[b].dash,
+                          pattern=looks[b].pattern, layer=Layer.PATH, alpha=0.9, arrow=True)
+            for b, arr in clean.items()]
+
+
+def _clean_paths(points_by_ball: Mapping[str, Any]) -> dict[str, np.ndarray]:
+    """Each path as an (N, 2) array without repeated points (a ball at rest
+    between events); paths of fewer than two points are left out."""
     clean: dict[str, np.ndarray] = {}
     for ball_id, pts in points_by_ball.items():
         arr = np.asarray(pts, dtype=float)
         if arr.ndim != 2 or arr.shape[1] != 2:
             raise InputError(f"path of ball {ball_id!r}: must be an (N, 2) array of points, "
                              f"got shape {arr.shape}")
-        # Drop repeated points (a ball at rest between events).
         keep = np.ones(len(arr), dtype=bool)
         keep[1:] = np.any(np.abs(np.diff(arr, axis=0)) > 1e-9, axis=1)
         arr = arr[keep]
         if len(arr) >= 2:
             clean[str(ball_id)] = arr
-    looks = path_looks(list(clean), cue_id, style=style, cloth=cloth)
-    return [PolylineShape(_points(arr, f"path of ball {b!r}", 2), colour=looks[b].colour,
-                          line_width_mm=line_width_mm, dash=looks[b].dash,
-                          pattern=looks[b].pattern, layer=Layer.PATH, alpha=0.9, arrow=True)
-            for b, arr in clean.items()]
+    return clean
 
 
 def ghost_ball_shape(centre: Sequence[float], radius: float, *, style: str = "colour"
@@ -1246,7 +1252,7 @@ def outcome_shapes(outcome: _OutcomeLike, radius: float, cue_id: str = "cue", *,
     style = _style(style)
     paths = {b: outcome.path(b) for b in outcome.moved()}
     lines = path_shapes(paths, cue_id=cue_id, style=style, cloth=cloth)
-    looks = {ln.points[-1]: ln.colour for ln in lines}
+    looks = path_looks(list(_clean_paths(paths)), cue_id, style=style, cloth=cloth)
     shapes: list[Shape] = []
     for ln in lines:
         shapes += clip_polyline(ln, region) if region is not None else [ln]
@@ -1263,7 +1269,7 @@ def outcome_shapes(outcome: _OutcomeLike, radius: float, cue_id: str = "cue", *,
         if not len(pts):
             continue
         end = (float(pts[-1][0]), float(pts[-1][1]))
-        edge = looks.get(end, _INK if style == "print" else _WHITE)
+        edge = looks[b].colour if b in looks else (_INK if style == "print" else _WHITE)
         shapes.append(CircleShape(end, radius, fill=None, edge=edge, line_width_mm=1.5,
                                   layer=Layer.GHOST, dash=True))
         if style == "print":
@@ -1360,7 +1366,7 @@ def shot_scene(layout: _LayoutLike, outcome: _OutcomeLike, shot: Any = None,
             lo, hi = mid - 0.1, mid + 0.1
         extra += window_shapes(cue, reach, lo, hi, region, style=style)
     if style == "print":
-        moved = [b for b in outcome.moved() if len(outcome.path(b)) >= 2]
+        moved = list(_clean_paths({b: outcome.path(b) for b in outcome.moved()}))
         extra += _legend(scene, path_looks(moved, style="print", cloth=cloth), shot is not None)
     return scene.with_shapes(*extra)
 
