@@ -107,6 +107,16 @@ def test_dialogs_move_into_a_smaller_window(tmp_path):
     dialog.kill()
 
 
+@pytest.mark.parametrize("size", SIZES)
+def test_the_key_help_fits_the_window(size):
+    from shotplan.view.app import HELP_ROWS, help_box
+
+    box, line, text_px = help_box(size)
+    assert pygame.Rect(0, 0, *size).contains(box)
+    assert box.top + 18 + line * len(HELP_ROWS) <= box.bottom - 30  # above the closing hint
+    assert text_px >= 11 and line >= text_px + 4
+
+
 def test_long_hints_wrap_to_the_table_width():
     from shotplan.view.app import _wrap
     from shotplan.view.draw import Painter

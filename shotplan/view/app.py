@@ -65,7 +65,8 @@ from .recovery import (
 from .state import FreeAim, Playback, PocketAim, ViewState
 from .transform import Transform, to_diamonds
 
-__all__ = ["App", "KEYS", "DEFAULT_SIZE", "new_layout", "theme_resource", "DEFAULT_RECOVERY"]
+__all__ = ["App", "KEYS", "HELP_ROWS", "help_box", "DEFAULT_SIZE", "new_layout", "theme_resource",
+           "DEFAULT_RECOVERY"]
 
 DEFAULT_SIZE = (1280, 800)
 """The window's size when it opens, px."""
@@ -114,6 +115,21 @@ POINTER: tuple[tuple[str, str], ...] = (
     ("click the cue-ball face", "set the tip (inside the dashed miscue limit)"),
 )
 """Pointer gestures, as the help lists them."""
+
+HELP_ROWS: tuple[tuple[str, str], ...] = (("Keys", ""), *KEYS, ("", ""), ("Pointer", ""), *POINTER)
+"""The rows of the key help: headings (no second part), keys and gestures."""
+
+
+def help_box(size: tuple[int, int]) -> tuple[pygame.Rect, int, int]:
+    """Where the key help goes in a window of ``size`` px: its box, the row
+    height and the text size, px. 23 px a row where there is room; closer
+    rows and smaller text in a low window, so that the whole list fits (its
+    rows start 18 px into the box; the last 36 px hold the closing hint)."""
+    w, h = size
+    line = max(16, min(23, (h - 40 - 70) // len(HELP_ROWS)))
+    bw, bh = min(760, w - 40), min(line * len(HELP_ROWS) + 70, h - 40)
+    return pygame.Rect((w - bw) // 2, (h - bh) // 2, bw, bh), line, min(15, line - 5)
+
 
 _DEFAULT: Any = object()
 DEFAULT_RECOVERY: Any = _DEFAULT
@@ -1054,19 +1070,18 @@ class App:
         shade = pygame.Surface((w, h), pygame.SRCALPHA)
         shade.fill((10, 12, 11, 200))
         surface.blit(shade, (0, 0))
-        rows = [("Keys", "")] + list(KEYS) + [("", ""), ("Pointer", "")] + list(POINTER)
-        line = 23
-        bw, bh = min(760, w - 40), min(line * len(rows) + 70, h - 40)
-        box = pygame.Rect((w - bw) // 2, (h - bh) // 2, bw, bh)
+        rows = HELP_ROWS
+        box, line, size = help_box((w, h))
         pygame.draw.rect(surface, rgb("#202322"), box, border_radius=8)
         pygame.draw.rect(surface, rgb("#d6b358"), box, 1, border_radius=8)
         y = box.top + 18
+        col = box.left + 24 + max(self.painter.font(size, True).size(k)[0] for k, _ in rows) + 24
         for keys, what in rows:
             if keys and not what:
-                self._text(surface, keys, (box.left + 24, y), 16, "#d6b358", bold=True)
+                self._text(surface, keys, (box.left + 24, y), size + 1, "#d6b358", bold=True)
             elif keys:
-                self._text(surface, keys, (box.left + 24, y), 15, "#f4f1e8", bold=True)
-                self._text(surface, what, (box.left + 260, y), 15, "#d8d5cc")
+                self._text(surface, keys, (box.left + 24, y), size, "#f4f1e8", bold=True)
+                self._text(surface, what, (col, y), size, "#d8d5cc")
             y += line
         self._text(surface, "any key or click closes this list", (box.left + 24, box.bottom - 30),
                    13, "#9a9c97")
