@@ -24,6 +24,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import pytest
 from hypothesis import HealthCheck, assume, event, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import minimize_scalar
@@ -51,9 +52,10 @@ tip = st.tuples(st.floats(0.0, 0.5), st.floats(0.0, 2 * math.pi)).map(
 
 
 @st.composite
-def strokes(draw, lo=0.1, hi=8.0):
+def strokes(draw, lo=0.1, hi=8.0, elevated=True):
     side, height = draw(tip)
-    elev = draw(st.one_of(st.just(0.0), st.floats(0.0, 35.0), st.floats(35.0, 60.0)))
+    elev = draw(st.one_of(st.just(0.0), st.floats(0.0, 35.0), st.floats(35.0, 60.0))) \
+        if elevated else 0.0
     return Stroke(
         direction_deg=draw(st.floats(0.0, 360.0)),
         speed_mps=math.exp(draw(st.floats(math.log(lo), math.log(hi)))),
@@ -101,7 +103,8 @@ def build_rack(table: Table, gap: float, jitter: float, rng: np.random.Generator
 
 
 # ------------------------------------------------------------- invariants
-def check_invariants(out: Outcome, table: Table, check_momentum: bool = True) -> int:
+def check_invariants(out: Outcome, table: Table, check_momentum: bool = True,
+                     overlap: float = 1e-7) -> int:
     """Every invariant of the module docstring on one outcome; returns the
     number of impacts whose momentum was checked."""
     R = table.ball_radius
@@ -138,7 +141,7 @@ def check_invariants(out: Outcome, table: Table, check_momentum: bool = True) ->
         if len(xy) >= 2:
             d = np.hypot(xy[:, None, 0] - xy[None, :, 0], xy[:, None, 1] - xy[None, :, 1])
             d[np.diag_indices(len(xy))] = np.inf
-            assert d.min() >= 2 * R - 1e-7, f"overlap {2 * R - d.min():.3g} m at t={t}"
+            assert d.min() >= 2 * R - overlap, f"overlap {2 * R - d.min():.3g} m at t={t}"
         if len(xy):
             legal = table.is_legal(xy, tol=1e-7)
             live_ids = [b for b, keep in zip(ids, live, strict=True) if keep]
@@ -364,3 +367,81 @@ def test_contact_never_missed_nor_invented(setup, phys):
     eng = np.array([out.positions(float(t))["cue"] for t in t_check])
     np.testing.assert_allclose(eng, free_positions(start, ln.velocity, ln.spin, phys, R, t_check),
                                atol=1e-9)
+
+
+# ------------------------------------------------- touching, clusters, cushions
+@st.composite
+def cluster_layouts(draw):
+    """Balls where the hard cases are: touching (a gap of exactly 0, or a few
+    nanometres or micrometres), in clusters of three or more, and frozen to a
+    cushion (its centre exactly one contact offset from the nose)."""
+    table = TABLES[draw(st.sampled_from(["pool-9ft", "pool-7ft", "snooker"]))]
+    R = table.ball_radius
+    gap = st.sampled_from([0.0, 0.0, 1e-9, 2e-7, 1e-6, 5e-5])
+    start = (draw(st.floats(0.4, table.length - 0.4)), draw(st.floats(0.3, table.width - 0.3)))
+    pts = [start]
+    n = draw(st.integers(2, 7))
+    for _ in range(n - 1):
+        base = pts[draw(st.integers(0, len(pts) - 1))]
+        ang = draw(st.floats(0.0, 2 * math.pi))
+        d = 2 * R + draw(gap)
+        p = (base[0] + d * math.cos(ang), base[1] + d * math.sin(ang))
+        if draw(st.integers(0, 4)) == 0:  # frozen to the right or left cushion
+            p = (p[0], R + draw(gap) if draw(st.booleans()) else table.width - R - draw(gap))
+        pts.append(p)
+    pos = np.array(pts)
+    dd = np.hypot(pos[:, None, 0] - pos[None, :, 0], pos[:, None, 1] - pos[None, :, 1])
+    dd[np.diag_indices(len(pos))] = np.inf
+    assume(dd.min() >= 2 * R)
+    assume(table.is_legal(pos, tol=0.0).all())
+    # Open (see the xfail test below): a cue ball frozen to two balls and
+    # struck into one of them with heavy spin is driven by that spin into
+    # the other; that sustained push needs the contact model the
+    # contact-physics issue brings. Until then the cue ball is within 1 mm
+    # of at most one ball here; every other ball may touch any number.
+    assume(int(np.sum(dd[0] < 2 * R + 1e-3)) <= 1)
+    return table, pos
+
+
+@slow(300)
+@given(setup=cluster_layouts(), stroke=strokes(lo=0.3, hi=9.0), phys=physics_values,
+       aim=st.integers(1, 6), fullness=st.floats(-0.99, 0.99))
+def test_invariants_touching_balls_clusters_and_cushions(setup, stroke, phys, aim, fullness):
+    # The cue ball is the first ball; most strokes play into the cluster.
+    table, pos = setup
+    n = len(pos)
+    d = pos[min(aim, n - 1)] - pos[0]
+    off = math.asin(fullness * min(1.0, 2 * table.ball_radius / float(np.hypot(*d))))
+    stroke = stroke.replace(direction_deg=math.degrees(math.atan2(d[1], d[0]) + off))
+    ids = ["cue"] + [f"b{k}" for k in range(1, n)]
+    out = Simulator(table, phys).run(ids, pos, stroke)
+    # No pair closer than 2R - 1 um at any time: the robust-contact bound
+    # the contact-physics issue sets (balls starting a few nanometres apart
+    # may be resolved a fraction of a micrometre inside contact).
+    check_invariants(out, table, check_momentum=False, overlap=1e-6)
+    event(f"{n} balls")
+
+
+@pytest.mark.xfail(strict=True, reason="open: a ball driven into a touching ball by its own "
+                   "spin (an elevated stroke) needs a sustained-contact model; the contact-"
+                   "physics issue replaces the jam guard with one")
+def test_spin_driven_push_into_a_touching_ball_keeps_them_apart():
+    # Found by the cluster property above: a cue ball frozen to two balls,
+    # struck into one with massé spin (a 37-degree elevated stroke), stays
+    # and chatters against the other: the impacts come ever closer in time,
+    # the chatter ends without a contact, and the spin then drives the cue
+    # ball millimetres into the other ball.
+    table = TABLES["pool-9ft"]
+    R = table.ball_radius
+    pos = np.array([[1.0, 0.5], [1.01621129, 0.44519748], [1.07336129, 0.44519748],
+                    [1.03087828, 0.54809007]])
+    d = pos[1] - pos[0]
+    stroke = Stroke(math.degrees(math.atan2(d[1], d[0])), 1.0, 0.0, 0.0, 37.0)
+    out = Simulator(table, Physics()).run(["cue", "b1", "b2", "b3"], pos, stroke)
+    worst = 0.0
+    for t in np.linspace(0.0, min(out.duration, 1.0), 201):
+        xy = out.states(float(t))[:, :2]
+        dd = np.hypot(xy[:, None, 0] - xy[None, :, 0], xy[:, None, 1] - xy[None, :, 1])
+        dd[np.diag_indices(4)] = np.inf
+        worst = max(worst, 2 * R - float(dd.min()))
+    assert worst <= 1e-6, f"overlap {worst:.3g} m"
