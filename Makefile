@@ -30,7 +30,7 @@ bench: $(STAMP)
 	$(PY) benchmarks/run_all.py
 
 check: $(TSTAMP)
-	$(VENV)/bin/ruff check shotplan tests benchmarks
+	$(VENV)/bin/ruff check shotplan tests benchmarks tools
 	$(VENV)/bin/mypy shotplan
 
 screenshots: $(STAMP)

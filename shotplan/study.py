@@ -443,7 +443,7 @@ def _window_point(geo: CutGeometry | None, why: str, key: dict[str, Any], tip: s
                                 "ghost_direction_deg": geo.ghost_direction_deg}
         return WindowPoint(**key, tip=tip, cut_side=geo.cut_side, **zero, note=reason), res.simulations
     s = res.shots[0]
-    throw = s.throw_deg if math.isfinite(s.throw_deg) else None
+    throw = s.throw_deg  # None for banks and kicks; a direct shot always has one
     # What the tip choice delivered at contact: a "stun" that needs more draw
     # than the miscue limit allows arrives with some roll, and the reader
     # should see it.
