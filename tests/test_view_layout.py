@@ -181,8 +181,11 @@ def test_no_shot_found_says_why(tmp_path):
     text = app.panels._why_text
     assert f"{len(result.rejected)} tried" in text
     assert f"{n} \u00d7 {reason}" in text
-    # A shot again: the list comes back.
+    # Nothing to pot: it says so.
     app.do("clear")
+    app.settle()
+    assert "No object ball on the table" in app.panels._why_text
+    # A shot again: the list comes back.
     app.state.add_ball("1", (1.9, 0.635))
     app.settle()
     assert app.state.proposals and app.panels.shots.visible and not app.panels.why.visible

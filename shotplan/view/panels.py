@@ -313,12 +313,14 @@ def proposal_text(k: int, shot: Any, ball_width: int = 4) -> str:
             f"{shot.cut_angle_deg:3.0f} {shot.window_deg:6.2f}")
 
 
-def no_shot_text(rejected: Sequence[Any], most: int = 4) -> str:
+def no_shot_text(rejected: Sequence[Any], most: int = 4, object_balls: int = 1) -> str:
     """Why the search found no shot (pygame_gui HTML): the reasons it gave,
-    the most frequent first, each with how many candidates it turned down."""
+    the most frequent first, each with how many candidates it turned down
+    (or, with no ``object_balls``, that there is nothing to pot)."""
+    if not object_balls:
+        return "<b>No object ball on the table.</b> Add one (Add ball, or Insert) or rack."
     if not rejected:
-        return ("<b>No shot found.</b> Nothing was tried: there is no object ball, "
-                "or the table has no pockets.")
+        return "<b>No shot found.</b> Nothing was tried: the table has no pockets."
     counts: dict[str, int] = {}
     for r in rejected:
         counts[str(r.reason)] = counts.get(str(r.reason), 0) + 1
@@ -674,7 +676,7 @@ class Panels:
                 elif not state.proposals_done:
                     texts = ["   (searching...)"]
                 else:
-                    why = no_shot_text(state.rejections)
+                    why = no_shot_text(state.rejections, object_balls=len(state.object_balls))
             if texts != self._list_texts:
                 self._list_texts = texts
                 self.shots.set_item_list(texts)
