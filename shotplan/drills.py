@@ -30,10 +30,9 @@ window, :func:`shotplan.search.find_shots`). Everything is checked as a
 layout file is: one :class:`~shotplan.errors.LayoutError` line naming the
 file, the field and what would be valid.
 
-The *player error model* (:class:`PlayerErrors`) has three numbers, each the
-standard deviation of a normal error: aim (degrees of cue direction), speed
-(% of the launch speed) and tip (ball radii, applied to the side and to the
-height independently). :data:`LEVELS` names four levels of our own.
+The *player error model* (:class:`PlayerErrors`) and the named
+:data:`LEVELS` live in :mod:`shotplan.players` (re-exported here), with the
+tip-safety rule the planner follows (:func:`shotplan.players.tip_room`).
 
 *Success rates* (:func:`simulate_station`) come from Monte Carlo: each trial
 draws four standard normals (aim, speed, side, height) from a seeded
@@ -73,6 +72,7 @@ import numpy as np
 from .errors import InputError, LayoutError
 from .fileio import atomic_write_text, check_output_path
 from .layout import Layout, _kind, _show, check_format, check_version, load_layout, read_json_file
+from .players import DEFAULT_LEVEL, LEVELS, PlayerErrors
 from .position import Zone, _Player, setting_words, zone_words
 from .stroke import Stroke
 
@@ -127,70 +127,6 @@ feeble, moves the cue ball."""
 
 _MAX_SPEED = 15.0
 """Nor above the fastest stroke the package accepts (m/s)."""
-
-
-# ------------------------------------------------------------- error model
-@dataclass(frozen=True, slots=True)
-class PlayerErrors:
-    """A player's errors: each the standard deviation of a normal error."""
-
-    aim_sd_deg: float
-    """Cue direction error, degrees."""
-    speed_sd_pct: float
-    """Launch speed error, % of the intended speed."""
-    tip_sd: float
-    """Tip placement error, ball radii, in the side and in the height (each)."""
-    name: str = "custom"
-    """The level's name, or ``custom``."""
-
-    def __post_init__(self) -> None:
-        for key, label, high, unit in (("aim_sd_deg", "aim-sd", 10.0, "degrees"),
-                                       ("speed_sd_pct", "speed-sd", 50.0, "%"),
-                                       ("tip_sd", "tip-sd", 0.5, "ball radius")):
-            v = getattr(self, key)
-            if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v) \
-                    or not 0.0 <= v <= high:
-                raise InputError(f"player errors: {label} {v!r} is out of range, must be "
-                                 f"from 0 to {high:g} {unit}")
-            object.__setattr__(self, key, float(v))
-        if not isinstance(self.name, str) or not self.name:
-            raise InputError(f"player errors: name {self.name!r} must be a non-empty string")
-
-    @classmethod
-    def level(cls, name: str) -> PlayerErrors:
-        """A named level of :data:`LEVELS`."""
-        if name not in LEVELS:
-            raise InputError(f"{name!r} is not a player level, must be one of "
-                             f"{', '.join(LEVELS)} (or give custom numbers)")
-        return LEVELS[name]
-
-    def describe(self) -> str:
-        """``club player (aim 0.2 deg, speed 8 %, tip 0.05 R)``."""
-        who = f"{self.name} player" if self.name != "custom" else "custom errors"
-        return (f"{who} (aim {self.aim_sd_deg:g}\u00b0, speed {self.speed_sd_pct:g} %, "
-                f"tip {self.tip_sd:g} R, standard deviations)")
-
-    def to_dict(self) -> dict[str, Any]:
-        """The ``level`` object of ``shotplan drill --json``."""
-        return {"name": self.name, "aim_sd_deg": self.aim_sd_deg,
-                "speed_sd_pct": self.speed_sd_pct, "tip_sd": self.tip_sd}
-
-
-# Our own four levels and our own reading of their numbers (from memory of
-# common practice, not measured): a club player sends the cue within about
-# 0.15 deg of where he means to, hits his intended speed to within about a
-# tenth, and places the tip within about a millimetre (0.04 R) of his spot.
-LEVELS: dict[str, PlayerErrors] = {
-    "starter": PlayerErrors(0.25, 12.0, 0.06, "starter"),
-    "club": PlayerErrors(0.15, 8.0, 0.04, "club"),
-    "strong": PlayerErrors(0.10, 5.0, 0.025, "strong"),
-    "elite": PlayerErrors(0.06, 3.0, 0.015, "elite"),
-}
-"""Named player levels (our own names and numbers): ``starter``, ``club``,
-``strong``, ``elite``; see :class:`PlayerErrors` for the units."""
-
-DEFAULT_LEVEL = "club"
-"""The level used when none is given."""
 
 
 # ---------------------------------------------------------------- rates
