@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import argparse
 import math
+import re
 from typing import Any
 
 from .cli import DIAGRAM_SUFFIXES, _emit_json, _int_in, _playable
@@ -61,6 +62,10 @@ def _add_position(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--sides", metavar="LIST",
                    help="side offsets in ball radii, comma-separated, + is right english "
                         "(default: -0.2,0,0.2)")
+    p.add_argument("--level", metavar="NAME",
+                   help="player level whose tip error sets the tip room: settings closer "
+                        "to the miscue limit than 2.5 of its standard deviations are not "
+                        "played (default club)")
     p.add_argument("--top", type=_int_in(1, 10000), default=10, metavar="N",
                    help="settings for the zone to list (default 10)")
     p.add_argument("-o", "--output", metavar="FILE",
@@ -69,6 +74,21 @@ def _add_position(sub: argparse._SubParsersAction) -> None:
                    help="pixels per inch of a PNG (default 150)")
     p.add_argument("--json", action="store_true", help="print JSON")
     p.set_defaults(run=_run_position)
+    _allow_negative_lists(p)
+
+
+_NUMBER_LIST = re.compile(r"^-(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?(,.*)?$")
+"""A comma-separated list whose first value is negative (``-0.2,0.2``)."""
+
+
+def _allow_negative_lists(parser: argparse.ArgumentParser) -> None:
+    """Let ``--heights -0.2,0.2`` (the documented form) take the list as the
+    option's value: argparse reads an argument that starts with ``-`` as an
+    option unless it looks like a negative number, and its test knows plain
+    numbers only, so the test is widened to comma lists of them. The parser
+    has no option that looks like a number, so nothing else changes."""
+    if hasattr(parser, "_negative_number_matcher"):
+        parser._negative_number_matcher = _NUMBER_LIST
 
 
 def _numbers(text: str | None, option: str, allow_stun: bool = False) -> list[Any] | None:
@@ -104,6 +124,11 @@ def _run_position(args: argparse.Namespace) -> int:
     heights = _numbers(args.heights, "--heights", allow_stun=True)
     sides = _numbers(args.sides, "--sides")
     zone = parse_zone(args.zone) if args.zone is not None else None
+    errors = None
+    if args.level is not None:
+        from .players import PlayerErrors
+
+        errors = PlayerErrors.level(args.level)
     layout = load_layout(args.layout)
     _playable(layout, args.layout)
     names = [p.name for p in layout.geometry.pockets]
@@ -114,7 +139,7 @@ def _run_position(args: argparse.Namespace) -> int:
     if zone is not None:
         zone.check_on_table(layout.geometry, "--zone")
     pm = position_map(layout, args.ball, args.pocket, zone=zone, speeds=speeds,
-                      heights=heights, sides=sides)
+                      heights=heights, sides=sides, errors=errors)
     if out is not None:
         from .export import write_scene
 
@@ -136,7 +161,8 @@ def _cell(f: Any) -> str:
     if f.result == "pocketed":
         x, y = f.cue_finish
         return f"{x:.2f},{y:.2f}" + ("*" if f.in_zone else " ")
-    return {"scratch": "SCRATCH", "missed": "miss", "no aim": "-", "miscue": "miscue"}[f.result]
+    return {"scratch": "SCRATCH", "missed": "miss", "no aim": "-", "miscue": "miscue",
+            "risky tip": "risky"}[f.result]
 
 
 def _print_position(pm: Any, args: argparse.Namespace) -> None:
@@ -146,7 +172,11 @@ def _print_position(pm: Any, args: argparse.Namespace) -> None:
     print(f"{args.layout}: {pm.ball} into {pm.pocket}, {len(pm.finishes)} settings "
           f"({counts}); {pm.seconds * 1000:.0f} ms")
     print("cells: where the cue ball stops (x,y in m), SCRATCH, miss (the ball does not "
-          "fall), - (no aim found), miscue" + ("; * in the zone" if pm.zone else ""))
+          "fall), - (no aim found), miscue, risky (within the tip margin)"
+          + ("; * in the zone" if pm.zone else ""))
+    if pm.errors is not None:
+        print(f"tip room for a {pm.errors.name} player: {pm.tip_room:.3g} R from centre "
+              f"(2.5 x {pm.errors.tip_sd:g} R of tip error inside the miscue limit)")
     speeds = pm.meta["speeds"]
     last_side = None
     for side, h, row in pm.rows():

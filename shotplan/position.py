@@ -14,7 +14,12 @@ and the stroke is played once. Each point of the grid ends as one of:
 * ``no aim``: no cue direction sends the ball at the pocket with this
   setting (the cue ball cannot reach it, another ball is in the way);
 * ``miscue``: the side and height together are beyond the miscue limit, so
-  the setting is not played.
+  the setting is not played;
+* ``risky tip``: the side and height together are within the miscue limit
+  but closer to it than the player's tip room
+  (:func:`shotplan.players.tip_room`: 2.5 standard deviations of the
+  player's tip error, the ``club`` level's unless another is given), so a
+  miscue would not be rare; the setting is not played and never proposed.
 
 A *target zone* (:class:`Zone`) is a circle or a polygon on the table; the
 cue ball is *in* it when its centre comes to rest inside. The settings that
@@ -66,6 +71,7 @@ from shapely.geometry.base import BaseGeometry
 
 from .errors import InputError, LayoutError, StrokeError
 from .physics import Physics
+from .players import DEFAULT_LEVEL, TIP_MARGIN_SD, PlayerErrors, level_tip_room, safe_height
 from .stroke import Stroke, speed_word
 
 __all__ = [
@@ -91,7 +97,7 @@ __all__ = [
     "zone_shapes",
 ]
 
-RESULTS = ("pocketed", "scratch", "missed", "no aim", "miscue")
+RESULTS = ("pocketed", "scratch", "missed", "no aim", "miscue", "risky tip")
 """What one setting of a position map can end as (see the module docstring)."""
 
 ROBUST_SPEED_STEP_PCT = 1.0
@@ -460,6 +466,10 @@ class PositionMap:
     """Wall time."""
     meta: dict[str, Any] = field(default_factory=dict)
     """The grid: ``speeds``, ``heights``, ``sides``."""
+    tip_room: float = math.inf
+    """Largest tip offset played, ball radii (:func:`shotplan.players.tip_room`)."""
+    errors: PlayerErrors | None = None
+    """The player whose tip error set :attr:`tip_room`."""
 
     def rows(self) -> list[tuple[float, float | str, tuple[Finish, ...]]]:
         """The grid by rows: ``(side, height as given ("stun" or a number),
@@ -490,6 +500,10 @@ class PositionMap:
             "ranked": [z.to_dict() for z in self.ranked],
             "robustness": {"speed_step_pct": ROBUST_SPEED_STEP_PCT,
                            "tip_step": ROBUST_TIP_STEP, "max_level": ROBUST_LEVELS},
+            "tip_margin": {"level": self.errors.name if self.errors is not None else None,
+                           "tip_sd": self.errors.tip_sd if self.errors is not None else None,
+                           "margin_sd": TIP_MARGIN_SD,
+                           "tip_room": self.tip_room if math.isfinite(self.tip_room) else None},
             "simulations": self.simulations,
             "seconds": self.seconds,
         }
@@ -553,7 +567,8 @@ class _Player:
 
 
 # ------------------------------------------------------------------- grid
-def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = None
+def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = None,
+                 room: float | None = None
                  ) -> tuple[tuple[float, ...], tuple[float | str, ...], tuple[float, ...]]:
     """The default (speeds, heights, sides) of a position map.
 
@@ -562,8 +577,14 @@ def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = 
       ball and a 0.25 m/s arrival) to 4.5 times that (at least 2 m/s more,
       at most 8 m/s);
     * heights: ``"stun"`` (the stun rule at each speed) and 7 heights evenly
-      from -0.9 to +0.9 of the miscue limit (-0.45 to 0.45 R by default);
-    * sides: -0.4, 0 and +0.4 of the miscue limit (0.2 R by default).
+      across the tip room ``room`` (:func:`shotplan.players.tip_room`; by
+      default the ``club`` level's, -0.4 to 0.4 R at a 0.5 R limit), never
+      beyond 0.9 of the miscue limit;
+    * sides: -0.4, 0 and +0.4 of the miscue limit (0.2 R by default), never
+      beyond the room.
+
+    The grid's corners (much side with much draw or follow) may lie outside
+    the room; :func:`position_map` marks them ``risky tip``.
     """
     from .aim import aim_at
     from .search import _pocket_target, default_speed
@@ -578,10 +599,19 @@ def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = 
     v_hi = min(max(4.5 * v_lo, v_lo + 2.0), 8.0)
     speeds = tuple(round(float(v), 2) for v in np.geomspace(v_lo, max(v_hi, v_lo * 1.01), 7))
     lim = phys.miscue_limit
+    top = max(min(level_tip_room(lim) if room is None else room, 0.9 * lim), 0.0)
     heights: tuple[float | str, ...] = ("stun",) + tuple(
-        round(float(h), 3) + 0.0 for h in np.linspace(-0.9 * lim, 0.9 * lim, 7))
-    sides = (round(-0.4 * lim, 3), 0.0, round(0.4 * lim, 3))
+        _down(float(h), 3) + 0.0 for h in np.linspace(-top, top, 7))
+    side = _down(min(0.4 * lim, top), 3)
+    sides = (-side, 0.0, side) if side > 0.0 else (0.0,)
     return speeds, heights, sides
+
+
+def _down(value: float, digits: int) -> float:
+    """``value`` rounded to ``digits`` decimals towards zero (a rounded grid
+    height never leaves the room)."""
+    q = 10.0 ** digits
+    return math.trunc(value * q + math.copysign(1e-9, value)) / q
 
 
 def _check_grid(speeds: Sequence[float], heights: Sequence[float | str],
@@ -615,6 +645,7 @@ def position_map(
     heights: Sequence[float | str] | None = None,
     sides: Sequence[float] | None = None,
     physics: Physics | None = None,
+    errors: PlayerErrors | None = None,
 ) -> PositionMap:
     """Play a direct shot of ``ball`` into ``pocket`` over a grid of settings.
 
@@ -632,6 +663,12 @@ def position_map(
         defaults from :func:`default_grid`.
     physics
         Physics values; by default the layout's.
+    errors
+        The player whose tip error sets the tip room (default: the ``club``
+        level); settings outside it end as ``risky tip``.
+
+    Raises :class:`InputError` when the player's tip error leaves no room at
+    all (not even centre ball keeps a miscue rare).
     """
     t0 = time.perf_counter()
     from .search import aim_direct, tip_height
@@ -640,7 +677,13 @@ def position_map(
     phys = player.physics
     if zone is not None:
         zone.check_on_table(player.sim.table)
-    d_speeds, d_heights, d_sides = default_grid(layout, ball, pocket, phys)
+    room = level_tip_room(phys.miscue_limit, errors)
+    if room < 0.0:
+        e = errors if errors is not None else PlayerErrors.level(DEFAULT_LEVEL)
+        raise InputError(f"no tip setting keeps a miscue rare for a tip error of {e.tip_sd:g} R "
+                         f"with a miscue limit of {phys.miscue_limit:g} R: even centre ball "
+                         "miscues more than 1 % of the time")
+    d_speeds, d_heights, d_sides = default_grid(layout, ball, pocket, phys, room)
     speeds = tuple(speeds) if speeds is not None else d_speeds
     heights = tuple(heights) if heights is not None else d_heights
     sides = tuple(sides) if sides is not None else d_sides
@@ -656,14 +699,22 @@ def position_map(
                 tip = ""
                 if h_spec == "stun":
                     h = round(tip_height("stun", float(v), cue_dist, phys), 4)
-                    # At low speeds the rule runs into its draw limit: that is
-                    # plain draw, not a stun, and is not called one.
+                    # At low speeds the rule runs into its draw limit, or
+                    # the player's tip room: that is plain draw, not a stun,
+                    # and is not called one.
                     tip = "stun" if h > -0.9 * phys.miscue_limit + 1e-3 else ""
+                    low = safe_height(h, float(s), room)
+                    if low is not None and low > h:
+                        h, tip = _down(low, 4), ""
                 else:
                     h = float(h_spec)
                 v, s_ = float(v), float(s)
                 if math.hypot(s_, h) > phys.miscue_limit + 1e-12:
                     finishes.append(Finish(v, h, s_, tip, None, "miscue", None,
+                                           False if zone is not None else None))
+                    continue
+                if math.hypot(s_, h) > room + 1e-9:
+                    finishes.append(Finish(v, h, s_, tip, None, "risky tip", None,
                                            False if zone is not None else None))
                     continue
                 aims += 1
@@ -691,8 +742,9 @@ def position_map(
     # player; estimate them so the total means something.
     sims = player.runs + 6 * aims
     meta = {"speeds": list(speeds), "heights": list(heights), "sides": list(sides)}
+    who = errors if errors is not None else PlayerErrors.level(DEFAULT_LEVEL)
     return PositionMap(layout, ball, pocket, tuple(finishes), zone, tuple(ranked), sims,
-                       time.perf_counter() - t0, meta)
+                       time.perf_counter() - t0, meta, room, who)
 
 
 def robustness(player: _Player, finish: Finish, zone: Zone) -> ZoneSetting:

@@ -14,11 +14,13 @@ from shotplan.equipment import TableSpec
 from shotplan.errors import InputError, LayoutError
 from shotplan.layout import Layout, save_layout
 from shotplan.physics import simulate
+from shotplan.players import LEVELS, PlayerErrors
 from shotplan.position import (
     ROBUST_LEVELS,
     ROBUST_SPEED_STEP_PCT,
     ROBUST_TIP_STEP,
     Zone,
+    default_grid,
     parse_zone,
     position_map,
     position_scene,
@@ -86,7 +88,9 @@ def test_draw_comes_back_further_with_speed(shot):
     # player, further the harder it is hit (before it meets a cushion).
     lay, ghost = shot
     speeds = [2.0, 2.1, 2.2, 2.3, 2.4, 2.5]
-    pm = position_map(lay, "1", "foot-right", speeds=speeds, heights=[-0.45], sides=[0.0])
+    # -0.45 R lies inside an elite player's tip room (0.4625 R), not a club player's
+    pm = position_map(lay, "1", "foot-right", speeds=speeds, heights=[-0.45], sides=[0.0],
+                      errors=LEVELS["elite"])
     assert all(f.pocketed for f in pm.finishes)
     dist = [along(f.cue_finish, ghost) for f in pm.finishes]
     assert dist[0] < -2 * R
@@ -101,6 +105,44 @@ def test_miscue_settings_are_not_played(shot):
     pm = position_map(lay, "1", "foot-right", speeds=[2.0], heights=[0.45], sides=[0.3])
     (f,) = pm.finishes
     assert f.result == "miscue" and f.direction_deg is None  # hypot(0.3, 0.45) > 0.5
+
+
+def test_settings_inside_the_limit_but_outside_the_tip_room_are_not_played(shot):
+    # Club tip error 0.04 R: room 0.5 - 2.5 x 0.04 = 0.4 R (shotplan.players).
+    # hypot(0.2, 0.4) = 0.447 lies inside the 0.5 R limit but outside the room.
+    lay, _ghost = shot
+    pm = position_map(lay, "1", "foot-right", speeds=[2.0], heights=[-0.4], sides=[0.2])
+    (f,) = pm.finishes
+    assert f.result == "risky tip" and f.direction_deg is None
+    assert pm.to_dict()["counts"]["risky tip"] == 1
+    # an elite player's room (0.5 - 2.5 x 0.015 = 0.4625 R) takes it
+    pm = position_map(lay, "1", "foot-right", speeds=[2.0], heights=[-0.4], sides=[0.2],
+                      errors=LEVELS["elite"])
+    assert pm.finishes[0].result != "risky tip"
+    assert pm.to_dict()["tip_margin"]["tip_room"] == pytest.approx(0.4625)
+    # a zone as big as the table: only settings inside the club room are ranked
+    big = Zone.polygon_of([(0.0, 0.0), (2.6, 0.0), (2.6, 1.3), (0.0, 1.3)])
+    pm = position_map(lay, "1", "foot-right", zone=big, speeds=[2.0],
+                      heights=[-0.45, -0.4, 0.0], sides=[0.0])
+    assert pm.ranked and pm.finishes[0].result == "risky tip"
+    assert all(math.hypot(z.finish.side, z.finish.height) <= 0.4 + 1e-9 for z in pm.ranked)
+
+
+@pytest.mark.parametrize("level", ["starter", "club", "elite"])
+def test_default_grid_keeps_inside_the_level_tip_room(shot, level):
+    lay, _ghost = shot
+    room = 0.5 - 2.5 * LEVELS[level].tip_sd  # the rule, hand-worked at the 0.5 R limit
+    _speeds, heights, sides = default_grid(lay, "1", "foot-right", room=room)
+    nums = [h for h in heights if h != "stun"]
+    assert max(abs(h) for h in nums) <= room and min(nums) < -0.9 * room
+    assert max(abs(s) for s in sides) <= room
+
+
+def test_no_room_at_all_is_said_in_words(shot):
+    lay, _ghost = shot
+    with pytest.raises(InputError, match="no tip setting keeps a miscue rare"):
+        position_map(lay, "1", "foot-right", speeds=[2.0], heights=[0.0], sides=[0.0],
+                     errors=PlayerErrors(0.1, 5.0, 0.2))
 
 
 def test_default_grid_covers_draw_stun_and_follow(shot):
@@ -295,3 +337,26 @@ def test_position_command_bad_input(tmp_path, capsys, extra, fragment):
     lines = err.strip().splitlines()
     assert len(lines) == 1 and lines[0].startswith("shotplan: error:") and fragment in lines[0]
     assert sorted(p.name for p in tmp_path.iterdir()) == ["s.json"]
+
+
+@pytest.mark.parametrize("form", ["space", "equals"])
+def test_negative_lists_are_option_values(tmp_path, capsys, form):
+    # Issue 12: "--heights -0.2,0.2" (the README's form) was read as an
+    # option. Both forms must give the same grid: heights -0.2 and 0.2,
+    # sides -0.1 and 0, one speed.
+    lay, _ghost = straight_in()
+    path = tmp_path / "s.json"
+    save_layout(lay, path)
+    opts = {"--heights": "-0.2,0.2", "--sides": "-0.1,0", "--speeds": "2"}
+    argv = ["position", str(path), "--ball", "1", "--pocket", "foot-right", "--json"]
+    for k, v in opts.items():
+        argv += [f"{k}={v}"] if form == "equals" else [k, v]
+    code, out, err = run(capsys, *argv)
+    assert code == 0, err
+    grid = json.loads(out)["grid"]
+    assert grid == {"speeds": [2.0], "heights": [-0.2, 0.2], "sides": [-0.1, 0.0]}
+    # a real option after a negative list is still an option
+    code, out, err = run(capsys, "position", str(path), "--ball", "1", "--pocket",
+                         "foot-right", "--heights", "-0.2", "--sides", "-0.1,0", "--speeds",
+                         "2", "--level", "nobody")
+    assert code == 2 and "'nobody' is not a player level" in err
