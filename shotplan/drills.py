@@ -62,8 +62,8 @@ import math
 import os
 import sys
 import time
-from collections.abc import Callable, Mapping
-from dataclasses import dataclass, field
+from collections.abc import Callable, Mapping, Sequence
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any, TextIO
 
@@ -71,8 +71,16 @@ import numpy as np
 
 from .errors import InputError, LayoutError
 from .fileio import atomic_write_text, check_output_path
-from .layout import Layout, _kind, _show, check_format, check_version, load_layout, read_json_file
-from .players import DEFAULT_LEVEL, LEVELS, PlayerErrors
+from .layout import Layout, _kind, _show, check_format, check_version, read_json_file
+from .players import (
+    DEFAULT_LEVEL,
+    LEVELS,
+    MISCUE_FLAG_RATE,
+    PlayerErrors,
+    level_tip_room,
+    miscue_probability,
+    safe_height,
+)
 from .position import Zone, _Player, setting_words, zone_words
 from .stroke import Stroke
 
@@ -83,6 +91,8 @@ __all__ = [
     "STATION_KEYS",
     "LEVELS",
     "DEFAULT_LEVEL",
+    "SHEET_LEVELS",
+    "DEFAULT_ATTEMPTS",
     "Z95",
     "Station",
     "Drill",
@@ -109,11 +119,21 @@ FORMAT = "shotplan-drill"
 VERSION = 1
 """The drill file version this module reads and writes."""
 
-DRILL_KEYS: tuple[str, ...] = ("format", "version", "title", "note", "stations")
+DRILL_KEYS: tuple[str, ...] = ("format", "version", "title", "note", "attempts", "stations")
 """Top-level fields of a drill file, in the order they are written."""
 
-STATION_KEYS: tuple[str, ...] = ("name", "note", "layout", "ball", "pocket", "zone", "stroke")
+STATION_KEYS: tuple[str, ...] = ("name", "note", "layout", "ball", "pocket", "zone", "stroke",
+                                 "attempts")
 """Fields of a station, in the order they are written."""
+
+SHEET_LEVELS: tuple[str, ...] = ("starter", "club", "strong")
+"""The levels whose rates a drill sheet shows side by side (with the one asked for)."""
+
+DEFAULT_ATTEMPTS = 10
+"""Attempts per station when the drill file gives none ("ten balls at each")."""
+
+MAX_ATTEMPTS = 100
+"""Most attempts a station may ask for (the sheet's tally box holds them)."""
 
 MAX_STATIONS = 200
 """Most stations a drill file may hold (a club night has a handful)."""
@@ -199,6 +219,8 @@ class Station:
     layout_ref: str | None = None
     """The layout file's path as the drill file gives it (relative to the
     drill file's folder), or None for an inline layout."""
+    attempts: int | None = None
+    """Attempts the player makes at this station, or None: the drill's."""
 
     def to_dict(self) -> dict[str, Any]:
         """The station object of a drill file."""
@@ -218,6 +240,8 @@ class Station:
             out["zone"] = self.zone.to_dict()
         if self.stroke is not None:
             out["stroke"] = self.stroke.to_dict()
+        if self.attempts is not None:
+            out["attempts"] = self.attempts
         return out
 
 
@@ -233,6 +257,12 @@ class Drill:
     """Text for the whole drill."""
     base_dir: str = field(default=".", compare=False)
     """The folder relative layout paths are read from (the drill file's)."""
+    attempts: int = DEFAULT_ATTEMPTS
+    """Attempts at each station that gives none."""
+
+    def attempts_at(self, station: Station) -> int:
+        """How many attempts the player makes at ``station``."""
+        return station.attempts if station.attempts is not None else self.attempts
 
     @classmethod
     def from_dict(cls, data: Any, where: str = "drill", base_dir: str | os.PathLike[str] = "."
@@ -253,6 +283,7 @@ class Drill:
             raise LayoutError(f"{where}: title: missing, must be the drill's title (text)")
         title = _text(data["title"], f"{where}: title", required=True)
         note = _text(data.get("note", ""), f"{where}: note")
+        attempts = _attempts(data.get("attempts"), f"{where}: attempts")
         if "stations" not in data:
             raise LayoutError(f"{where}: stations: missing, must be a list of stations "
                               "(name, layout, ball, pocket...)")
@@ -268,13 +299,16 @@ class Drill:
         base = Path(base_dir)
         stations = tuple(_station(item, f"{where}: stations[{i}]", base)
                          for i, item in enumerate(items))
-        return cls(title, stations, note, str(base))
+        return cls(title, stations, note, str(base),
+                   attempts if attempts is not None else DEFAULT_ATTEMPTS)
 
     def to_dict(self) -> dict[str, Any]:
         """The drill file's object."""
         out: dict[str, Any] = {"format": FORMAT, "version": VERSION, "title": self.title}
         if self.note:
             out["note"] = self.note
+        if self.attempts != DEFAULT_ATTEMPTS:
+            out["attempts"] = self.attempts
         out["stations"] = [s.to_dict() for s in self.stations]
         return out
 
@@ -305,10 +339,7 @@ def _station(data: Any, where: str, base: Path) -> Station:
                               "(relative to the drill file) or a layout object")
         ref = raw
         path = Path(raw) if Path(raw).is_absolute() else base / raw
-        try:
-            layout = load_layout(path, strict=False)
-        except LayoutError as e:
-            raise LayoutError(f"{where}: layout: {e}") from None
+        layout = _referenced_layout(path, f"{where}: layout")
         lay_name = str(path)
     elif isinstance(raw, Mapping):
         layout = Layout.from_dict(raw, where=f"{where}: layout", header=False)
@@ -355,7 +386,36 @@ def _station(data: Any, where: str, base: Path) -> Station:
             raise LayoutError(f"{where}: stroke: tip offset {offset:.3g} R (side "
                               f"{stroke.side:g}, height {stroke.height:g}) is beyond the "
                               f"miscue limit {limit:g} R, must be within it")
-    return Station(name, layout, ball, pocket, zone, stroke, note, ref)
+    attempts = _attempts(data.get("attempts"), f"{where}: attempts")
+    return Station(name, layout, ball, pocket, zone, stroke, note, ref, attempts)
+
+
+def _referenced_layout(path: Path, where: str) -> Layout:
+    """The layout file a station names, read so that a message about it
+    names the field and the problem but never shows the file's content (a
+    shared drill file may name any file: its key names and values are none
+    of the message's business). Only a file that says it is a shotplan
+    layout (its ``format``) is read as one, and only its messages (about a
+    layout's fields) are passed on."""
+    from .layout import FORMAT as LAYOUT_FORMAT
+
+    if path.suffix.lower() != ".json":
+        raise LayoutError(f"{where}: {str(path)!r} is not a layout file's name, must end "
+                          "in .json")
+    try:
+        data = read_json_file(path)
+    except LayoutError as e:
+        text = str(e)
+        if "not UTF-8" in text:  # the inner message quotes a byte of the file
+            text = f"{path}: not UTF-8 text"
+        raise LayoutError(f"{where}: {text}") from None
+    if not isinstance(data, Mapping) or data.get("format") != LAYOUT_FORMAT:
+        raise LayoutError(f"{where}: {path}: not a shotplan layout file (a layout file has "
+                          f"\"format\": \"{LAYOUT_FORMAT}\")")
+    try:
+        return Layout.from_dict(data, str(path))
+    except LayoutError as e:
+        raise LayoutError(f"{where}: {e}") from None
 
 
 def load_drill(path: str | os.PathLike[str]) -> Drill:
@@ -381,9 +441,8 @@ def save_drill(drill: Drill, path: str | os.PathLike[str]) -> None:
         if ref is not None and not Path(ref).is_absolute():
             full = (Path(drill.base_dir) / ref).resolve()
             ref = Path(os.path.relpath(full, target)).as_posix()
-        stations.append(Station(s.name, s.layout, s.ball, s.pocket, s.zone, s.stroke, s.note,
-                                ref))
-    out = Drill(drill.title, tuple(stations), drill.note, str(target))
+        stations.append(replace(s, layout_ref=ref))
+    out = Drill(drill.title, tuple(stations), drill.note, str(target), drill.attempts)
     atomic_write_text(p, out.to_json())
 
 
@@ -420,20 +479,35 @@ class StationPlan:
                              self.tip)
 
 
-def plan_station(station: Station, physics: Any = None) -> StationPlan:
+def plan_station(station: Station, physics: Any = None, errors: PlayerErrors | None = None
+                 ) -> StationPlan:
     """The settings of a station: the file's stroke, or found (see the module
-    docstring). Raises :class:`InputError` if no shot pockets the ball."""
+    docstring). Found settings keep the tip inside the tip room of
+    ``errors`` (:func:`shotplan.players.tip_room`; default the ``club``
+    level): a shot whose stun or draw would need more is played at the
+    room's edge instead, and the plan's remark says so. A file's stroke is
+    played as given; the remark says when it lies outside the room. Raises
+    :class:`InputError` if no shot pockets the ball, or if the player's tip
+    error leaves no room at all."""
     from .position import position_map
     from .search import find_shots
 
     lay = station.layout
     phys = physics if physics is not None else lay.physics()
+    room = level_tip_room(phys.miscue_limit, errors)
+    who = (errors if errors is not None else LEVELS[DEFAULT_LEVEL])
+    if room < 0.0:
+        raise InputError(f"station {station.name!r}: no tip setting keeps a miscue rare for a "
+                         f"tip error of {who.tip_sd:g} R with a miscue limit of "
+                         f"{phys.miscue_limit:g} R (even centre ball miscues more than 1 % of "
+                         "the time)")
     stroke = station.stroke
     first = station.ball
     source, tip, shot, zs, remark = "file", "", None, None, ""
     if stroke is None:
         if station.zone is not None:
-            pm = position_map(lay, station.ball, station.pocket, zone=station.zone, physics=phys)
+            pm = position_map(lay, station.ball, station.pocket, zone=station.zone, physics=phys,
+                              errors=errors)
             if pm.ranked:
                 zs = pm.ranked[0]
                 stroke = zs.finish.stroke()
@@ -450,9 +524,32 @@ def plan_station(station: Station, physics: Any = None) -> StationPlan:
                                  f"{station.ball!r} in {station.pocket} ({why})")
             shot = shots[0]
             stroke = shot.stroke()
-            first = shot.balls[0]
             tip = shot.tip if shot.tip == "stun" else ""
+            if math.hypot(stroke.side, stroke.height) > room + 1e-9:
+                h = safe_height(stroke.height, stroke.side, room)
+                again = [] if h is None else [
+                    s for s in find_shots(lay, balls=[station.ball], pockets=[station.pocket],
+                                          side=stroke.side, height=h, physics=phys).shots
+                    if s.balls[-1] == station.ball]
+                said = f"{tip} " if tip else ""
+                why = (f"the search's {said}tip ({stroke.height:+.3f} R) is nearer the miscue "
+                       f"limit than a {who.name} player's tip room ({room:.3g} R)")
+                if again:
+                    why += f"; played at {h:+.3f} R"
+                    shot, tip = again[0], ""
+                    stroke = shot.stroke()
+                else:
+                    why += ", and no shot pockets the ball from inside it"
+                remark = f"{remark}; {why}" if remark else why
+            first = shot.balls[0]
             source = "shot search"
+    else:
+        offset = math.hypot(stroke.side, stroke.height)
+        chance = miscue_probability(offset, phys.miscue_limit, who.tip_sd)
+        if offset > room + 1e-9:
+            remark = (f"the file's tip ({offset:.3g} R from centre) is nearer the miscue limit "
+                      f"than a {who.name} player's tip room ({room:.3g} R): expect miscues "
+                      f"in about {100 * chance:.0f} % of attempts")
     from .physics import simulator_for
 
     sim = simulator_for(lay.table, phys)
@@ -497,6 +594,32 @@ class StationResult:
         """Trials run."""
         return self.pocket.trials
 
+    @property
+    def miscue_rate(self) -> float:
+        """The share of trials that miscued."""
+        return self.miscues / self.trials
+
+    @property
+    def miscue_flag(self) -> bool:
+        """More than :data:`shotplan.players.MISCUE_FLAG_RATE` of the trials
+        miscued: the settings are too near the miscue limit for this player."""
+        return self.miscue_rate > MISCUE_FLAG_RATE
+
+    @property
+    def miscue_chance(self) -> float:
+        """The exact chance of a miscue for the planned tip and this player
+        (:func:`shotplan.players.miscue_probability`)."""
+        s = self.plan.stroke
+        return miscue_probability(math.hypot(s.side, s.height), self.plan.physics.miscue_limit,
+                                  self.errors.tip_sd)
+
+    def miscue_words(self) -> str:
+        """``TOO NEAR THE MISCUE LIMIT: 46 % of trials miscued`` or ``""``."""
+        if not self.miscue_flag:
+            return ""
+        return (f"TOO NEAR THE MISCUE LIMIT: {100 * self.miscue_rate:.0f} % of trials miscued "
+                f"(more than {100 * MISCUE_FLAG_RATE:g} %); move the tip towards the centre")
+
     def to_dict(self) -> dict[str, Any]:
         """The station's object in ``shotplan drill --json``."""
         st = self.plan.station
@@ -518,6 +641,9 @@ class StationResult:
             "miscues": self.miscues,
             "scratches": self.scratches,
             "seconds": self.seconds,
+            "miscue_rate": self.miscue_rate,
+            "miscue_chance": self.miscue_chance,
+            "miscue_flag": self.miscue_flag,
         }
 
 
@@ -646,39 +772,78 @@ class DrillResult:
     """One result per station, in order."""
     source: str = ""
     """The drill file's name, if it came from one."""
+    compared: tuple[tuple[PlayerErrors, tuple[StationResult, ...]], ...] = ()
+    """Other levels run on the same plans and seed, for the sheet's side-by-side
+    rates: ``(level, one result per station)``."""
+
+    def levels(self) -> list[tuple[PlayerErrors, tuple[StationResult, ...]]]:
+        """Every level run, weakest (largest tip error) first, this result's
+        own among them."""
+        out = {e.name if e.name != "custom" else "custom": (e, rs) for e, rs in self.compared}
+        own = self.errors.name
+        out[own] = (self.errors, self.stations)
+        return sorted(out.values(), key=lambda er: (-er[0].tip_sd, -er[0].aim_sd_deg))
 
     def to_dict(self) -> dict[str, Any]:
         """The ``shotplan drill --json`` document."""
-        return {
+        stations = []
+        for r in self.stations:
+            d = r.to_dict()
+            d["attempts"] = self.drill.attempts_at(r.plan.station)
+            stations.append(d)
+        out: dict[str, Any] = {
             "drill": self.drill.title,
             "file": self.source or None,
             "level": self.errors.to_dict(),
             "trials": self.trials,
             "seed": self.seed,
             "confidence": "95 % Wilson score interval",
-            "stations": [r.to_dict() for r in self.stations],
+            "stations": stations,
         }
+        if self.compared:
+            out["compared"] = [
+                {"level": e.to_dict(),
+                 "stations": [{"station": r.plan.station.name,
+                               "pocket_rate": r.pocket.to_dict(),
+                               "position_rate": r.position.to_dict(),
+                               "both_rate": r.both.to_dict(),
+                               "miscues": r.miscues, "miscue_rate": r.miscue_rate,
+                               "miscue_flag": r.miscue_flag} for r in rs]}
+                for e, rs in self.compared]
+        return out
 
 
 def run_drill(drill: Drill, errors: PlayerErrors, trials: int = 10000, seed: int = 1,
-              progress: ProgressBar | None = None, source: str = "") -> DrillResult:
-    """Plan every station, then run ``trials`` trials of each (station ``k``
-    uses ``default_rng([seed, k])``)."""
-    plans = [plan_station(st) for st in drill.stations]
-    results = []
+              progress: ProgressBar | None = None, source: str = "",
+              compare: Sequence[PlayerErrors] = ()) -> DrillResult:
+    """Plan every station for ``errors`` (its tip room), then run ``trials``
+    trials of each (station ``k`` uses ``default_rng([seed, k])``). The
+    levels of ``compare`` (other than ``errors`` itself) are run on the same
+    plans with the same seed (common random numbers), for the sheet."""
+    plans = [plan_station(st, errors=errors) for st in drill.stations]
+    others = [e for e in compare if e != errors]
     n = len(plans)
-    for k, plan in enumerate(plans):
-        cb: Callable[[int], None] | None = None
-        if progress is not None:
-            label = f"station {k + 1}/{n}"
+    total_runs = 1 + len(others)
 
-            def cb(done: int, k: int = k, label: str = label) -> None:
-                progress(k * trials + done, label)
+    def play(e: PlayerErrors, run: int) -> tuple[StationResult, ...]:
+        results = []
+        for k, plan in enumerate(plans):
+            cb: Callable[[int], None] | None = None
+            if progress is not None:
+                label = (f"station {k + 1}/{n}" if total_runs == 1
+                         else f"{e.name}: station {k + 1}/{n}")
 
-        results.append(simulate_station(plan, errors, trials, seed, k, cb))
+                def cb(done: int, k: int = k, label: str = label) -> None:
+                    progress((run * n + k) * trials + done, label)
+
+            results.append(simulate_station(plan, e, trials, seed, k, cb))
+        return tuple(results)
+
+    own = play(errors, 0)
+    compared = tuple((e, play(e, j + 1)) for j, e in enumerate(others))
     if progress is not None:
         progress.close()
-    return DrillResult(drill, errors, trials, seed, tuple(results), source)
+    return DrillResult(drill, errors, trials, seed, own, source, compared)
 
 
 # ------------------------------------------------------------------ sheet
@@ -706,12 +871,24 @@ def _shot_words(plan: StationPlan) -> str:
             f"ghost ball, the {st.ball} {a.object_distance:.2f} m from the pocket.")
 
 
-def station_lines(result: StationResult) -> list[str]:
+def station_lines(result: StationResult, brief: bool = False) -> list[str]:
     """The text of a station's page: the shot, the settings in a player's
-    words, the finish asked for, the success rates."""
+    words, the finish asked for, the success rates. ``brief``: only the
+    shot, the finish, the remarks and the note (the sheet draws the rest)."""
     plan = result.plan
     st = plan.station
     s = plan.stroke
+    if brief:
+        out = [_shot_words(plan)]
+        if st.zone is not None:
+            out.append(f"Finish: {zone_words(st.zone)} (the shaded zone).")
+        else:
+            out.append("Finish: anywhere, as long as the cue ball stays on the table.")
+        if plan.remark:
+            out.append(f"Note: {plan.remark}.")
+        if st.note:
+            out.append(st.note)
+        return out
     found = {"file": "as the drill gives it", "shot search": "found by the shot search",
              "position search": "found by the position search: the most robust setting "
                                 "for the zone"}[plan.source]
@@ -739,21 +916,24 @@ def station_lines(result: StationResult) -> list[str]:
     return lines
 
 
-def station_scene(result: StationResult, title: str | None = None, dots: int = 400) -> Any:
+def station_scene(result: StationResult, title: str | None = None, dots: int = 400,
+                  style: str = "colour") -> Any:
     """A station's diagram: the layout, the unperturbed stroke's paths (with
     the ghost ball and window for a shot the search found), the zone, and
-    where the cue ball finished in the first ``dots`` trials (white: pocketed
-    and in position, red: not)."""
+    where the cue ball finished in the first ``dots`` trials (``colour``
+    style: white pocketed and in position, red not; ``print``: a filled ink
+    dot and an open ring)."""
     from .position import zone_shapes
     from .scene import CircleShape, Layer, shot_scene
 
     plan = result.plan
     st = plan.station
     R = st.layout.geometry.ball_radius
-    scene = shot_scene(st.layout, plan.outcome, plan.shot, title=title or st.name, note="")
+    scene = shot_scene(st.layout, plan.outcome, plan.shot,
+                       title=st.name if title is None else title, note="", style=style)
     extra: list[Any] = []
     if st.zone is not None:
-        extra += zone_shapes(st.zone)
+        extra += zone_shapes(st.zone, style=style)
     fin = result.finishes[:dots]
     ok = np.zeros(len(fin), dtype=bool)
     up = np.all(np.isfinite(fin), axis=1)
@@ -762,40 +942,39 @@ def station_scene(result: StationResult, title: str | None = None, dots: int = 4
     else:
         ok[up] = True
     for p, good in zip(fin[up], ok[up], strict=True):
-        extra.append(CircleShape((float(p[0]), float(p[1])), 0.22 * R,
-                                 fill="#ffffff" if good else "#ff6b5b", alpha=0.55,
-                                 layer=Layer.MARKER - 1))
+        if style == "print":
+            extra.append(CircleShape((float(p[0]), float(p[1])), 0.2 * R,
+                                     fill="#1b1b1b" if good else "#ffffff",
+                                     edge=None if good else "#1b1b1b", line_width_mm=0.5,
+                                     alpha=0.7 if good else 0.9, layer=Layer.MARKER - 1))
+        else:
+            extra.append(CircleShape((float(p[0]), float(p[1])), 0.22 * R,
+                                     fill="#ffffff" if good else "#ff6b5b", alpha=0.55,
+                                     layer=Layer.MARKER - 1))
     return scene.with_shapes(*extra)
 
 
 def write_sheet(result: DrillResult, path: str | os.PathLike[str], dpi: float = 150
                 ) -> list[Path]:
-    """Write the drill sheet: a PDF with a page per station at ``path`` and a
-    PNG per station beside it (``<stem>-1.png``, ...). Everything is drawn
-    before anything is written; each file is written atomically. Returns the
-    files written, the PDF first."""
-    from .export import Page, write_pages, write_scene
+    """Write the drill sheet: a PDF with a page per station at ``path``
+    (``X.pdf``) and a folder ``X-stations/`` with a PNG per page, replaced as
+    a whole (see :mod:`shotplan.sheet`). Every page is drawn before anything
+    is written. Returns the files written, the PDF first."""
+    from .sheet import sheet_figures, write_sheet_files
 
-    pdf = check_output_path(path, (".pdf",))
-    pngs = [pdf.with_name(f"{pdf.stem}-{k + 1}.png") for k in range(len(result.stations))]
-    for p in pngs:
-        check_output_path(p, (".png",))
-    pages = []
-    scenes = []
-    n = len(result.stations)
-    for k, r in enumerate(result.stations):
-        title = f"{result.drill.title}: station {k + 1} of {n}, {r.plan.station.name}"
-        scene = station_scene(r, title=title)
-        lines = station_lines(r)
-        pages.append(Page(scene, tuple(lines)))
-        scenes.append(scene.with_title(title, "\n".join(lines)))
-    write_pages(pages, pdf)
-    for scene, p in zip(scenes, pngs, strict=True):
-        write_scene(scene, p, dpi=dpi)
-    return [pdf, *pngs]
+    return write_sheet_files(sheet_figures(result), path, dpi=dpi)
 
 
 # ----------------------------------------------------------------- helpers
+def _attempts(value: Any, where: str) -> int | None:
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, int) or not 1 <= value <= MAX_ATTEMPTS:
+        raise LayoutError(f"{where}: {_show(value)} is not a number of attempts, must be a "
+                          f"whole number from 1 to {MAX_ATTEMPTS}")
+    return value
+
+
 def _text(value: Any, where: str, required: bool = False) -> str:
     if value is None and not required:
         return ""

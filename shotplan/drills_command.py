@@ -228,7 +228,9 @@ def _add_drill(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--seed", type=_int_in(0, 2**63 - 1), default=1, metavar="S",
                    help="random seed: the same seed gives the same numbers (default 1)")
     p.add_argument("-o", "--output", metavar="FILE",
-                   help="write the drill sheet (.pdf), plus a PNG per station beside it")
+                   help="write the drill sheet (.pdf, a page per station with the rates of "
+                        "the starter, club and strong levels) and a folder NAME-stations/ "
+                        "with a PNG per page")
     p.add_argument("--dpi", type=_int_in(20, 2400), default=150,
                    help="pixels per inch of the PNGs (default 150)")
     p.add_argument("--json", action="store_true", help="print JSON")
@@ -255,19 +257,20 @@ def _errors(args: argparse.Namespace) -> Any:
 def _run_drill(args: argparse.Namespace) -> int:
     from pathlib import Path
 
-    from .drills import ProgressBar, load_drill, run_drill, write_sheet
+    from .drills import LEVELS, SHEET_LEVELS, ProgressBar, load_drill, run_drill, write_sheet
+    from .sheet import _check_folder, stations_folder
 
     errors = _errors(args)
     out = None
     if args.output is not None:
         out = check_output_path(args.output, (".pdf",))  # before any work
+        _check_folder(stations_folder(Path(out)))
     drill = load_drill(args.drill)
-    if out is not None:
-        for k in range(len(drill.stations)):
-            check_output_path(Path(out).with_name(f"{out.stem}-{k + 1}.png"), (".png",))
-    bar = ProgressBar(args.trials * len(drill.stations), "planning")
+    compare = [LEVELS[n] for n in SHEET_LEVELS if LEVELS[n] != errors] if out is not None else []
+    bar = ProgressBar(args.trials * len(drill.stations) * (1 + len(compare)), "planning")
     bar(0)
-    result = run_drill(drill, errors, args.trials, args.seed, progress=bar, source=args.drill)
+    result = run_drill(drill, errors, args.trials, args.seed, progress=bar, source=args.drill,
+                       compare=compare)
     written = write_sheet(result, out, dpi=args.dpi) if out is not None else []
     if args.json:
         doc = result.to_dict()
@@ -293,13 +296,18 @@ def _print_drill(result: Any, args: argparse.Namespace) -> None:
         print(f"   {plan.words()}; aim {s.direction_deg:.2f}\u00b0 ({plan.source})")
         if plan.remark:
             print(f"   note: {plan.remark}")
+        if r.miscue_flag:
+            print(f"   ! {r.miscue_words()}")
     rows = [("#", "station", "pocketed", "position", "both", "miscues", "scratches")]
     for k, r in enumerate(result.stations, 1):
         rows.append((str(k), r.plan.station.name, r.pocket.percent(), r.position.percent(),
-                     r.both.percent(), str(r.miscues), str(r.scratches)))
+                     r.both.percent(), str(r.miscues) + (" !" if r.miscue_flag else ""),
+                     str(r.scratches)))
     widths = [max(len(row[i]) for row in rows) for i in range(len(rows[0]))]
     print()
     for row in rows:
         print("  ".join(c.ljust(w) if i < 2 else c.rjust(w)
                         for i, (c, w) in enumerate(zip(row, widths, strict=True))).rstrip())
-    print("rates in % of trials, 95 % Wilson interval in brackets")
+    print("rates in % of trials, 95 % Wilson interval in brackets" +
+          ("; ! more than 2 % of trials miscued" if any(r.miscue_flag for r in result.stations)
+           else ""))

@@ -814,11 +814,18 @@ def _marker(centre: tuple[float, float], r: float, side: float, fill: str, layer
     return PolygonShape(pts, fill=fill, edge="#1b1b1b", line_width_mm=0.6, layer=layer)
 
 
-def zone_shapes(zone: Zone) -> list[Any]:
-    """The zone as scene shapes: a translucent gold area with a solid edge."""
-    from .scene import Layer, polygon_shapes
+def zone_shapes(zone: Zone, style: str = "colour") -> list[Any]:
+    """The zone as scene shapes: a translucent gold area with a solid edge
+    (``print`` style: a pale amber area with a dark dashed edge, which reads
+    on white paper and in greyscale)."""
+    from .scene import Layer, PolylineShape, polygon_shapes
 
     geom = zone.geometry
+    if style == "print":
+        ring = tuple((float(x), float(y)) for x, y in geom.exterior.coords)
+        return (polygon_shapes(geom, fill="#f2c94c", alpha=0.45, layer=Layer.MARKING + 5)
+                + [PolylineShape(ring, colour="#6b4e00", line_width_mm=1.4, dash=True,
+                                 layer=Layer.MARKING + 6)])
     return (polygon_shapes(geom, fill=_ZONE_FILL, alpha=0.28, layer=Layer.MARKING + 5)
             + polygon_shapes(geom, fill=None, edge=_ZONE_FILL, line_width_mm=2.0,
                              layer=Layer.MARKING + 6))

@@ -4,6 +4,7 @@ Monte Carlo runner, the drill sheet, and the ``shotplan drill`` command."""
 from __future__ import annotations
 
 import copy
+import hashlib
 import io
 import json
 import math
@@ -12,6 +13,7 @@ from dataclasses import replace
 from pathlib import Path
 
 import pytest
+from scipy.stats import ncx2
 
 from shotplan.cli import main
 from shotplan.drills import (
@@ -27,7 +29,7 @@ from shotplan.drills import (
     simulate_station,
 )
 from shotplan.equipment import TableSpec
-from shotplan.errors import InputError
+from shotplan.errors import InputError, LayoutError
 from shotplan.layout import Layout, save_layout
 from shotplan.position import Zone
 from shotplan.stroke import Stroke
@@ -314,9 +316,13 @@ def test_drill_command_json_and_sheet(folder, capsys):
     assert doc["stations"][1]["position_means"].startswith("cue ball stays on the table")
     pdf = sheet.read_bytes()
     assert pdf[:5] == b"%PDF-" and len(re.findall(rb"/Type\s*/Page\b", pdf)) == 2
+    pics = folder / "sheet-stations"
     for k in (1, 2):
-        assert (folder / f"sheet-{k}.png").read_bytes()[:4] == b"\x89PNG"
-    assert doc["wrote"] == [str(sheet), str(folder / "sheet-1.png"), str(folder / "sheet-2.png")]
+        assert (pics / f"station-{k}.png").read_bytes()[:4] == b"\x89PNG"
+    assert doc["wrote"] == [str(sheet), str(pics / "station-1.png"), str(pics / "station-2.png")]
+    # the sheet's other levels, run with the same plans and seed
+    assert [c["level"]["name"] for c in doc["compared"]] == ["starter", "strong"]
+    assert all(st["attempts"] == 10 for st in doc["stations"])
     # readable table, custom numbers, same seed same numbers
     code, out, err = run(capsys, "drill", path, "--trials", "300", "--seed", "4",
                          "--aim-sd", "0.15", "--speed-sd", "8", "--tip-sd", "0.04")
@@ -337,3 +343,142 @@ def test_demo_drill_runs_and_finds_zone_settings(capsys):
         assert st["pocket_rate"]["rate"] > 0.3, st["station"]
         assert math.isfinite(st["settings"]["direction_deg"])
         assert "speed (" in st["settings"]["words"]
+
+
+# ------------------------------------------------------ the sheet's files
+def test_sheet_is_one_pdf_and_one_folder_replaced_whole(folder, capsys):
+    # Issue 12 items 2 and 4: an unrelated sheet-1.png must survive, the
+    # pictures live in a folder shotplan marks as its own, and a second run
+    # replaces that folder as a whole (a station fewer: its old picture goes).
+    path = write(folder, BASE)
+    mine = folder / "sheet-1.png"
+    mine.write_bytes(b"my own picture")
+    sheet = folder / "sheet.pdf"
+    code, _out, err = run(capsys, "drill", path, "--trials", "20", "-o", sheet, "--dpi", "30")
+    assert code == 0, err
+    pics = folder / "sheet-stations"
+    assert sorted(p.name for p in pics.iterdir()) == ["station-1.png", "station-2.png",
+                                                      "written-by-shotplan.txt"]
+    marker = (pics / "written-by-shotplan.txt").read_text()
+    assert "written by shotplan" in marker
+    assert hashlib.sha256(sheet.read_bytes()).hexdigest() in marker  # the set's PDF
+    one = copy.deepcopy(BASE)
+    one["stations"] = one["stations"][:1]
+    path = write(folder, one)
+    code, _out, err = run(capsys, "drill", path, "--trials", "20", "-o", sheet, "--dpi", "30")
+    assert code == 0, err
+    assert sorted(p.name for p in pics.iterdir()) == ["station-1.png", "written-by-shotplan.txt"]
+    assert mine.read_bytes() == b"my own picture"
+    # nothing temporary is left beside them
+    assert sorted(p.name for p in folder.iterdir()) == sorted(
+        ["lay.json", "drill.json", "sheet.pdf", "sheet-1.png", "sheet-stations"])
+
+
+def test_a_folder_shotplan_did_not_write_is_never_replaced(folder, capsys):
+    path = write(folder, BASE)
+    pics = folder / "sheet-stations"
+    pics.mkdir()
+    (pics / "holiday.png").write_bytes(b"x")
+    code, out, err = run(capsys, "drill", path, "--trials", "5", "-o", folder / "sheet.pdf")
+    assert code == 2 and out == ""
+    assert "sheet-stations: exists and was not written by shotplan" in err
+    assert len(err.strip().splitlines()) == 1
+    assert sorted(p.name for p in pics.iterdir()) == ["holiday.png"]
+    assert not (folder / "sheet.pdf").exists()
+
+
+def test_stale_temporary_folders_of_ours_are_cleaned(folder, capsys):
+    # A write killed after building its folder leaves ".sheet-stations.*.part"
+    # holding our marker; the next write removes it (and only such folders).
+    path = write(folder, BASE)
+    stale = folder / ".sheet-stations.dead.part"
+    stale.mkdir()
+    (stale / "written-by-shotplan.txt").write_text("x")
+    other = folder / ".sheet-stations.someone-else"
+    other.mkdir()
+    code, _out, err = run(capsys, "drill", path, "--trials", "5", "-o", folder / "sheet.pdf",
+                          "--dpi", "30")
+    assert code == 0, err
+    assert not stale.exists() and other.exists()
+
+
+# ------------------------------------------------------------ security
+def test_messages_about_a_referenced_file_never_show_its_content(folder, capsys):
+    # Issue 12, security: a drill file may name any file. Neither its key
+    # names nor its values may reach the message.
+    secret = folder / "private" / "keys.json"
+    secret.parent.mkdir()
+    secret.write_text(json.dumps({"api_token": "s3cr3t-value-0123456789",
+                                  "owner": "someone@example.org"}))
+    for ref in (str(secret), "private/keys.json", "../" + folder.name + "/private/keys.json"):
+        path = write(folder, station0(layout=ref))
+        code, out, err = run(capsys, "drill", path, "--trials", "5")
+        assert code == 2 and out == ""
+        assert "not a shotplan layout file" in err and "stations[0]: layout:" in err
+        for word in ("api_token", "s3cr3t", "owner", "someone"):
+            assert word not in err, err
+    # a file with the right format but bad fields: still no unknown key names
+    secret.write_text(json.dumps({"format": "shotplan-layout", "version": 1,
+                                  "table": "pool-9ft", "balls": {"cue": [0.5, 0.5]},
+                                  "api_token": "s3cr3t"}))
+    path = write(folder, station0(layout="private/keys.json"))
+    code, _out, err = run(capsys, "drill", path, "--trials", "5")
+    assert code == 2 and "s3cr3t" not in err
+    # bytes that are not UTF-8: the message does not quote them
+    secret.write_bytes(b'{"a": "\xe9\xff"}')
+    code, _out, err = run(capsys, "drill", path, "--trials", "5")
+    assert code == 2 and "not UTF-8 text" in err and "0xe9" not in err and "0xff" not in err
+    # only .json files are read as layouts
+    (folder / "notes.txt").write_text("private")
+    path = write(folder, station0(layout="notes.txt"))
+    code, _out, err = run(capsys, "drill", path, "--trials", "5")
+    assert code == 2 and "must end in .json" in err and "private" not in err
+
+
+# ------------------------------------------------------- attempts, tip safety
+def test_attempts_default_and_override(folder):
+    data = copy.deepcopy(BASE)
+    data["stations"][1]["attempts"] = 15
+    drill = Drill.from_dict(data, "d", folder)
+    assert [drill.attempts_at(s) for s in drill.stations] == [10, 15]  # "ten balls at each"
+    data["attempts"] = 5
+    drill = Drill.from_dict(data, "d", folder)
+    assert [drill.attempts_at(s) for s in drill.stations] == [5, 15]
+    assert Drill.from_dict(drill.to_dict(), "d", folder) == drill
+    for bad in (0, 101, 2.5, True, "10"):
+        data["attempts"] = bad
+        with pytest.raises(LayoutError, match="attempts: .* must be a whole number from 1 to 100"):
+            Drill.from_dict(data, "d", folder)
+
+
+def test_found_settings_stay_inside_the_tip_room():
+    # Issue 11 item 3: the demo's station 2 ("stun" at -0.436 R) and station
+    # 4 (0.49 R) sat at the miscue limit. Club room: 0.5 - 2.5 x 0.04 = 0.4 R.
+    drill = load_drill(DEMO)
+    for st in drill.stations:
+        if st.stroke is not None:
+            continue
+        for level, room in (("club", 0.4), ("starter", 0.35)):
+            plan = plan_station(st, errors=LEVELS[level])
+            s = plan.stroke
+            assert math.hypot(s.side, s.height) <= room + 1e-9, (st.name, level, s)
+
+
+def test_a_station_that_miscues_is_flagged(folder, capsys):
+    # A file's stroke 0.49 R from centre: a club player miscues about 42 % of
+    # the time (exact: scipy.stats.ncx2.sf(12.5**2, 2, 12.25**2) = 0.417).
+    data = station0(stroke={"direction_deg": 29.29, "speed_mps": 2.0, "side": 0.2,
+                            "height": -0.447})
+    path = write(folder, data)
+    code, out, err = run(capsys, "drill", path, "--trials", "400", "--json")
+    assert code == 0, err
+    st = json.loads(out)["stations"][0]
+    assert st["miscue_flag"] is True and st["miscue_rate"] > 0.3
+    assert st["miscue_chance"] == pytest.approx(ncx2.sf(12.5 ** 2, 2, (math.hypot(0.2, 0.447)
+                                                                      / 0.04) ** 2), rel=1e-6)
+    assert "nearer the miscue limit than a club player's tip room" in st["settings"]["remark"]
+    code, out, err = run(capsys, "drill", path, "--trials", "400")
+    assert "! TOO NEAR THE MISCUE LIMIT" in out
+    # the second station (found settings) is not flagged
+    assert json.loads(run(capsys, "drill", path, "--trials", "400", "--json")[1]
+                      )["stations"][1]["miscue_flag"] is False
