@@ -299,17 +299,18 @@ def _draw_rates(fig: Figure, box: tuple[float, float, float, float], size: tuple
     ax = _panel(fig, box, size, f"Expected, {trials} simulated attempts per level")
     bw, bh = ax.get_xlim()[1], ax.get_ylim()[1]
     heads = ["level", "pocketed", "in the zone" if zone else "cue ball up", "both", "miscues"]
-    xs = [bw * f for f in (0.0, 0.15, 0.38, 0.62, 0.85)]
+    xs = [bw * f for f in (0.0, 0.14, 0.36, 0.58, 0.8)]
+    size = _FONT - 1.0
     step = 0.2
     top = bh - 0.02
     for x, h in zip(xs, heads, strict=True):
-        ax.text(x, top, h, fontsize=_FONT - 0.5, fontweight="bold", va="top", color=_INK)
+        ax.text(x, top, h, fontsize=size, fontweight="bold", va="top", color=_INK)
     for i, (e, r) in enumerate(rows, start=1):
         y = top - i * step
         cells = [e.name, _pct(r.pocket), _pct(r.position), _pct(r.both),
                  f"{100 * r.miscue_rate:.1f} %" + (" !" if r.miscue_flag else "")]
         for x, c in zip(xs, cells, strict=True):
-            ax.text(x, y, c, fontsize=_FONT - 0.5, va="top", color=_INK,
+            ax.text(x, y, c, fontsize=size, va="top", color=_INK,
                     fontweight="bold" if c.endswith("!") else "normal")
         ax.plot([0, bw], [y + 0.03, y + 0.03], color=_PALE, lw=0.5)
     ax.text(0, top - (len(rows) + 1) * step, "95 % interval in brackets; ! more than "
@@ -329,7 +330,7 @@ def _draw_tally(fig: Figure, box: tuple[float, float, float, float], size: tuple
     rows = ["pocketed", "in the zone" if zone else "cue ball up"]
     per_row = min(attempts, 10)
     lines = math.ceil(attempts / per_row)
-    label_w = 0.85
+    label_w = 0.8
     gap = 0.1
     cell = min((bw - label_w - 0.5) / per_row, 0.24,
                (bh - 0.05 - gap * len(rows)) / (len(rows) * lines))
@@ -469,9 +470,9 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
     # Rates and tally.
     bottom_key = _MARGIN + 1.05
     rates_h = max(min(top - bottom_key - 0.1, 1.4), 1.0)
-    _draw_rates(fig, (_MARGIN, top - rates_h, usable_w * 0.55, rates_h), size_in, levels,
+    _draw_rates(fig, (_MARGIN, top - rates_h, usable_w * 0.6, rates_h), size_in, levels,
                 st.zone is not None, result.trials)
-    _draw_tally(fig, (_MARGIN + usable_w * 0.58, top - rates_h, usable_w * 0.42, rates_h),
+    _draw_tally(fig, (_MARGIN + usable_w * 0.62, top - rates_h, usable_w * 0.38, rates_h),
                 size_in, attempts, st.zone is not None)
     _draw_key(fig, (_MARGIN, _MARGIN, usable_w, 0.95), size_in, st.zone is not None, own)
     return fig

@@ -12,6 +12,7 @@ import re
 from dataclasses import replace
 from pathlib import Path
 
+import numpy as np
 import pytest
 from scipy.stats import ncx2
 
@@ -482,3 +483,64 @@ def test_a_station_that_miscues_is_flagged(folder, capsys):
     # the second station (found settings) is not flagged
     assert json.loads(run(capsys, "drill", path, "--trials", "400", "--json")[1]
                       )["stations"][1]["miscue_flag"] is False
+
+
+# ------------------------------------------------------ the sheet's panels
+def test_roll_distance_hand_worked():
+    # Hand-worked, centre ball at 1 m/s, mu_s 0.2, mu_r 0.01, g 9.81: the
+    # slip (1 m/s) goes in t = 1 / (3.5 x 0.2 x 9.81) = 0.14562 s over
+    # 0.14562 - 0.5 x 1.962 x 0.14562^2 = 0.12482 m; it then rolls at 5/7 m/s
+    # for (5/7)^2 / (2 x 0.01 x 9.81) = 2.60043 m. Total 2.72525 m.
+    from types import SimpleNamespace
+
+    from shotplan.sheet import roll_distance
+
+    phys = SimpleNamespace(gravity=9.81, cloth_sliding_friction=0.2,
+                           cloth_rolling_resistance=0.01)
+    assert roll_distance(1.0, 0.0, phys) == pytest.approx(2.72525, abs=2e-5)
+    # natural roll (h = 0.4: R w0 = v0) never slides: only the rolling part
+    assert roll_distance(1.0, 0.4, phys) == pytest.approx(1.0 / (2 * 0.01 * 9.81), rel=1e-12)
+
+
+@pytest.mark.parametrize("speed, height", [(0.6, 0.0), (0.7, -0.3), (0.5, 0.3)])
+def test_roll_distance_matches_the_engine(speed, height):
+    # The event engine, an independent implementation of the same cloth
+    # laws, must stop a lone cue ball where the closed form says.
+    from shotplan.physics import simulate
+    from shotplan.sheet import roll_distance
+
+    lay = Layout(TableSpec.preset("pool-9ft"), {"cue": (0.3, 0.635)})
+    out = simulate(lay, Stroke(0.0, speed, 0.0, height))
+    x = out.final["cue"]["x"] if isinstance(out.final["cue"], dict) else out.final["cue"][0]
+    assert x < 2.4  # stopped short of the foot cushion
+    assert x - 0.3 == pytest.approx(roll_distance(speed, height, lay.physics()), rel=1e-4)
+
+
+def test_aim_picture_of_a_thirty_degree_cut(folder):
+    # Trigonometry: sent at the ghost ball of a 30 degree cut, the cue line
+    # passes 2R sin 30 = R from the object ball's centre, a half-ball hit
+    # (fraction 1 - sin 30 = 0.5), touching R/2 from its centre.
+    from shotplan.aim import aim_at
+    from shotplan.sheet import aim_picture, aim_words
+
+    spec = TableSpec.preset("pool-9ft")
+    table = Layout(spec, {"cue": (0.5, 0.5)}).geometry
+    R = table.ball_radius
+    corner = (table.length, table.width)  # towards the foot-left corner
+    ob = (1.9, 0.9)
+    u = np.subtract(corner, ob) / np.hypot(*np.subtract(corner, ob))
+    ghost = np.asarray(ob) - 2 * R * u
+    # the cue ball 0.6 m back from the ghost ball, 30 degrees off the line
+    a = math.atan2(u[1], u[0]) + math.radians(30)
+    cue = (float(ghost[0] - 0.6 * math.cos(a)), float(ghost[1] - 0.6 * math.sin(a)))
+    lay = Layout(spec, {"cue": cue, "1": ob})
+    aim = aim_at(cue, ob, corner, R)
+    assert aim.cut_deg == pytest.approx(30.0, abs=1e-9)
+    st = Station("cut", lay, "1", "foot-left",
+                 stroke=Stroke(aim.direction_deg, 2.0, 0.0, 0.0))
+    pic = aim_picture(plan_station(st))
+    assert pic.fraction == pytest.approx(0.5, abs=1e-9)
+    assert abs(pic.offset_m) == pytest.approx(R, rel=1e-9)
+    words = " ".join(aim_words(pic))
+    assert f"{1000 * R:.0f} mm" in words and f"{500 * R:.0f} mm" in words
+    assert "half ball (ball-hit fraction 0.50)" in words
