@@ -39,7 +39,16 @@ from shotplan.layout import load_layout
 from shotplan.physics import Physics, Simulator
 from shotplan.physics.collide import ball_ball, ball_cushion
 from shotplan.physics.engine import run_events
-from shotplan.physics.state import P_E_C, P_E_C_SLOPE, P_E_J, P_MU_C, P_MU_J, POCKETED
+from shotplan.physics.state import (
+    P_E_C,
+    P_E_C_SLOPE,
+    P_E_J,
+    P_MU_C,
+    P_MU_J,
+    POCKETED,
+    ROLLING,
+    SLIDING,
+)
 from shotplan.stroke import Stroke
 from shotplan.table import Table
 
@@ -198,6 +207,18 @@ def bench_scenario(sc: Scenario, with_numpy: bool) -> dict[str, float]:
           f"{'off early':>10s} {'off at end':>10s} {'fates differ':>13s}")
     print(f"    {'event-based engine':24s} {fmt_time(t_engine):>10s} {'1.0x':>9s} "
           f"{'-':>8s} {'-':>10s} {'-':>10s} {'-':>13s}")
+    # The kernel alone, its arrays allocated once: what the engine costs without
+    # run_raw's Python (the fixed step records no events or trajectories).
+    n = len(sc.ids)
+    vel0 = np.zeros((n, 2))
+    om0 = np.zeros((n, 3))
+    vel0[sc.cue] = ln.velocity
+    om0[sc.cue] = ln.spin
+    max_ev = int(sim.physics.max_events)
+    bufs = kernel_buffers(n, max_ev)
+    t_kernel = best_time(lambda: engine_kernel(sim, sc.pos, vel0, om0, max_ev, bufs))
+    print(f"    {'  its kernel alone':24s} {fmt_time(t_kernel):>10s} "
+          f"{t_kernel / t_engine:8.1f}x")
     ratios: dict[str, float] = {}
     for h in (*STEPS, REFERENCE_STEP):
         fpos, gone, at_check, gone_early, steps = fixed_run(sc, h, t_check)
@@ -321,6 +342,71 @@ class NumpyFixedStep:
         return pos, live, steps
 
 
+def random_shots(count: int, seed: int = 5) -> list[Scenario]:
+    """``count`` shots of our own: 2 to 4 balls anywhere on a 9-ft table (at
+    least 1 mm apart), the cue ball struck in any direction at 0.5-5 m/s with
+    the tip up to 0.3 R off centre each way."""
+    table = Table(TableSpec.preset("pool-9ft"))
+    sim = Simulator(table, Physics())
+    R = table.ball_radius
+    rng = np.random.default_rng(seed)
+    out = []
+    for _ in range(count):
+        n = int(rng.integers(2, 5))
+        while True:
+            pos = np.column_stack([rng.uniform(0.1, table.length - 0.1, n),
+                                   rng.uniform(0.1, table.width - 0.1, n)])
+            d = np.hypot(pos[:, None, 0] - pos[None, :, 0], pos[:, None, 1] - pos[None, :, 1])
+            d[np.diag_indices(n)] = np.inf
+            if d.min() > 2 * R + 1e-3:
+                break
+        stroke = Stroke(rng.uniform(-180, 180), rng.uniform(0.5, 5.0), rng.uniform(-0.3, 0.3),
+                        rng.uniform(-0.3, 0.3))
+        ids = ["cue"] + [str(k) for k in range(1, n)]
+        out.append(Scenario("random", sim, ids, pos, stroke))
+    return out
+
+
+def bench_random_shots(count: int = 60) -> None:
+    """Speed and accuracy over many ordinary shots: the whole set timed, and
+    the spread of the fixed step's finish errors."""
+    shots = random_shots(count)
+    finals = []
+    for sc in shots:
+        out = sc.sim.run(sc.ids, sc.pos, sc.stroke)
+        gone = np.array([out.final[b]["state"] == "pocketed" for b in sc.ids])
+        finals.append((out.final_positions(), gone))
+    launches = [sc.sim.launch(sc.stroke) for sc in shots]
+
+    def engine_all() -> None:
+        for sc, ln in zip(shots, launches, strict=True):
+            sc.sim.run_raw(sc.pos, sc.cue, ln.velocity, ln.spin)
+
+    t_engine = best_time(engine_all, budget=0.5, rounds=3)
+    print(f"\n  {count} random shots of our own (2-4 balls anywhere, any direction, 0.5-5 m/s, "
+          "tip up to 0.3 R off centre):")
+    print(f"    {'integrator':24s} {'time/shot':>10s} {'x engine':>9s} "
+          f"{'off at end: median':>19s} {'90 %':>9s} {'max':>9s} {'shots, fates differ':>20s}")
+    print(f"    {'event-based engine':24s} {fmt_time(t_engine / count):>10s} {'1.0x':>9s}")
+    for h in (*STEPS, REFERENCE_STEP):
+        errs = []
+        differ = 0
+        for sc, (exact, engine_gone) in zip(shots, finals, strict=True):
+            fpos, gone, *_ = fixed_run(sc, h, 0.0)
+            both = ~gone & ~engine_gone
+            errs.append(off_mm(fpos, exact, both) if both.any() else 0.0)
+            differ += int((gone != engine_gone).any())
+        if h == REFERENCE_STEP:
+            tcol, rcol = "(not timed)", ""
+        else:
+            t_fixed = best_time(lambda h=h: [fixed_run(sc, h, 0.0) for sc in shots],
+                                budget=0.5, rounds=3)
+            tcol, rcol = fmt_time(t_fixed / count), f"{t_fixed / t_engine:.1f}x"
+        q50, q90 = np.percentile(errs, [50, 90])
+        print(f"    {f'fixed {h * 1e3:g} ms (numba)':24s} {tcol:>10s} {rcol:>9s} "
+              f"{fmt_mm(q50):>19s} {fmt_mm(q90):>9s} {fmt_mm(max(errs)):>9s} {differ:20d}")
+
+
 def scattered_balls(n: int, rng: np.random.Generator, table: Table) -> tuple[np.ndarray, ...]:
     """n balls on a jittered grid over the table, each sliding off at 1-3 m/s
     in a random direction with no spin (our own scenario)."""
@@ -339,49 +425,75 @@ def scattered_balls(n: int, rng: np.random.Generator, table: Table) -> tuple[np.
     return pos, vel, np.zeros((n, 3))
 
 
-def engine_kernel(sim: Simulator, pos: np.ndarray, vel: np.ndarray, om: np.ndarray,
-                  max_ev: int) -> int:
-    """The engine's kernel on arbitrary starting velocities (as run_raw
-    allocates it); returns the number of events."""
-    n = len(pos)
+def kernel_buffers(n: int, max_ev: int) -> tuple[np.ndarray, ...]:
+    """The event and segment arrays of the engine's kernel, as run_raw
+    allocates them."""
     max_seg = 2 * max_ev + n
     i64 = np.int64
-    res = run_events(
-        pos.copy(), vel.copy(), om.copy(), np.zeros(n, dtype=i64), sim.prm, sim.lines,
-        sim.circles, sim.drops, max_ev,
-        np.zeros(max_ev), np.zeros(max_ev, dtype=i64), np.zeros(max_ev, dtype=i64),
-        np.zeros(max_ev, dtype=i64), np.zeros(max_ev, dtype=i64), np.zeros(max_ev, dtype=i64),
-        np.zeros(max_ev, dtype=i64),
-        np.zeros(max_seg), np.zeros(max_seg, dtype=i64), np.zeros(max_seg, dtype=i64),
-        np.zeros((max_seg, 2)), np.zeros((max_seg, 2)), np.zeros((max_seg, 3)),
-    )
+    return (np.zeros(max_ev), *(np.zeros(max_ev, dtype=i64) for _ in range(6)),
+            np.zeros(max_seg), np.zeros(max_seg, dtype=i64), np.zeros(max_seg, dtype=i64),
+            np.zeros((max_seg, 2)), np.zeros((max_seg, 2)), np.zeros((max_seg, 3)))
+
+
+def engine_kernel(sim: Simulator, pos: np.ndarray, vel: np.ndarray, om: np.ndarray,
+                  max_ev: int, buffers: tuple[np.ndarray, ...] | None = None,
+                  states: np.ndarray | None = None) -> int:
+    """The engine's kernel on arbitrary starting velocities; returns the
+    number of events. Without ``buffers`` it allocates them as run_raw does;
+    ``states`` (zeros) receives each ball's motion state when the run stops."""
+    n = len(pos)
+    bufs = buffers if buffers is not None else kernel_buffers(n, max_ev)
+    st = states if states is not None else np.zeros(n, dtype=np.int64)
+    res = run_events(pos.copy(), vel.copy(), om.copy(), st, sim.prm,
+                     sim.lines, sim.circles, sim.drops, max_ev, *bufs)
     return int(res[0])
 
 
 def bench_scaling() -> float:
     """Cost per event against the number of moving balls; prints a table and
-    the exponent of a log-log least-squares fit. Returns the exponent."""
-    table = Table(TableSpec.preset("pool-9ft"))
+    the exponent of a log-log least-squares fit. Returns the exponent. Beside
+    it, the compiled 1 ms fixed step over the same stretch of play."""
+    table = Table(TableSpec.preset("carom"))  # no pockets: every ball stays in play
     sim = Simulator(table, Physics())
-    print("\n  engine cost per event against moving balls (n balls sliding off at once in random "
-          "directions,\n  the first 10 n events of each run timed, while nearly all still move; "
-          "5 layouts each)")
-    print(f"    {'balls':>5s} {'events':>7s} {'per event':>10s} {'per event / n':>14s}")
+    grid = element_grid(sim.lines, sim.circles, sim.drops, table.contact_offset)
+    print("\n  engine cost per event against moving balls: n balls on a carom table (no pockets) "
+          "sliding off at once\n  in random directions, the first 5 n events of each run timed "
+          "(5 layouts each; 'moving': balls still\n  moving after them, on average); beside it "
+          "the fixed 1 ms step over the same stretch of play")
+    print(f"    {'balls':>5s} {'moving':>7s} {'events':>7s} {'play':>8s} {'per event':>10s} "
+          f"{'per event / n':>14s} {'fixed 1 ms':>11s} {'x engine':>9s}")
     ns = [2, 4, 8, 16, 32]
     cost = []
     for n in ns:
         rng = np.random.default_rng(1000 + n)
         runs = [scattered_balls(n, rng, table) for _ in range(5)]
-        max_ev = 10 * n
-        events = sum(engine_kernel(sim, *r, max_ev) for r in runs)
+        max_ev = 5 * n
+        bufs = [kernel_buffers(n, max_ev) for _ in runs]
+        events = []
+        moving = 0
+        for r, b in zip(runs, bufs, strict=True):
+            st = np.zeros(n, dtype=np.int64)
+            events.append(engine_kernel(sim, *r, max_ev, b, st))
+            moving += int(np.isin(st, (SLIDING, ROLLING)).sum())
+        play = [float(b[0][k - 1]) for b, k in zip(bufs, events, strict=True)]
 
-        def all_runs(runs=runs, max_ev=max_ev) -> None:
-            for r in runs:
-                engine_kernel(sim, *r, max_ev)
+        def engine_runs(runs=runs, max_ev=max_ev, bufs=bufs) -> None:
+            for r, b in zip(runs, bufs, strict=True):
+                engine_kernel(sim, *r, max_ev, b)  # (states start from zeros each time)
 
-        per_event = best_time(all_runs, budget=0.3) / events
+        def fixed_runs(runs=runs, play=play, n=n) -> None:
+            for (pos, vel, om), t_play in zip(runs, play, strict=True):
+                run_fixed(pos.copy(), vel.copy(), om.copy(), np.zeros(n, dtype=np.int64),
+                          sim.prm, sim.lines, sim.circles, sim.drops, *grid, 1e-3, t_play,
+                          math.inf, np.zeros((n, 2)), np.zeros(n, dtype=np.int64))
+
+        t_engine = best_time(engine_runs, budget=0.3)
+        t_fixed = best_time(fixed_runs, budget=0.3)
+        per_event = t_engine / sum(events)
         cost.append(per_event)
-        print(f"    {n:5d} {events:7d} {fmt_time(per_event):>10s} {fmt_time(per_event / n):>14s}")
+        print(f"    {n:5d} {moving / len(runs):7.1f} {sum(events):7d} {sum(play) / len(play):6.3f} s "
+              f"{fmt_time(per_event):>10s} {fmt_time(per_event / n):>14s} "
+              f"{fmt_time(t_fixed / len(runs)):>11s} {t_fixed / t_engine:8.1f}x")
     slope, _ = np.polyfit(np.log(ns), np.log(cost), 1)
     print(f"    fitted exponent (least squares on log cost against log n): cost per event "
           f"~ n^{slope:.2f}")
@@ -445,6 +557,7 @@ def main() -> None:
         print(f"    {name:30s}" + "".join(f"{r.get(c, math.nan):13.1f}x" for c in cols))
     print("  (a break is chaotic: a fixed step's small errors at the first impacts grow into a "
           "different break,\n  so its finish is no measure of accuracy; 'off early' is)")
+    bench_random_shots()
     bench_scaling()
     plain_python_line(engine_cut)
 
