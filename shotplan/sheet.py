@@ -300,17 +300,17 @@ def _draw_rates(fig: Figure, box: tuple[float, float, float, float], size: tuple
     bw, bh = ax.get_xlim()[1], ax.get_ylim()[1]
     heads = ["level", "pocketed", "in the zone" if zone else "cue ball up", "both", "miscues"]
     xs = [bw * f for f in (0.0, 0.14, 0.36, 0.58, 0.8)]
-    size = _FONT - 1.0
+    font = _FONT - 1.0
     step = 0.2
     top = bh - 0.02
     for x, h in zip(xs, heads, strict=True):
-        ax.text(x, top, h, fontsize=size, fontweight="bold", va="top", color=_INK)
+        ax.text(x, top, h, fontsize=font, fontweight="bold", va="top", color=_INK)
     for i, (e, r) in enumerate(rows, start=1):
         y = top - i * step
         cells = [e.name, _pct(r.pocket), _pct(r.position), _pct(r.both),
                  f"{100 * r.miscue_rate:.1f} %" + (" !" if r.miscue_flag else "")]
         for x, c in zip(xs, cells, strict=True):
-            ax.text(x, y, c, fontsize=size, va="top", color=_INK,
+            ax.text(x, y, c, fontsize=font, va="top", color=_INK,
                     fontweight="bold" if c.endswith("!") else "normal")
         ax.plot([0, bw], [y + 0.03, y + 0.03], color=_PALE, lw=0.5)
     ax.text(0, top - (len(rows) + 1) * step, "95 % interval in brackets; ! more than "
