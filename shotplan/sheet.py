@@ -117,11 +117,12 @@ class AimPicture:
     """The aim of a station as the player sees it from behind the cue ball."""
 
     __slots__ = ("ball", "kind", "offset_m", "fraction", "radius", "rail", "rail_point",
-                 "diamond", "rail_ball")
+                 "diamond", "rail_ball", "counted_from", "sights")
 
     def __init__(self, ball: str, kind: str, offset_m: float, radius: float,
                  rail: str = "", rail_point: tuple[float, float] | None = None,
-                 diamond: float = math.nan, rail_ball: str = ""):
+                 diamond: float = math.nan, rail_ball: str = "", counted_from: str = "",
+                 sights: int = 8):
         self.ball = ball
         """The first object ball."""
         self.kind = kind
@@ -141,6 +142,10 @@ class AimPicture:
         """That point in diamonds along the rail."""
         self.rail_ball = rail_ball
         """The ball sent at the rail (``cue`` for a kick)."""
+        self.counted_from = counted_from
+        """The rail the diamonds are counted from."""
+        self.sights = sights
+        """Diamonds along that rail (8 on a long rail, 4 on a short one)."""
 
 
 def _rail_words(table: Any, point: tuple[float, float]) -> tuple[str, float, str]:
@@ -189,8 +194,10 @@ def aim_picture(plan: Any) -> AimPicture:
         for e in plan.outcome.events:
             if e.kind.name == "CUSHION" and e.balls[0] == rail_ball:
                 pt = (e.states[0].x, e.states[0].y)
-                rail, diamond, _ = _rail_words(table, pt)
-                pic = AimPicture(first, kind, offset, R, rail, pt, diamond, rail_ball)
+                rail, diamond, start = _rail_words(table, pt)
+                sights = 4 if rail in ("head rail", "foot rail") else 8
+                pic = AimPicture(first, kind, offset, R, rail, pt, diamond, rail_ball, start,
+                                 sights)
                 break
     return pic
 
@@ -201,6 +208,10 @@ def aim_words(pic: AimPicture) -> list[str]:
 
     mm = 1000.0 * abs(pic.offset_m)
     side = "right" if pic.offset_m > 0 else "left"
+    if pic.kind == "kick" and pic.rail:
+        return [f"Aim: send the cue ball at the {pic.rail}, diamond {pic.diamond:.1f} counted "
+                f"from {pic.counted_from} (its centre meets the cushion there); it comes "
+                f"off onto the {pic.ball}."]
     if mm < 0.5:
         out = [f"Aim: full ball, straight through the centre of the {pic.ball}."]
     else:
@@ -210,8 +221,8 @@ def aim_words(pic: AimPicture) -> list[str]:
                "of centre on the side facing you."]
     if pic.rail and pic.rail_point is not None:
         who = "the cue ball" if pic.rail_ball == "cue" else f"the {pic.rail_ball}"
-        out.append(f"{who.capitalize()} meets the {pic.rail} at diamond {pic.diamond:.1f}: "
-                   "aim it at that sight.")
+        out.append(f"{who.capitalize()} meets the {pic.rail} at diamond {pic.diamond:.1f}, "
+                   f"counted from {pic.counted_from}.")
     return out
 
 
@@ -231,8 +242,28 @@ def _panel(fig: Figure, box: tuple[float, float, float, float], size: tuple[floa
     return ax
 
 
+def _draw_rail(ax: Axes, pic: AimPicture) -> None:
+    """A kick's aim: the rail with its diamonds and the one to aim at."""
+    n = pic.sights
+    ax.set_xlim(-0.6, n + 0.6)
+    ax.set_ylim(-2.2, 1.6)
+    ax.add_patch(patches.Rectangle((0, 0.2), n, 0.35, facecolor=_PALE, edgecolor=_INK, lw=0.8))
+    for k in range(n + 1):
+        ax.plot([k], [0.72], marker="D", color=_INK, markersize=3)
+        ax.text(k, 0.95, str(k), ha="center", va="bottom", fontsize=6.5, color=_INK)
+    ax.annotate("", xy=(pic.diamond, 0.15), xytext=(pic.diamond - 0.8, -1.5),
+                arrowprops={"arrowstyle": "-|>", "color": _INK, "lw": 1.0})
+    ax.text(pic.diamond - 0.8, -1.6, "cue ball", ha="center", va="top", fontsize=7,
+            color=_INK)
+    ax.text(n / 2, -2.15, f"{pic.rail}, from {pic.counted_from}", ha="center",
+            va="bottom", fontsize=6.5, color=_INK)
+
+
 def _draw_aim(ax: Axes, pic: AimPicture) -> None:
     """The object ball face-on, the ghost ball over it, the aim and contact."""
+    if pic.kind == "kick" and pic.rail:
+        _draw_rail(ax, pic)
+        return
     R = 1.0
     d = pic.offset_m / pic.radius  # in radii
     ax.set_xlim(-3.2, 3.2)
@@ -446,8 +477,9 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
     pw = (usable_w - 0.4) / 3
     ph = 1.75
     pic = aim_picture(plan)
-    _draw_aim(_panel(fig, (_MARGIN, top - ph, pw, ph), size_in,
-                     f"Aim at the {pic.ball}, as you see it"), pic)
+    aim_title = (f"Aim at the {pic.rail}" if pic.kind == "kick" and pic.rail
+                 else f"Aim at the {pic.ball}, as you see it")
+    _draw_aim(_panel(fig, (_MARGIN, top - ph, pw, ph), size_in, aim_title), pic)
     _draw_tip(_panel(fig, (_MARGIN + pw + 0.2, top - ph, pw, ph), size_in,
                      "Tip on the cue ball"), s.side, s.height, phys.miscue_limit,
               [e for e, _ in levels], own)

@@ -544,3 +544,23 @@ def test_aim_picture_of_a_thirty_degree_cut(folder):
     words = " ".join(aim_words(pic))
     assert f"{1000 * R:.0f} mm" in words and f"{500 * R:.0f} mm" in words
     assert "half ball (ball-hit fraction 0.50)" in words
+
+
+def test_a_kick_is_aimed_at_a_diamond():
+    # A long rail has eight diamonds from corner to corner (common practice,
+    # no source): the sight to aim at is where the cue ball's centre meets
+    # the right rail, x / (L / 8) from the head rail.
+    from shotplan.layout import load_layout
+    from shotplan.sheet import aim_picture, aim_words
+
+    lay = load_layout(LAYOUTS / "club-night-3-bank-practice.json")
+    plan = plan_station(Station("kick", lay, "3", "side-left"))
+    pic = aim_picture(plan)
+    assert plan.shot.kind == "kick" and pic.kind == "kick" and pic.rail == "right rail"
+    hit = next(e for e in plan.outcome.events
+               if e.kind.name == "CUSHION" and e.balls[0] == "cue")
+    assert hit.states[0].y < 0.1  # the right rail is y = 0
+    assert pic.diamond == pytest.approx(hit.states[0].x / (lay.geometry.length / 8), abs=1e-9)
+    assert 0.0 < pic.diamond < 8.0
+    assert f"right rail, diamond {pic.diamond:.1f} counted from the head rail" in \
+        " ".join(aim_words(pic))
