@@ -564,3 +564,36 @@ def test_a_kick_is_aimed_at_a_diamond():
     assert 0.0 < pic.diamond < 8.0
     assert f"right rail, diamond {pic.diamond:.1f} counted from the head rail" in \
         " ".join(aim_words(pic))
+
+
+def test_a_killed_sheet_write_leaves_a_whole_folder_or_none(folder):
+    # Issue 12 item 4: kill the writer at moments spread over a run; the
+    # stations folder is then either absent or whole (marker and every
+    # picture), and the next run leaves nothing temporary behind.
+    import os
+    import signal
+    import subprocess
+    import sys
+    import time
+
+    path = write(folder, BASE)
+    sheet = folder / "sheet.pdf"
+    argv = [sys.executable, "-m", "shotplan", "drill", str(path), "--trials", "5",
+            "--dpi", "40", "-o", str(sheet)]
+    t0 = time.perf_counter()
+    subprocess.run(argv, check=True, capture_output=True)
+    whole = time.perf_counter() - t0
+    pics = folder / "sheet-stations"
+    for frac in (0.5, 0.8, 0.9, 0.97):
+        proc = subprocess.Popen(argv, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+        time.sleep(frac * whole)
+        proc.send_signal(signal.SIGKILL)
+        proc.wait()
+        if pics.exists():
+            names = sorted(p.name for p in pics.iterdir())
+            assert names == ["station-1.png", "station-2.png", "written-by-shotplan.txt"]
+    subprocess.run(argv, check=True, capture_output=True)
+    # (the PDF's own temporary file is shotplan.fileio's business)
+    left = [p.name for p in folder.iterdir() if p.name.startswith(".sheet-stations")]
+    assert left == [], left
+    assert os.path.getsize(sheet) > 0
