@@ -19,8 +19,8 @@ from typing import Any, NoReturn
 
 from . import __version__
 from .equipment import PRESETS, TableSpec
-from .errors import InputError, ShotplanError
-from .fileio import check_output_path
+from .errors import InputError, ShotplanError, Terminated, show_path
+from .fileio import FORCE_HELP, check_output_path, handle_termination, set_force
 from .jsonout import NonFiniteError
 from .jsonout import emit as emit_json
 from .layout import load_layout
@@ -59,7 +59,7 @@ _emit_json = emit_json
 
 
 def _os_message(error: OSError) -> str:
-    where = error.filename if error.filename is not None else ""
+    where = show_path(error.filename) if error.filename is not None else ""
     what = error.strerror or str(error)
     return f"{where}: {what}" if where else what
 
@@ -172,15 +172,23 @@ def _add_search_options(p: argparse.ArgumentParser) -> None:
                    help="cue elevation for every shot, degrees (default 0)")
     p.add_argument("--allow-scratch", action="store_true",
                    help="keep shots where the cue ball falls too (flagged)")
+    p.add_argument("--level", metavar="NAME",
+                   help="player level whose tip error sets how far from the miscue limit the "
+                        "chosen stun and draw heights stay: starter, club, strong or elite "
+                        "(default club)")
 
 
 def _search(args: argparse.Namespace, layout: Any) -> Any:
     from .search import find_shots
 
+    from .players import PlayerErrors
+
     kinds = [k.strip() for k in args.kinds.split(",") if k.strip()]
+    player = PlayerErrors.level(args.level) if args.level is not None else None
     return find_shots(layout, balls=args.ball, pockets=args.pocket, kinds=kinds,
                       speed=args.speed, tip=args.tip, side=args.side,
-                      elevation_deg=args.elevation, allow_scratch=args.allow_scratch)
+                      elevation_deg=args.elevation, allow_scratch=args.allow_scratch,
+                      player=player)
 
 
 def _playable(layout: Any, name: str) -> None:
@@ -306,7 +314,7 @@ def _run_simulate(args: argparse.Namespace) -> int:
             place = where_words(fin["x"], fin["y"], layout.table.length_m, layout.table.width_m)
             print(f"  {bid:>6}  {place}{moved}")
     if not outcome.complete:
-        print("  (stopped at the event limit before every ball was still)")
+        print(f"  not complete: {outcome.reason}")
     return EXIT_OK
 
 
@@ -342,7 +350,7 @@ def _run_plan(args: argparse.Namespace) -> int:
     length, width = layout.table.length_m, layout.table.width_m
     if shots:
         print(f"{'#':>3} {'kind':<11} {'balls':<7} {'pocket':<11} {'cut':>6} {'aim':>8} "
-              f"{'window':>7} {'mm':>4}  {'speed':<14} {'tip':<6} {'cue ball ends (m; diamonds)':<29} "
+              f"{'window':>7} {'mm':>4}  {'speed':<14} {'tip (R)':<12} {'cue ball ends (m; diamonds)':<29} "
               "route")
     for k, s in enumerate(shots, 1):
         if s.cue_finish is None:
@@ -354,7 +362,8 @@ def _run_plan(args: argparse.Namespace) -> int:
         print(f"{k:>3} {s.kind:<11} {'-'.join(s.balls):<7} {s.pocket:<11} "
               f"{s.cut_angle_deg:5.1f}\u00b0 {s.direction_deg:7.2f}\u00b0 "
               f"{s.window_deg:6.2f}\u00b0 {s.window_mm:4.0f}  "
-              f"{s.speed_mps:4.2f} {speed_word(s.speed_mps):<9} {s.tip:<6} {finish:<29} {s.route()}")
+              f"{s.speed_mps:4.2f} {speed_word(s.speed_mps):<9} {s.tip + f' {s.height:+.2f}':<12} "
+              f"{finish:<29} {s.route()}")
     if args.explain and result.rejected:
         print("rejected:")
         for r in result.rejected:
@@ -408,7 +417,23 @@ def build_parser() -> argparse.ArgumentParser:
     for add in _SUBCOMMANDS:
         add(sub)
     _add_module_commands(sub)
+    _add_force_options(parser)
     return parser
+
+
+_OUTPUT_OPTIONS = frozenset({"-o", "--output", "--csv", "--plot", "--screenshot"})
+"""Options that name a file a command writes: every parser with one of them
+gets ``--force`` (see :func:`shotplan.fileio.set_force`)."""
+
+
+def _add_force_options(parser: argparse.ArgumentParser) -> None:
+    for action in parser._actions:
+        if isinstance(action, argparse._SubParsersAction):
+            for child in dict.fromkeys(action.choices.values()):
+                _add_force_options(child)
+    writes = any(set(a.option_strings) & _OUTPUT_OPTIONS for a in parser._actions)
+    if writes and "--force" not in parser._option_string_actions:
+        parser.add_argument("--force", action="store_true", help=FORCE_HELP)
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -424,8 +449,10 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_ERROR
     except SystemExit as e:  # --help and --version end here
         return e.code if isinstance(e.code, int) else EXIT_OK
+    set_force(bool(getattr(args, "force", False)))
     try:
-        return args.run(args)
+        with handle_termination():
+            return args.run(args)
     except BrokenPipeError:
         # The reader went away (``| head``): stop quietly, and keep Python
         # from complaining again when it flushes stdout at exit.
@@ -437,6 +464,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     except OSError as e:
         _error_line(_os_message(e))
         return EXIT_ERROR
+    except Terminated as e:
+        return 128 + e.signum
     except KeyboardInterrupt:
         return 130
     except NonFiniteError as e:

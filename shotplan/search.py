@@ -34,6 +34,7 @@ from .aim import aim_at, contact_fraction, direction_deg, mirror_point
 from .errors import InputError
 from .physics import Physics, Simulator, simulator_for
 from .physics.state import EV_COLLISION, EV_CUSHION, EV_JAW, EV_POCKET, EV_ROLLING
+from .players import DEFAULT_LEVEL, PlayerErrors, level_tip_room, safe_height
 from .stroke import Stroke, speed_word
 from .table import Table
 
@@ -614,6 +615,7 @@ def find_shots(
     allow_scratch: bool = False,
     max_cut_deg: float = MAX_CUT_DEG,
     physics: Physics | None = None,
+    player: PlayerErrors | None = None,
 ) -> SearchResult:
     """Every shot on the layout that pockets a ball, best first.
 
@@ -635,6 +637,10 @@ def find_shots(
         Cue elevation for every shot, degrees.
     allow_scratch
         Keep shots that pocket the cue ball too (flagged ``scratch``).
+    player
+        The player's errors: the heights the search chooses keep the tip
+        inside this player's tip room (:func:`shotplan.players.tip_room`);
+        default the club level.
     """
     t_start = time.perf_counter()
     for k in kinds:
@@ -652,6 +658,18 @@ def find_shots(
     if height is not None and math.hypot(side, height) > limit:
         raise InputError(f"tip offset side {side!r}, height {height!r} is beyond the miscue "
                          f"limit {limit:g} ball radii")
+    # The heights the search chooses itself (stun, draw) keep the tip inside
+    # the player's tip room: 2.5 sd of the tip error inside the miscue limit
+    # (shotplan.players). A height given outright is the caller's choice.
+    room = level_tip_room(limit, player)
+    level = player.describe() if player is not None else f"a {DEFAULT_LEVEL} player"
+    if height is None and room < 0.0:
+        raise InputError(f"no tip setting keeps {level} clear of the miscue limit "
+                         f"{limit:g} R; give a smaller tip error or --height")
+    if height is None and abs(side) > room:
+        raise InputError(f"side {side!r} leaves {level} no room: the tip must stay within "
+                         f"{room:.3f} R of centre (the miscue limit {limit:g} R less 2.5 "
+                         "standard deviations of the tip error); give a smaller side")
     sim = simulator_for(layout.table, phys)
     table = sim.table
     positions = layout.positions()
@@ -819,7 +837,7 @@ def find_shots(
 
     shots: list[Shot] = []
     for cand in cands:
-        shot, why = _evaluate(ctx, table, cand, speed, tip, side, allow_scratch, height)
+        shot, why = _evaluate(ctx, table, cand, speed, tip, side, allow_scratch, height, room)
         if shot is None:
             reject(cand.kind, cand.balls, cand.pocket, cand.rails, why)
         else:
@@ -828,11 +846,13 @@ def find_shots(
     if top is not None:
         shots = shots[:top]
     return SearchResult(tuple(shots), tuple(rejected), ctx.count, time.perf_counter() - t_start,
-                        {"tip": tip, "side": side, "speed": speed, "kinds": list(kinds)})
+                        {"tip": tip, "side": side, "speed": speed, "kinds": list(kinds),
+                         "tip_room": room})
 
 
 def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None, tip: str,
-              side: float, allow_scratch: bool, height: float | None = None
+              side: float, allow_scratch: bool, height: float | None = None,
+              room: float = math.inf
               ) -> tuple[Shot | None, str]:
     phys = ctx.sim.physics
     cue = ctx.cue
@@ -849,10 +869,10 @@ def _evaluate(ctx: _Context, table: Table, cand: _Candidate, speed: float | None
     found = None
     for v in speeds:
         h = height if height is not None else tip_height(tip, v, max(cand.cue_distance, 0.0), phys)
-        # With side on the tip, keep the whole offset inside the miscue limit.
-        room = math.sqrt(max((0.95 * phys.miscue_limit) ** 2 - side * side, 0.0))
+        # With side on the tip, keep the whole offset inside the tip room.
         if height is None:
-            h = max(min(h, room), -room)
+            safe = safe_height(h, side, room)
+            h = safe if safe is not None else 0.0
         phi, e0 = _refine(ctx, err, phi_ghost, v, side, h)
         if phi is None:
             # The aim could not be made to work at this speed: say what the

@@ -261,3 +261,37 @@ def test_aim_corrects_for_squirt(side):
 def test_side_beyond_the_miscue_limit_is_refused():
     with pytest.raises(InputError, match="miscue limit"):
         find_shots(straight_in(0.5, 0.5), side=0.51)
+
+
+@pytest.mark.parametrize("tip", ["stun", "draw"])
+def test_chosen_heights_keep_the_club_tip_room(tip):
+    # Hand-worked: the club level's tip error is 0.04 R (sd), so the tip
+    # room is 0.5 - 2.5 * 0.04 = 0.40 R; no height the search chooses itself
+    # may go beyond it, with or without side.
+    from pathlib import Path
+
+    from shotplan.layout import load_layout
+
+    root = Path(__file__).resolve().parents[1] / "assets" / "layouts"
+    for name in ("club-night-1-straight-in", "club-night-2-cut-to-corner"):
+        lay = load_layout(root / f"{name}.json")
+        for side in (0.0, 0.3):
+            res = find_shots(lay, tip=tip, side=side, kinds=["direct"])
+            assert res.shots
+            for s in res.shots:
+                assert math.hypot(s.side, s.height) <= 0.40 + 1e-9
+
+
+def test_a_side_beyond_the_tip_room_is_refused():
+    from pathlib import Path
+
+    from shotplan.errors import InputError
+    from shotplan.layout import load_layout
+    from shotplan.players import PlayerErrors
+
+    lay = load_layout(Path(__file__).resolve().parents[1] / "assets" / "layouts"
+                      / "club-night-2-cut-to-corner.json")
+    with pytest.raises(InputError, match="no room"):
+        find_shots(lay, side=0.45)
+    # an elite player's room (0.5 - 2.5 * 0.015 = 0.4625 R) has space for it
+    assert find_shots(lay, side=0.45, kinds=["direct"], player=PlayerErrors.level("elite")).shots
