@@ -47,6 +47,10 @@ __all__ = [
     "POOL_BALL_IDS",
     "SNOOKER_BALL_IDS",
     "CAROM_BALL_IDS",
+    "drop_width_m",
+    "effective_tip_radius_m",
+    "jaw_face_length_m",
+    "tip_tangent_m",
 ]
 
 
@@ -259,9 +263,111 @@ class TableSpec:
                     f"{where}.{key}: {value!r} is out of range, must be between {lo} and {hi}"
                 )
             spec = spec._set(key, value, where)
-        return dataclasses.replace(
+        spec = dataclasses.replace(
             spec, overrides=self.overrides + tuple((k, float(v)) for k, v in values.items())
         )
+        faults = spec.problems()
+        if faults:
+            more = f" (and {len(faults) - 1} more)" if len(faults) > 1 else ""
+            raise LayoutError(f"{where}.{faults[0]}{more}")
+        return spec
+
+    def problems(self) -> list[str]:
+        """What makes the table's values contradict each other, one line each,
+        each starting with the field to change (``corner_mouth_m: ...``);
+        empty for a table that can be built and played. Checked on every
+        override (:meth:`with_overrides`); the presets pass.
+
+        * the cushion nose stands between the ball's centre and its top
+          (the nose meets the ball above its equator; WPA puts it at
+          62.5-64.5 % of the ball's diameter);
+        * a pocket's mouth is wider than a ball, and its jaw faces, closing
+          at the jaw angle, are still a ball wide at the drop line;
+        * every cushion keeps at least a ball's width of nose between its
+          pockets' rounded jaws (the mouths are narrower than the table);
+        * a jaw tip radius that was measured (overridden) fits on its jaw
+          face: ``radius / tan(jaw angle / 2)`` no longer than the face down
+          to the drop line. The presets' tip radii are typical values from
+          memory; on a shallow shelf they shrink to fit (see
+          :mod:`shotplan.table`);
+        * every named spot and line lies on the playing surface.
+        """
+        out: list[str] = []
+        given = {k for k, _ in self.overrides}
+        D = self.ball.diameter_m
+        R = 0.5 * D
+        h = self.cushion.nose_height_m
+        if not R <= h < D:
+            key = "cushion_nose_height_m" if ("ball_diameter_m" not in given
+                                              or "cushion_nose_height_m" in given) \
+                else "ball_diameter_m"
+            out.append(f"{key}: a cushion nose {_mm(h)} mm high is not between the centre "
+                       f"({_mm(R)} mm) and the top ({_mm(D)} mm) of a {_mm(D)} mm ball; "
+                       f"the nose meets the ball above its equator, usually at 62.5-64.5 % "
+                       f"of its diameter (WPA)")
+        pockets = [(kind, p) for kind, p in (("corner", self.corner), ("side", self.side))
+                   if p is not None]
+        for kind, p in pockets:
+            if p.mouth_m <= D:
+                out.append(f"{kind}_mouth_m: a mouth of {_mm(p.mouth_m)} mm is not wider than "
+                           f"the {_mm(D)} mm ball")
+                continue
+            drop = drop_width_m(kind, p)
+            if drop < D:
+                out.append(f"{kind}_mouth_m: the {kind} jaws close from {_mm(p.mouth_m)} mm at "
+                           f"the mouth to {_mm(drop)} mm at the drop line "
+                           f"({_mm(p.shelf_m)} mm deep at {p.jaw_angle_deg:g} deg), narrower "
+                           f"than the {_mm(D)} mm ball: widen the mouth or lessen the shelf "
+                           "or the jaw angle")
+            face = jaw_face_length_m(kind, p)
+            need = tip_tangent_m(p)
+            if f"{kind}_jaw_tip_radius_m" in given and need > face + 1e-12:
+                fit = face * math.tan(math.radians(p.jaw_angle_deg) / 2)
+                if p.shelf_m == 0.0:
+                    out.append(f"{kind}_jaw_tip_radius_m: with a {kind} shelf of 0 the drop "
+                               "line is the mouth line and the jaw is sharp; leave out the "
+                               "jaw tip radius or give a shelf")
+                    continue
+                out.append(f"{kind}_jaw_tip_radius_m: a {_mm(p.jaw_tip_radius_m)} mm jaw tip "
+                           f"does not fit on the {_mm(face)} mm jaw face down to the "
+                           f"{_mm(p.shelf_m)} mm shelf; at most {_mm(fit)} mm with this shelf")
+        if pockets:
+            out += self._rail_room_problems(D)
+        for spot in self.spots:
+            if not (0.0 < spot.x < self.length_m and 0.0 < spot.y < self.width_m):
+                key = "width_m" if not 0.0 < spot.y < self.width_m else "length_m"
+                out.append(f"{key}: the {spot.name} spot falls off a {self.length_m:g} x "
+                           f"{self.width_m:g} m table")
+                break
+        if self.baulk_line_x_m is not None and not self.baulk_line_x_m < self.length_m / 2:
+            out.append(f"length_m: the baulk line ({self.baulk_line_x_m:g} m from the bottom "
+                       f"cushion) does not fit on a {self.length_m:g} m table")
+        return out
+
+    def _rail_room_problems(self, D: float) -> list[str]:
+        c, s = self.corner, self.side
+        assert c is not None
+        corner_end = c.mouth_m / math.sqrt(2.0) + tip_tangent_m(
+            c, effective_tip_radius_m("corner", c))
+        out = []
+        short = self.width_m - 2.0 * corner_end
+        if short < D:
+            out.append(f"corner_mouth_m: {_mm(c.mouth_m)} mm corner mouths leave "
+                       f"{_left(short)} of cushion on the {self.width_m:g} m end rails, less than a ball's "
+                       f"width ({_mm(D)} mm): the mouths must be narrower than the table")
+        if s is None:
+            long_ = self.length_m - 2.0 * corner_end
+            where = "long rails"
+        else:
+            long_ = (self.length_m / 2 - s.mouth_m / 2
+                     - tip_tangent_m(s, effective_tip_radius_m("side", s)) - corner_end)
+            where = "long rails between the corner and side pockets"
+        if long_ < D:
+            key = "side_mouth_m" if s is not None and short >= D else "corner_mouth_m"
+            out.append(f"{key}: the pocket mouths leave {_left(long_)} of cushion on the "
+                       f"{where} of a {self.length_m:g} m table, less than a ball's width "
+                       f"({_mm(D)} mm): the mouths must be narrower than the table")
+        return out
 
     def _set(self, key: str, value: float, where: str) -> TableSpec:
         r = dataclasses.replace
@@ -361,6 +467,58 @@ OVERRIDE_KEYS: dict[str, tuple[float, float, str]] = {
     "cloth_spin_friction": (0.0001, 0.5, "measured spin friction"),
 }
 """Keys a layout's ``table`` object may override, with sanity bounds and meaning."""
+
+
+def _mm(value_m: float) -> str:
+    return f"{value_m * 1000.0:.1f}"
+
+
+def _left(value_m: float) -> str:
+    return f"{_mm(value_m)} mm" if value_m > 0 else "none"
+
+
+def _face_k(kind: str, jaw_angle_deg: float) -> tuple[float, float]:
+    """(along the axis, sideways away from the pocket's middle) of a unit step
+    down a jaw face, for a jaw angle through the rubber (see
+    :mod:`shotplan.table`: the face leaves the jaw point as ``cos a e - sin a n``;
+    a corner's axis runs at 45 deg to both rails, a side pocket's across its rail)."""
+    a = math.radians(jaw_angle_deg)
+    if kind == "corner":
+        return ((math.sin(a) - math.cos(a)) / math.sqrt(2.0),
+                (math.sin(a) + math.cos(a)) / math.sqrt(2.0))
+    return (math.sin(a), math.cos(a))
+
+
+def jaw_face_length_m(kind: str, pocket: PocketSpec) -> float:
+    """Length of a jaw face from the jaw point down to the drop line, m."""
+    along, _side = _face_k(kind, pocket.jaw_angle_deg)
+    return pocket.shelf_m / along
+
+
+def drop_width_m(kind: str, pocket: PocketSpec) -> float:
+    """Width of the throat at the drop line, between the two jaw faces, m."""
+    along, side = _face_k(kind, pocket.jaw_angle_deg)
+    return pocket.mouth_m + 2.0 * pocket.shelf_m * side / along
+
+
+def tip_tangent_m(pocket: PocketSpec, radius_m: float | None = None) -> float:
+    """Distance from the jaw point to where a rounded tip of ``radius_m``
+    (default: the spec's) meets the nose and the face: ``radius / tan(jaw
+    angle / 2)``, m."""
+    r = pocket.jaw_tip_radius_m if radius_m is None else radius_m
+    return r / math.tan(math.radians(pocket.jaw_angle_deg) / 2)
+
+
+def effective_tip_radius_m(kind: str, pocket: PocketSpec) -> float:
+    """The jaw tip radius the geometry uses: the spec's, or, where the face is
+    too short for it (a shallow shelf), the radius whose arc ends just before
+    the drop line (98 % of the face), so that nose, arc and face stay one
+    smooth boundary. 0 for a shelf of 0: the jaw is sharp at the mouth, where
+    the ball drops."""
+    face = jaw_face_length_m(kind, pocket)
+    if tip_tangent_m(pocket) > face:
+        return 0.98 * face * math.tan(math.radians(pocket.jaw_angle_deg) / 2)
+    return pocket.jaw_tip_radius_m
 
 
 def _rescale_markings(new: TableSpec, old: TableSpec) -> TableSpec:

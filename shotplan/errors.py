@@ -15,7 +15,17 @@ __all__ = [
     "PhysicsError",
     "InputError",
     "UnknownName",
+    "WriteError",
+    "Terminated",
+    "SHOWN_CHARS",
+    "shorten",
+    "show_path",
 ]
+
+SHOWN_CHARS = 60
+"""Longest user value a message echoes: longer ones are cut with an ellipsis,
+so a bad value pasted by mistake (a whole file, say) still gives a one-line message."""
+
 
 
 class ShotplanError(Exception):
@@ -46,3 +56,48 @@ class UnknownName(ShotplanError, ValueError, KeyError):
 
     def __str__(self) -> str:
         return str(self.args[0]) if self.args else ""
+
+
+class WriteError(ShotplanError, OSError):
+    """A file could not be written (no permission, a full disk, a read-only
+    disk). Its text names the path the user gave, never a temporary file;
+    ``errno`` is the system's error number, when there is one."""
+
+    def __init__(self, message: str, errno: int | None = None):
+        super().__init__(message)
+        self.errno = errno  # type: ignore[misc]
+
+    def __str__(self) -> str:
+        return str(self.args[0]) if self.args else ""
+
+
+class Terminated(KeyboardInterrupt):
+    """Raised in the main thread when the process is asked to stop (SIGTERM,
+    SIGHUP), so that it unwinds like an interrupt: temporary files are removed
+    and nothing is left half-written. ``signum`` is the signal's number."""
+
+    def __init__(self, signum: int):
+        super().__init__(signum)
+        self.signum = signum
+
+
+def shorten(text: str, limit: int = SHOWN_CHARS) -> str:
+    """``text`` cut to at most ``limit`` characters, ending in ``...`` when cut."""
+    if len(text) <= limit:
+        return text
+    return text[: max(limit - 3, 1)] + "..."
+
+
+def show_path(path: object, limit: int = 160) -> str:
+    """A file name as a message prints it: as typed when it reads plainly;
+    quoted with escapes (as Python's ``repr``) when it holds a newline, a tab
+    or another control or invisible character, so that one line stays one line
+    and the name can be told exactly; cut in the middle past ``limit``
+    characters, keeping the end, where the file's own name is."""
+    text = str(path)
+    plain = text.isprintable() and text == text.strip() and text != ""
+    shown = text if plain else repr(text)
+    if len(shown) > limit:
+        keep = limit - 3
+        shown = shown[: keep // 3] + "..." + shown[len(shown) - (keep - keep // 3):]
+    return shown

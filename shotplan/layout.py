@@ -11,8 +11,12 @@ The layout file (JSON, UTF-8) maps onto :class:`Layout` one to one::
       "physics": {"cushion_restitution": 0.8}
     }
 
-``table`` is a preset name or ``{"preset": "pool-9ft", ...measured values...}``
-with keys of :data:`shotplan.equipment.OVERRIDE_KEYS`. Positions are metres
+``table`` is a preset name, ``{"preset": "pool-9ft", ...measured values...}``
+with keys of :data:`shotplan.equipment.OVERRIDE_KEYS`, or ``{"profile":
+"club-table.json"}``: a table profile file (what ``shotplan cushion fit -o``
+writes; a path relative to the layout's folder), optionally with more
+measured values that replace the profile's. A layout holds at most
+:data:`MAX_BALLS` balls. Positions are metres
 from the cushion noses (see :mod:`shotplan.table`). ``stroke`` follows
 :meth:`shotplan.stroke.Stroke.from_dict`, ``physics`` the fields of
 :class:`shotplan.physics.Physics`; ``title``, ``note``, ``stroke`` and
@@ -41,13 +45,14 @@ import os
 import re
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any
 
 import numpy as np
 import shapely
 
 from .equipment import PRESETS, TableSpec
-from .errors import LayoutError, PhysicsError, StrokeError
+from .errors import LayoutError, PhysicsError, StrokeError, shorten, show_path
 from .fileio import atomic_write_text, check_output_path, read_limited
 from .physics.params import Physics
 from .stroke import Stroke
@@ -57,6 +62,8 @@ __all__ = [
     "FORMAT",
     "VERSION",
     "MAX_FILE_BYTES",
+    "MAX_BALLS",
+    "PROFILE_FORMAT",
     "LAYOUT_KEYS",
     "RACKS",
     "Problem",
@@ -66,6 +73,8 @@ __all__ = [
     "read_json_file",
     "parse_json",
     "rack",
+    "load_table",
+    "table_from_file",
 ]
 
 FORMAT = "shotplan-layout"
@@ -77,6 +86,15 @@ VERSION = 1
 MAX_FILE_BYTES = 10 * 1024 * 1024
 """Largest layout file accepted (10 MB): a layout is a few hundred bytes, so
 anything near this is not a layout, and reading it whole would only cost memory."""
+
+MAX_BALLS = 64
+"""Most balls a layout holds: more than any game puts on a table (snooker
+has 22), and it keeps the ball-against-ball checks (every pair) small."""
+
+PROFILE_FORMAT = "shotplan-table-profile"
+"""The value of a table profile file's ``format`` field (``shotplan cushion fit -o``)."""
+
+_PROFILE_VERSION = 1
 
 LAYOUT_KEYS: tuple[str, ...] = (
     "format", "version", "title", "note", "table", "balls", "stroke", "physics",
@@ -151,6 +169,9 @@ class Layout:
         if not isinstance(self.table, TableSpec):
             raise LayoutError(f"layout: table must be a TableSpec, not {type(self.table).__name__}")
         object.__setattr__(self, "balls", _normalise_balls(self.balls))
+        if len(self.balls) > MAX_BALLS:
+            raise LayoutError(f"layout: balls: {len(self.balls)} balls is too many, a layout "
+                              f"holds at most {MAX_BALLS}")
         if self.stroke is not None and not isinstance(self.stroke, Stroke):
             raise LayoutError(f"layout: stroke must be a Stroke or None, "
                               f"not {type(self.stroke).__name__}")
@@ -306,12 +327,15 @@ class Layout:
         return text + "\n"
 
     @classmethod
-    def from_dict(cls, data: Any, where: str = "layout", *, header: bool = True) -> Layout:
+    def from_dict(cls, data: Any, where: str = "layout", *, header: bool = True,
+                  base: str | os.PathLike[str] | None = None) -> Layout:
         """Build from a parsed layout object, checking its structure.
 
         ``where`` starts every message (the file name). With ``header=False``
         the ``format`` and ``version`` fields are optional (a layout inside
         another file). ``"stroke": null`` and ``"physics": null`` mean none.
+        A table ``{"profile": PATH}`` is read relative to the folder ``base``
+        (the layout file's folder; default: the current folder).
         Geometric problems are not raised here: see :meth:`problems`.
         """
         _check_numbers(data, where)
@@ -326,7 +350,7 @@ class Layout:
             check_format(data, where)
         if header or "version" in data:
             check_version(data, where)
-        table = _table_from_json(data.get("table", _MISSING), where)
+        table = _table_from_json(data.get("table", _MISSING), where, base)
         if "balls" not in data:
             raise LayoutError(f"{where}: balls: missing, must be an object of ball id: [x, y] "
                               "(metres from the cushion noses)")
@@ -389,8 +413,8 @@ def load_layout(path: str | os.PathLike[str], *, strict: bool = True) -> Layout:
     With ``strict=False`` the layout's problems (see :meth:`Layout.problems`)
     do not raise, so they can be shown; structural faults still do.
     """
-    name = str(path)
-    layout = Layout.from_dict(read_json_file(path), name)
+    name = show_path(path)
+    layout = Layout.from_dict(read_json_file(path), name, base=Path(path).parent)
     if strict:
         problems = layout.problems()
         if problems:
@@ -412,7 +436,7 @@ def save_layout(layout: Layout, path: str | os.PathLike[str]) -> None:
 def read_json_file(path: str | os.PathLike[str], max_bytes: int = MAX_FILE_BYTES) -> Any:
     """Read and parse a JSON file, turning every way it can fail into one
     :class:`LayoutError` line that starts with the file name."""
-    name = str(path)
+    name = show_path(path)
     data = read_limited(path, max_bytes, LayoutError)
     try:
         text = data.decode("utf-8-sig")
@@ -603,31 +627,102 @@ def check_version(data: Mapping[str, Any], where: str, version: int = VERSION,
                           f"{kind} version {version}")
 
 
-def _table_from_json(value: Any, where: str) -> TableSpec:
+def _table_from_json(value: Any, where: str,
+                     base: str | os.PathLike[str] | None = None) -> TableSpec:
     presets = ", ".join(PRESETS)
     if value is _MISSING:
-        raise LayoutError(f"{where}: table: missing, must be a preset name ({presets}) or "
-                          "an object with \"preset\" and measured values")
+        raise LayoutError(f"{where}: table: missing, must be a preset name ({presets}), "
+                          "an object with \"preset\" and measured values, or "
+                          "{\"profile\": \"FILE.json\"}")
+    if isinstance(value, Mapping) and "profile" in value:
+        return _table_from_profile_field(value, where, base)
     if isinstance(value, str):
         try:
             return TableSpec.preset(value)
         except LayoutError as e:
             raise LayoutError(f"{where}: table: {e}") from None
     if isinstance(value, Mapping):
-        if "preset" not in value:
-            raise LayoutError(f"{where}: table.preset: missing, must be one of {presets}")
-        name = value["preset"]
-        if not isinstance(name, str):
-            raise LayoutError(f"{where}: table.preset: {_show(name)} is not a preset name, "
-                              f"must be one of {presets}")
-        try:
-            spec = TableSpec.preset(name)
-        except LayoutError as e:
-            raise LayoutError(f"{where}: table.preset: {e}") from None
-        overrides = {k: v for k, v in value.items() if k != "preset"}
-        return spec.with_overrides(overrides, where=f"{where}: table")
+        return _preset_with_overrides(value, f"{where}: table")
     raise LayoutError(f"{where}: table: {_show(value)} is not a table, must be a preset name "
-                      f"({presets}) or an object with \"preset\" and measured values")
+                      f"({presets}), an object with \"preset\" and measured values, or "
+                      "{\"profile\": \"FILE.json\"}")
+
+
+def _table_from_profile_field(value: Mapping[str, Any], where: str,
+                              base: str | os.PathLike[str] | None) -> TableSpec:
+    """``{"profile": PATH, ...more measured values}`` in a layout's table."""
+    ref = value["profile"]
+    if "preset" in value:
+        raise LayoutError(f"{where}: table: give \"profile\" or \"preset\", not both (the "
+                          "profile names its preset)")
+    if not isinstance(ref, str) or not ref.strip():
+        raise LayoutError(f"{where}: table.profile: {_show(ref)} is not a file name, must be "
+                          "the path of a table profile (.json), relative to the layout")
+    path = Path(ref)
+    if not path.is_absolute() and base is not None:
+        path = Path(base) / path
+    spec = table_from_file(path, f"{where}: table.profile")
+    extra = {k: v for k, v in value.items() if k != "profile"}
+    return spec.with_overrides(extra, where=f"{where}: table") if extra else spec
+
+
+def table_from_file(path: str | os.PathLike[str], where: str = "") -> TableSpec:
+    """The table in a file: a table profile (``"format":
+    "shotplan-table-profile"``, what ``shotplan cushion fit -o`` writes), a
+    bare table object ``{"preset": ..., measured values...}``, or a layout
+    file (its table). Its measured values go through every check of
+    :meth:`TableSpec.with_overrides`. ``where`` (a field that names the
+    file) starts every message; the file's name follows it."""
+    shown = show_path(path)
+    label = f"{where}: {shown}" if where else shown
+    try:
+        data = read_json_file(path)
+    except LayoutError as e:
+        raise LayoutError(f"{where}: {e}" if where else str(e)) from None
+    if isinstance(data, Mapping) and ("balls" in data or data.get("format") == FORMAT):
+        return Layout.from_dict(data, label, header=False, base=Path(path).parent).table
+    if isinstance(data, Mapping) and "format" in data:
+        check_format(data, label, PROFILE_FORMAT, "table profile")
+        check_version(data, label, _PROFILE_VERSION, "table profile")
+        table = data.get("table", _MISSING)
+        if not isinstance(table, Mapping):
+            raise LayoutError(f"{label}: table: {'missing' if table is _MISSING else _kind(table)}"
+                              ", a table profile holds {\"preset\": ..., measured values...}")
+        return _preset_with_overrides(table, f"{label}: table")
+    if isinstance(data, Mapping) and "preset" in data:
+        return _preset_with_overrides(data, label)
+    if isinstance(data, Mapping) and isinstance(data.get("table"), Mapping):
+        return _preset_with_overrides(data["table"], f"{label}: table")
+    raise LayoutError(f"{label}: not a table profile: must be a profile from 'shotplan cushion "
+                      "fit', an object {\"preset\": ..., measured values...} or a layout file")
+
+
+def _preset_with_overrides(value: Mapping[str, Any], where: str) -> TableSpec:
+    presets = ", ".join(PRESETS)
+    if "profile" in value:
+        raise LayoutError(f"{where}: profile: a table profile cannot name another profile")
+    name = value.get("preset", _MISSING)
+    if name is _MISSING:
+        raise LayoutError(f"{where}.preset: missing, must be one of {presets}")
+    if not isinstance(name, str):
+        raise LayoutError(f"{where}.preset: {_show(name)} is not a preset name, must be one "
+                          f"of {presets}")
+    try:
+        spec = TableSpec.preset(name)
+    except LayoutError as e:
+        raise LayoutError(f"{where}.preset: {e}") from None
+    return spec.with_overrides({k: v for k, v in value.items() if k != "preset"}, where=where)
+
+
+def load_table(value: str, where: str = "--table") -> TableSpec:
+    """The table a command-line option names: a preset name, or a file (see
+    :func:`table_from_file`)."""
+    if value in PRESETS:
+        return TableSpec.preset(value)
+    if not value.lower().endswith(".json") and not Path(value).exists():
+        raise LayoutError(f"{where}: {_show(value)} is not a table preset "
+                          f"({', '.join(PRESETS)}) nor a table profile file (.json)")
+    return table_from_file(value, where)
 
 
 def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
@@ -653,6 +748,9 @@ def _balls_from_json(value: Any, where: str) -> tuple[tuple[str, tuple[float, fl
     if not isinstance(value, Mapping):
         raise LayoutError(f"{where}: balls: must be an object of ball id: [x, y] "
                           f"(metres from the cushion noses), not {_kind(value)}")
+    if len(value) > MAX_BALLS:
+        raise LayoutError(f"{where}: balls: {len(value)} balls is too many, a layout holds at "
+                          f"most {MAX_BALLS}")
     out = []
     for ball, xy in value.items():
         if not isinstance(ball, str) or not ball:
@@ -772,10 +870,13 @@ def _kind(value: Any) -> str:
     return type(value).__name__
 
 
-def _show(value: Any, limit: int = 60) -> str:
-    """A value as it looks in the file, cut short."""
+def _show(value: Any, limit: int | None = None) -> str:
+    """A value as it looks in the file, cut short (see :func:`shotplan.errors.shorten`)."""
+    if isinstance(value, list | tuple | Mapping) and len(value) > 100:
+        value = type(value)(list(value)[:100]) if not isinstance(value, Mapping) \
+            else dict(list(value.items())[:100])
     try:
         text = json.dumps(value, ensure_ascii=False, allow_nan=True, default=repr)
     except (TypeError, ValueError):
         text = repr(value)
-    return text if len(text) <= limit else text[: limit - 3] + "..."
+    return shorten(text) if limit is None else shorten(text, limit)

@@ -29,7 +29,7 @@ from collections.abc import Callable, Mapping, Sequence
 from pathlib import Path
 from typing import IO, Any
 
-from .errors import InputError, LayoutError
+from .errors import InputError
 from .jsonout import missing_as_null
 
 __all__ = [
@@ -103,37 +103,12 @@ class ProgressBar:
 
 # ---------------------------------------------------------------- inputs
 def load_table(value: str) -> Any:
-    """The table of ``--table``: a preset name, or a file holding a table
-    object ``{"preset": ..., measured values...}`` at its top level, a layout
-    (its table), or any object with such a ``table`` field (the profile
-    ``shotplan cushion fit`` writes)."""
-    from .equipment import PRESETS, TableSpec
-    from .layout import FORMAT, Layout, read_json_file
+    """The table of ``--table``: a preset name, a table profile file, a bare
+    table object ``{"preset": ..., measured values...}`` or a layout (its
+    table); see :func:`shotplan.layout.load_table`."""
+    from .layout import load_table as load
 
-    if value in PRESETS:
-        return TableSpec.preset(value)
-    if not Path(value).exists() and not value.lower().endswith(".json"):
-        raise InputError(f"--table: {value!r} is not a table preset ({', '.join(PRESETS)}) "
-                         "nor a file")
-    data = read_json_file(value)
-    where = value
-    if isinstance(data, Mapping) and ("balls" in data or data.get("format") == FORMAT):
-        return Layout.from_dict(data, value, header=False).table
-    if isinstance(data, Mapping) and "preset" not in data and isinstance(data.get("table"), Mapping):
-        data = data["table"]
-        where = f"{value}: table"
-    if isinstance(data, Mapping) and "preset" in data:
-        name = data["preset"]
-        if not isinstance(name, str):
-            raise LayoutError(f"{where}: preset: {name!r} is not a preset name, must be one of "
-                              f"{', '.join(PRESETS)}")
-        try:
-            spec = TableSpec.preset(name)
-        except LayoutError as e:
-            raise LayoutError(f"{where}: preset: {e}") from None
-        return spec.with_overrides({k: v for k, v in data.items() if k != "preset"}, where=where)
-    raise LayoutError(f"{value}: not a table profile: must be an object {{\"preset\": ..., "
-                      "measured values...}}, a layout file, or an object with such a \"table\"")
+    return load(value)
 
 
 def load_physics(spec: Any, path: str | None, settings: Sequence[str] = ()) -> Any:

@@ -33,7 +33,7 @@ import shapely
 from shapely.geometry import Point, Polygon
 from shapely.ops import unary_union
 
-from .equipment import PocketSpec, TableSpec
+from .equipment import PocketSpec, TableSpec, effective_tip_radius_m
 from .errors import UnknownName
 
 __all__ = ["Pocket", "Table", "POCKET_NAMES", "Jaw"]
@@ -47,6 +47,10 @@ POCKET_NAMES: tuple[str, ...] = (
     "foot-left",
 )
 """Pocket names (trade words) in the order pockets are indexed."""
+
+_MIN_FACE_M = 1e-9
+"""A jaw face shorter than this (a shelf of 0) is left out of the physics'
+lines: the jaw is its tip alone."""
 
 # Element kinds in Table.cushion_lines[:, 6]
 LINE_RAIL = 0
@@ -155,6 +159,7 @@ def _jaw(
     spec: PocketSpec,
     mouth_centre: tuple[float, float],
     axis: tuple[float, float],
+    kind: str,
 ) -> Jaw:
     alpha = math.radians(spec.jaw_angle_deg)
     ex, ey = rail_dir
@@ -166,13 +171,11 @@ def _jaw(
     along = (px - mouth_centre[0]) * ax + (py - mouth_centre[1]) * ay
     t_end = (spec.shelf_m - along) / (fx * ax + fy * ay)
     face_end = (px + t_end * fx, py + t_end * fy)
-    r = spec.jaw_tip_radius_m
+    # The face may be too short for the rounding (a shallow shelf): then a
+    # smaller tip whose arc ends just before the drop line; none (a sharp
+    # jaw) for a shelf of 0, where the drop line is the mouth line.
+    r = effective_tip_radius_m(kind, spec)
     bx, by = _unit(ex + fx, ey + fy)
-    if r / math.tan(alpha / 2) > t_end:
-        # The face is too short for the rounding (a shallow shelf): a smaller
-        # tip whose arc ends just before the drop line, so that nose, arc and
-        # face stay one smooth boundary.
-        r = 0.98 * t_end * math.tan(alpha / 2)
     d_centre = r / math.sin(alpha / 2)
     d_tangent = r / math.tan(alpha / 2)
     tip_centre = (px + bx * d_centre, py + by * d_centre)
@@ -230,7 +233,8 @@ def _build_pockets(spec: TableSpec) -> tuple[Pocket, ...]:
             0.5 * (jaws[0][0][1] + jaws[1][0][1]),
         )
         built = tuple(
-            _jaw(p, (float(e[0]), float(e[1])), (float(n[0]), float(n[1])), pspec, mouth_centre, axis)
+            _jaw(p, (float(e[0]), float(e[1])), (float(n[0]), float(n[1])), pspec, mouth_centre,
+                 axis, kind)
             for p, e, n in jaws
         )
         pockets.append(Pocket(name, kind, pspec, corner, axis, (built[0], built[1])))
@@ -304,7 +308,10 @@ class Table:
         drops: list[list[float]] = []
         for k, p in enumerate(self.pockets):
             for jaw in p.jaws:
-                lines.append([*jaw.face_tangent, *jaw.face_end, *jaw.face_normal, LINE_JAW, k])
+                if math.dist(jaw.face_tangent, jaw.face_end) > _MIN_FACE_M:
+                    lines.append([*jaw.face_tangent, *jaw.face_end, *jaw.face_normal,
+                                  LINE_JAW, k])
+                # A sharp jaw (shelf 0) is a circle of radius 0 at the jaw point.
                 circles.append([*jaw.tip_centre, jaw.tip_radius, k])
             a, b = p.jaws[0].face_end, p.jaws[1].face_end
             drops.append([*a, *b, -p.axis[0], -p.axis[1], k])

@@ -2,7 +2,8 @@
 
 Every case must end the same way (DESIGN: bad input): exit code 2, exactly one
 line on stderr that starts ``shotplan: error:`` and says what is wrong, no
-traceback, and no output file or temporary file left behind. Each case runs
+traceback, and no output file or temporary file left behind. (``check`` lists
+a layout's problems, one line each, then a line that counts them.) Each case runs
 in-process through ``main()``; the cases marked ``SUB`` (at least 25) also run
 as real processes (``python -m shotplan``), which is what a user meets.
 """
@@ -189,6 +190,19 @@ def _assert_one_error_line(stderr: str, fragment: str, where: str):
     return lines[0]
 
 
+def _assert_check_lines(stderr: str, fragment: str) -> str:
+    """``check``'s stderr: one line for a broken file; for a file with
+    problems, one line per problem then ``N problem(s)``. Returns the line
+    that says what is wrong (the first)."""
+    lines = stderr.splitlines()
+    assert "Traceback" not in stderr
+    assert lines and all(x.startswith("shotplan: error: bad.json") for x in lines), lines
+    if len(lines) > 1:
+        n = len(lines) - 1
+        assert lines[-1] == f"shotplan: error: bad.json: {n} problem{'s' if n > 1 else ''}"
+    return lines[0]
+
+
 # ------------------------------------------------------------------ in-process
 @pytest.mark.parametrize("cid, content, fragment", _params())
 def test_in_process(cid, content, fragment, tmp_path, monkeypatch, capsys):
@@ -198,7 +212,7 @@ def test_in_process(cid, content, fragment, tmp_path, monkeypatch, capsys):
 
     assert main(["check", arg]) == 2
     out, err = capsys.readouterr()
-    line = _assert_one_error_line(err, fragment, "check")
+    line = _assert_check_lines(err, fragment)
     assert fragment in line or fragment in out, (line, out)
     assert line.startswith("shotplan: error: bad.json")  # names the file
 
@@ -246,7 +260,8 @@ def test_as_a_process(cid, content, fragment, process_results):
     for cmd in ("check", "draw"):
         proc = results[(cid, cmd)]
         assert proc.returncode == 2, (cmd, proc.stderr)
-        line = _assert_one_error_line(proc.stderr, fragment, cmd)
+        line = (_assert_check_lines(proc.stderr, fragment) if cmd == "check"
+                else _assert_one_error_line(proc.stderr, fragment, cmd))
         assert fragment in line or (cmd == "check" and fragment in proc.stdout), (cmd, line)
     assert results[(cid, "draw")].stdout == ""
     assert _snapshot(folder) == before  # no out.png, no temporary file
@@ -279,7 +294,7 @@ def test_output_path_is_checked_before_the_layout(tmp_path, monkeypatch, capsys)
     (tmp_path / "ok.json").write_text(lay())
     (tmp_path / "out.png").mkdir()
     assert main(["draw", "ok.json", "-o", "out.png"]) == 2
-    assert "'out.png' is a folder, not a file" in capsys.readouterr().err
+    assert "out.png: is a folder, not a file" in capsys.readouterr().err
     assert sorted(os.listdir(tmp_path)) == ["ok.json", "out.png"]
     assert os.listdir(tmp_path / "out.png") == []
 
