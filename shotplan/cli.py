@@ -179,9 +179,8 @@ def _add_search_options(p: argparse.ArgumentParser) -> None:
 
 
 def _search(args: argparse.Namespace, layout: Any) -> Any:
-    from .search import find_shots
-
     from .players import PlayerErrors
+    from .search import find_shots
 
     kinds = [k.strip() for k in args.kinds.split(",") if k.strip()]
     player = PlayerErrors.level(args.level) if args.level is not None else None

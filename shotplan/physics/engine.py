@@ -31,10 +31,13 @@ from .state import (
     P_E_C,
     P_E_C_SLOPE,
     P_E_J,
+    P_G,
     P_M,
     P_MU_B,
     P_MU_C,
     P_MU_J,
+    P_MU_S,
+    P_R,
     POCKETED,
     ROLLING,
     SLIDING,
@@ -56,6 +59,56 @@ less than this speed (m/s, a hundredth of a millimetre per second), are
 jammed as well: one pushing the other (a rolling ball that keeps catching up
 with the ball ahead) gives an endless run of ever-smaller impacts whose
 spacing ends at the rounding of the contact time, not at one instant."""
+
+
+SETTLE_TIME_S = 1e-3
+"""A cushion or jaw impact whose rebound series would be over within this time
+(s) leaves the ball pressed against the rubber (see :func:`_settle`). Impacts
+are instants here, but a real cushion contact lasts about a millisecond (from
+memory): rebounds that would all come back within one contact time are not
+separate impacts at all; the ball never leaves the rubber. This is the time
+resolution below which instantaneous impacts stop describing a cushion."""
+
+
+@jit
+def _settle(i, hx, hy, vn_in, e, vel, om, prm):  # type: ignore[no-untyped-def]
+    """Inelastic collapse of a ball against a cushion or jaw (in place).
+
+    After the impact the ball leaves the rubber (inward normal ``(hx, hy)``)
+    at ``v_n``; if the cloth's friction pulls it back (the slip at the cloth
+    ``u`` has a part ``u_n > 0`` along the normal, so the friction
+    ``-mu_s g u / |u|`` points at the cushion, acceleration
+    ``a_n = mu_s g u_n / |u|``), it comes back after ``2 v_n / a_n`` and
+    rebounds at ``e v_n``: a geometric series of ever-smaller impacts that
+    ends after ``2 v_n / (a_n (1 - e))`` (an inelastic collapse, infinitely
+    many impacts in finite time). When that is under SETTLE_TIME_S, the
+    series is taken at its end at once: the normal velocity is zero, and the
+    spin that drives the slip into the cushion is given up, as the pressed
+    contact (the cushion's reaction balancing the cloth's pull) would take it
+    over the following instants. The ball then slides or rolls along the
+    cushion. Both changes only remove kinetic energy. ``vn_in`` (< 0) is the
+    normal velocity before the impact; returns whether the ball settled."""
+    if vn_in >= 0.0:
+        return False
+    R = prm[P_R]
+    vn = vel[i, 0] * hx + vel[i, 1] * hy
+    ux = vel[i, 0] - R * om[i, 1]
+    uy = vel[i, 1] + R * om[i, 0]
+    un = ux * hx + uy * hy
+    u = math.hypot(ux, uy)
+    if un <= 0.0 or u == 0.0:
+        return False
+    a_n = prm[P_MU_S] * prm[P_G] * un / u
+    if 2.0 * vn > a_n * (1.0 - e) * SETTLE_TIME_S:
+        return False
+    vel[i, 0] -= vn * hx
+    vel[i, 1] -= vn * hy
+    # The slip's normal part is R (wx hy - wy hx) once v_n = 0: remove the
+    # spin along (hy, -hx).
+    w = om[i, 0] * hy - om[i, 1] * hx
+    om[i, 0] -= w * hy
+    om[i, 1] += w * hx
+    return True
 
 
 @jit
@@ -207,12 +260,17 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
                             en = math.hypot(ex, ey)
                             hx = ex / en
                             hy = ey / en
+                vn_in = vel[a, 0] * hx + vel[a, 1] * hy
+                e0 = prm[P_E_C] if kind == EV_CUSHION else prm[P_E_J]
                 if kind == EV_CUSHION:
-                    ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_C], prm[P_E_C_SLOPE],
+                    ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
                                  prm[P_MU_C])
                 else:
-                    ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_J], prm[P_E_C_SLOPE],
+                    ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
                                  prm[P_MU_J])
+                # The same restitution as collide.ball_cushion used.
+                _settle(a, hx, hy, vn_in, max(e0 - prm[P_E_C_SLOPE] * (-vn_in), 0.05),
+                        vel, om, prm)
             elif kind == EV_POCKET:
                 st[a] = POCKETED
                 vel[a, 0] = 0.0

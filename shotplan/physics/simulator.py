@@ -275,6 +275,11 @@ class Outcome:
         self.launch = launch
         self.complete = status == STATUS_DONE
         """False if the run hit ``Physics.max_events`` before every ball stopped."""
+        self.reason: str | None = None if self.complete else (
+            f"the run stopped at the event limit ({int(sim.physics.max_events)} events, "
+            "physics max_events) before every ball was still; positions after its last "
+            "event are where the balls were then")
+        """Why the run is not complete (None when it is)."""
         self._seg_t = seg_t[:n_seg].copy()
         self._seg_ball = seg_ball[:n_seg].copy()
         self._seg_state = seg_state[:n_seg].copy()
@@ -288,7 +293,9 @@ class Outcome:
         self._by_ball = [np.flatnonzero(self._seg_ball == i) for i in range(len(ids))]
         self._events: list[Event] | None = None
         self.duration = float(self._ev[0][-1]) if n_ev else 0.0
-        """Time of the last event, s (every ball is still after it)."""
+        """Time of the last event, s (every ball is still after it, unless the
+        run is not complete). Sampling at later times gives the state at this
+        time: nothing is extrapolated past the end of the run."""
 
     # ------------------------------------------------------------ events
     def _where(self, kind: int, elem: int) -> str:
@@ -354,24 +361,36 @@ class Outcome:
 
     @property
     def final(self) -> dict[str, dict[str, Any]]:
-        """Where each ball ended: ``{id: {"x", "y", "state", "pocket"}}``."""
+        """Where each ball ended: ``{id: {"x", "y", "state", "pocket"}}``;
+        ``state`` is ``rest``, ``pocketed``, or (in a run that is not
+        complete) ``moving`` for a ball still moving when the run stopped."""
         pocketed = self.pocketed()
+        end = self.states(self.duration)
         out = {}
         for i, bid in enumerate(self.ids):
             s = self._by_ball[i][-1]
             state = MotionState(int(self._seg_state[s]))
+            word = "rest"
+            if state == MotionState.POCKETED:
+                word = "pocketed"
+            elif state in (MotionState.SLIDING, MotionState.ROLLING):
+                word = "moving"
             out[bid] = {
-                "x": float(self._seg_pos[s, 0]),
-                "y": float(self._seg_pos[s, 1]),
-                "state": "pocketed" if state == MotionState.POCKETED else "rest",
+                "x": float(end[i, 0]),
+                "y": float(end[i, 1]),
+                "state": word,
                 "pocket": pocketed.get(bid),
             }
         return out
 
     def final_positions(self) -> np.ndarray:
-        """(N, 2) final positions (pocketed balls where they fell)."""
-        last = [idx[-1] for idx in self._by_ball]
-        return self._seg_pos[last].copy()
+        """(N, 2) final positions (pocketed balls where they fell; at the end
+        of the run for a ball still moving when an incomplete run stopped)."""
+        return self.states(self.duration)[:, :2].copy()
+
+    def _clamp(self, t: float) -> float:
+        """``t`` brought inside the run: no extrapolation past its end."""
+        return min(float(t), self.duration)
 
     def _segments_at(self, i: int, t: float) -> int:
         idx = self._by_ball[i]
@@ -380,9 +399,10 @@ class Outcome:
 
     def states(self, t: float) -> np.ndarray:
         """(N, 7) x, y, vx, vy, wx, wy, wz of every ball at time t."""
+        t = self._clamp(t)
         segs = np.array([self._segments_at(i, t) for i in range(len(self.ids))], dtype=np.int64)
         out = np.zeros((len(self.ids), 7))
-        times = np.full(len(self.ids), float(t))
+        times = np.full(len(self.ids), t)
         _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
                 segs, times, self.simulator.prm, out)
         return out
@@ -395,6 +415,7 @@ class Outcome:
     def state_of(self, ball: str, t: float) -> BallState:
         """One ball's full state at time t."""
         i = self.ids.index(ball)
+        t = self._clamp(t)
         s = self._segments_at(i, t)
         arr = np.zeros((1, 7))
         _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
@@ -411,8 +432,8 @@ class Outcome:
         times: list[float] = []
         for k, s in enumerate(idx):
             t0 = float(self._seg_t[s])
-            t1 = float(self._seg_t[idx[k + 1]]) if k + 1 < len(idx) else t0
-            if k + 1 == len(idx) or self._seg_state[s] == POCKETED:
+            t1 = float(self._seg_t[idx[k + 1]]) if k + 1 < len(idx) else self.duration
+            if (k + 1 == len(idx) and self.complete) or self._seg_state[s] == POCKETED:
                 seg_list.append(int(s))
                 times.append(t0)
                 continue
@@ -482,6 +503,7 @@ class Outcome:
             },
             "complete": self.complete,
             "duration_s": self.duration,
+            **({} if self.reason is None else {"reason": self.reason}),
         }
 
     def __repr__(self) -> str:
