@@ -254,6 +254,12 @@ def _errors(args: argparse.Namespace) -> Any:
     return PlayerErrors.level(args.level if args.level is not None else DEFAULT_LEVEL)
 
 
+MAX_TOTAL_TRIALS = 10_000_000
+"""Most simulated trials one ``drill`` run plays, over all stations and levels.
+The default 10,000 trials at the 200 stations of the largest drill file, for
+the sheet's three levels, fit (6 million); a mistyped --trials does not."""
+
+
 def _run_drill(args: argparse.Namespace) -> int:
     from pathlib import Path
 
@@ -267,7 +273,13 @@ def _run_drill(args: argparse.Namespace) -> int:
         _check_folder(stations_folder(Path(out)))
     drill = load_drill(args.drill)
     compare = [LEVELS[n] for n in SHEET_LEVELS if LEVELS[n] != errors] if out is not None else []
-    bar = ProgressBar(args.trials * len(drill.stations) * (1 + len(compare)), "planning")
+    total = args.trials * len(drill.stations) * (1 + len(compare))
+    if total > MAX_TOTAL_TRIALS:
+        raise InputError(f"--trials: {args.trials} trials at each of {len(drill.stations)} "
+                         f"stations{' for ' + str(1 + len(compare)) + ' levels' if compare else ''}"
+                         f" make {total:,} simulations, at most {MAX_TOTAL_TRIALS:,} are run; "
+                         "give fewer --trials")
+    bar = ProgressBar(total, "planning")
     bar(0)
     result = run_drill(drill, errors, args.trials, args.seed, progress=bar, source=args.drill,
                        compare=compare)

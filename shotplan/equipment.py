@@ -30,7 +30,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import Any
 
-from .errors import LayoutError
+from .errors import LayoutError, quoted
 from .units import inches, mm
 
 __all__ = [
@@ -234,7 +234,7 @@ class TableSpec:
             return PRESETS[name]
         except KeyError:
             raise LayoutError(
-                f"{name!r} is not a table preset, must be one of {', '.join(PRESETS)}"
+                f"{quoted(name)} is not a table preset, must be one of {', '.join(PRESETS)}"
             ) from None
 
     def with_overrides(self, values: Mapping[str, Any], where: str = "table") -> TableSpec:
@@ -248,12 +248,12 @@ class TableSpec:
         for key, value in values.items():
             if key not in OVERRIDE_KEYS:
                 raise LayoutError(
-                    f"{where}: unknown table field {key!r}, must be one of "
+                    f"{where}: unknown table field {quoted(key)}, must be one of "
                     f"preset, {', '.join(OVERRIDE_KEYS)}"
                 )
             lo, hi, _doc = OVERRIDE_KEYS[key]
             if isinstance(value, bool) or not isinstance(value, int | float):
-                raise LayoutError(f"{where}.{key}: {value!r} is not a number")
+                raise LayoutError(f"{where}.{key}: {quoted(value)} is not a number")
             try:
                 value = float(value)
             except OverflowError:

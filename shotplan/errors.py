@@ -19,6 +19,7 @@ __all__ = [
     "Terminated",
     "SHOWN_CHARS",
     "shorten",
+    "quoted",
     "show_path",
 ]
 
@@ -86,6 +87,12 @@ def shorten(text: str, limit: int = SHOWN_CHARS) -> str:
     if len(text) <= limit:
         return text
     return text[: max(limit - 3, 1)] + "..."
+
+
+def quoted(value: object, limit: int = SHOWN_CHARS) -> str:
+    """``repr(value)`` cut to ``limit`` characters: how messages echo a value
+    the user gave (a name, a key, a word)."""
+    return shorten(repr(value), limit)
 
 
 def show_path(path: object, limit: int = 160) -> str:

@@ -41,7 +41,7 @@ from collections.abc import Iterator
 from pathlib import Path
 from typing import Any
 
-from .errors import InputError, Terminated, WriteError, show_path
+from .errors import InputError, Terminated, WriteError, quoted, show_path
 
 __all__ = ["atomic_path", "atomic_write_text", "atomic_write_bytes", "check_output_path",
            "read_limited", "set_force", "force_enabled", "handle_termination",
@@ -139,7 +139,7 @@ def check_output_path(path: str | os.PathLike[str], suffixes: tuple[str, ...] | 
     p = Path(path)
     shown = show_path(p)
     if suffixes is not None and p.suffix.lower() not in suffixes:
-        raise InputError(f"{shown}: unsupported file type {p.suffix or '(none)'!r}, "
+        raise InputError(f"{shown}: unsupported file type {quoted(p.suffix or '(none)')}, "
                          f"must end in one of {', '.join(suffixes)}")
     _check_target(_write_target(p, shown), shown, force)
     return p

@@ -52,7 +52,15 @@ import numpy as np
 import shapely
 
 from .equipment import PRESETS, TableSpec
-from .errors import LayoutError, PhysicsError, StrokeError, shorten, show_path
+from .errors import (
+    SHOWN_CHARS,
+    LayoutError,
+    PhysicsError,
+    StrokeError,
+    quoted,
+    shorten,
+    show_path,
+)
 from .fileio import atomic_write_text, check_output_path, read_limited
 from .physics.params import Physics
 from .stroke import Stroke
@@ -201,7 +209,7 @@ class Layout:
         for b, xy in self.balls:
             if b == ball:
                 return xy
-        raise LayoutError(f"no ball {ball!r} in this layout, balls: "
+        raise LayoutError(f"no ball {quoted(ball)} in this layout, balls: "
                           f"{', '.join(self.ball_ids) or '(none)'}")
 
     @property
@@ -228,7 +236,7 @@ class Layout:
         ids = self.ball_ids
         for b in ids:
             if b not in valid_ids:
-                out.append(Problem(_field("balls", b), f"{b!r} is not a ball of the {spec.name} "
+                out.append(Problem(_field("balls", b), f"{quoted(b)} is not a ball of the {spec.name} "
                                    f"table, must be one of {', '.join(valid_ids)}", b))
         if ids:
             pts = np.array([xy for _, xy in self.balls], dtype=float)
@@ -244,7 +252,7 @@ class Layout:
                     if dist[i, j] < two_r - _OVERLAP_TOL:
                         out.append(Problem(
                             _field("balls", ids[j]),
-                            f"{_pos(pts[j])} overlaps ball {ids[i]!r} by "
+                            f"{_pos(pts[j])} overlaps ball {quoted(ids[i])} by "
                             f"{_mm(two_r - dist[i, j])} mm (centres {_mm(dist[i, j])} mm "
                             f"apart, balls need at least {two_r * 1000:.2f} mm)",
                             ids[j],
@@ -344,7 +352,7 @@ class Layout:
                               f"{{\"format\": {FORMAT!r}, ...}}, not {_kind(data)}")
         for key in data:
             if key not in LAYOUT_KEYS:
-                raise LayoutError(f"{where}: unknown field {key!r}, must be one of "
+                raise LayoutError(f"{where}: unknown field {quoted(key)}, must be one of "
                                   f"{', '.join(LAYOUT_KEYS)}")
         if header or "format" in data:
             check_format(data, where)
@@ -483,7 +491,7 @@ def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[flo
     Returns ball id -> (x, y), the cue ball first, then the balls by number.
     """
     if kind not in RACKS:
-        raise LayoutError(f"{kind!r} is not a rack, must be one of {', '.join(RACKS)}")
+        raise LayoutError(f"{quoted(kind)} is not a rack, must be one of {', '.join(RACKS)}")
     if not isinstance(table, TableSpec):
         raise LayoutError(f"rack: table must be a TableSpec, not {type(table).__name__}")
     if table.game != "pool" or table.head_string_x_m is None:
@@ -512,7 +520,7 @@ def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[flo
            if not ok]
     if bad:
         raise LayoutError(f"rack: the {kind} rack does not fit on the {table.name} table "
-                          f"(ball {bad[0]!r} would be off the bed or in a cushion)")
+                          f"(ball {quoted(bad[0])} would be off the bed or in a cushion)")
     return out
 
 
@@ -578,7 +586,7 @@ def _check_numbers(data: Any, where: str) -> None:
         value, path = stack.pop()
         label = f"{where}: {path}" if path else where
         if isinstance(value, _Object) and value.duplicate:
-            raise LayoutError(f"{label}: the field {value.duplicate!r} appears twice")
+            raise LayoutError(f"{label}: the field {quoted(value.duplicate)} appears twice")
         if isinstance(value, _BadNumber):
             what = ("is not a number" if value.text.lstrip("-") in ("NaN", "Infinity")
                     else "is too large")
@@ -775,19 +783,19 @@ def _normalise_balls(balls: Any) -> tuple[tuple[str, tuple[float, float]], ...]:
             ball, xy = item
             x, y = xy
         except (TypeError, ValueError):
-            raise LayoutError(f"layout: balls: {item!r} is not a (ball id, (x, y)) pair") from None
+            raise LayoutError(f"layout: balls: {quoted(item)} is not a (ball id, (x, y)) pair") from None
         if not isinstance(ball, str) or not ball:
-            raise LayoutError(f"layout: balls: {ball!r} is not a ball id (a non-empty string)")
+            raise LayoutError(f"layout: balls: {quoted(ball)} is not a ball id (a non-empty string)")
         if ball in seen:
-            raise LayoutError(f"layout: balls: {ball!r} appears twice")
+            raise LayoutError(f"layout: balls: {quoted(ball)} appears twice")
         seen.add(ball)
         for c in (x, y):
             if isinstance(c, bool) or not isinstance(c, int | float | np.integer | np.floating):
-                raise LayoutError(f"layout: balls.{ball}: {xy!r} is not a position, must be "
+                raise LayoutError(f"layout: {_field('balls', ball)}: {quoted(xy)} is not a position, must be "
                                   "two numbers (m)")
         fx, fy = float(x), float(y)
         if not (math.isfinite(fx) and math.isfinite(fy)):
-            raise LayoutError(f"layout: balls.{ball}: {xy!r} is not a finite position")
+            raise LayoutError(f"layout: {_field('balls', ball)}: {quoted(xy)} is not a finite position")
         out.append((ball, (fx, fy)))
     return tuple(out)
 
@@ -840,9 +848,9 @@ def _field(path: str, key: Any) -> str:
     """``path.key``, or ``path["odd key"]`` when the key would not read plainly
     (a space, a dot, a newline...), so a message stays one unambiguous line."""
     key = str(key)
-    if _PLAIN_KEY.fullmatch(key):
+    if _PLAIN_KEY.fullmatch(key) and len(key) <= SHOWN_CHARS:
         return f"{path}.{key}" if path else key
-    return f"{path}[{json.dumps(key)}]"
+    return f"{path}[{shorten(json.dumps(key))}]"
 
 
 def _pos(p: Any) -> str:

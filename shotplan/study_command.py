@@ -334,9 +334,33 @@ def _run_missing(args: argparse.Namespace) -> int:
                      "(see 'shotplan study --help')")
 
 
+MAX_ANGLES = 361
+"""Most angles one sweep takes (``--max / --step``): a quarter degree over 90."""
+
+MAX_LIST = 12
+"""Most values one list option takes (``--distances``, ``--speed``...)."""
+
+
+def _check_sizes(args: argparse.Namespace) -> None:
+    """Refuse a sweep or a list too long to be a chart, before any work."""
+    step, top = getattr(args, "step", 5.0), getattr(args, "max", None)
+    top = 90.0 if top is None else top
+    if isinstance(step, float) and step > 0 and math.isfinite(top) \
+            and abs(top) / step + 1 > MAX_ANGLES:
+        raise InputError(f"--step: {step:g} deg gives {abs(top) / step + 1:.3g} angles up to "
+                         f"{top:g} deg, at most {MAX_ANGLES} are swept; give a larger step")
+    for dest in ("distances", "cue_distance", "tip", "speed", "spin"):
+        values = _flat(getattr(args, dest, None))
+        if values is not None and len(values) > MAX_LIST:
+            raise InputError(f"--{dest.replace('_', '-')}: {len(values)} values, at most "
+                             f"{MAX_LIST} are accepted")
+
+
 def _outputs(args: argparse.Namespace) -> tuple[Path | None, Path | None]:
-    """Check both output paths before any work."""
+    """Check both output paths and the sizes before any work."""
     from .fileio import check_output_path
+
+    _check_sizes(args)
 
     chart = check_output_path(args.output, CHART_SUFFIXES) if args.output else None
     table = check_output_path(args.csv, (".csv",)) if args.csv else None

@@ -34,7 +34,7 @@ from shapely.geometry import Point, Polygon
 from shapely.ops import unary_union
 
 from .equipment import PocketSpec, TableSpec, effective_tip_radius_m
-from .errors import UnknownName
+from .errors import UnknownName, quoted
 
 __all__ = ["Pocket", "Table", "POCKET_NAMES", "Jaw"]
 
@@ -328,7 +328,7 @@ class Table:
             if p.name == name:
                 return k
         names = ", ".join(p.name for p in self.pockets) or "none (this table has no pockets)"
-        raise UnknownName(f"{name!r} is not a pocket of this table, must be one of {names}")
+        raise UnknownName(f"{quoted(name)} is not a pocket of this table, must be one of {names}")
 
     def pocket(self, name: str) -> Pocket:
         """The pocket called ``name``."""
@@ -448,7 +448,7 @@ class Table:
             if s.name == name:
                 return (s.x, s.y)
         names = ", ".join(s.name for s in self.spec.spots) or "none"
-        raise UnknownName(f"{name!r} is not a spot of this table, must be one of {names}")
+        raise UnknownName(f"{quoted(name)} is not a spot of this table, must be one of {names}")
 
     # --------------------------------------------------------------- queries
     def nose_distance(self, points: np.ndarray) -> np.ndarray:

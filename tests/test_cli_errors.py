@@ -128,6 +128,22 @@ CASES = [
     ("missing-file", "<missing>", "no such file"),
     ("too-large", "<large>", "the file is too large"),
     ("unreadable", "<unreadable>", "cannot read"),
+    # a FIFO once made every command wait for ever (only regular files are read)
+    ("fifo", "<fifo>", "bad.json: is a FIFO (named pipe), not a file; only regular files"),
+    # tables whose values contradict each other (WPA: nose at 62.5-64.5 % of the ball)
+    ("nose-above-ball", lay(table={"preset": "pool-9ft", "ball_diameter_m": 0.03,
+                                   "cushion_nose_height_m": 0.05}),
+     "table.cushion_nose_height_m: a cushion nose 50.0 mm high is not between the centre"),
+    ("mouths-wider-than-table", lay(table={"preset": "pool-9ft", "width_m": 0.3,
+                                           "corner_mouth_m": 0.3}),
+     "the mouths must be narrower than the table"),
+    ("throat-closed", lay(table={"preset": "pool-9ft", "corner_shelf_m": 0.12,
+                                 "corner_jaw_angle_deg": 160}), "at the drop line"),
+    ("too-many-balls", lay(balls={f"b{k}": [1.0, 0.6] for k in range(30_000)}),
+     "balls: 30000 balls is too many, a layout holds at most 64"),
+    ("profile-missing", lay(table={"profile": "gone.json"}),
+     "table.profile: gone.json: no such file"),
+    ("long-value", lay(table="pool-" + "9" * 100_000), "is not a table preset"),
 ]
 
 # The cases that also run as real processes (each twice: check and draw). Not
@@ -138,7 +154,7 @@ SUB = {
     "position-string", "nan", "infinity", "five-thousand-digits", "off-the-table",
     "in-a-pocket", "overlapping-balls", "no-cue-ball",
     "stroke-speed-zero", "physics-unknown-key", "duplicate-ball", "deep-nesting", "folder",
-    "missing-file", "too-large",
+    "missing-file", "too-large", "fifo", "nose-above-ball", "too-many-balls",
 }
 assert len(SUB) >= 25 and SUB <= {c[0] for c in CASES}
 
@@ -156,6 +172,8 @@ def _make(folder: Path, content) -> str:
         with open(path, "wb") as fh:
             fh.write(lay().encode())
             fh.truncate(11 * 1024 * 1024)
+    elif content == "<fifo>":
+        os.mkfifo(path)
     elif content == "<unreadable>":
         path.write_text(lay())
         path.chmod(0)
@@ -178,6 +196,8 @@ def _params(names=None):
         marks = []
         if cid == "unreadable" and IS_ROOT:
             marks.append(pytest.mark.skip(reason="root can read a file with no permissions"))
+        if cid == "fifo" and not hasattr(os, "mkfifo"):
+            marks.append(pytest.mark.skip(reason="no FIFOs here"))
         out.append(pytest.param(cid, content, fragment, id=cid, marks=marks))
     return out
 
@@ -185,6 +205,7 @@ def _params(names=None):
 def _assert_one_error_line(stderr: str, fragment: str, where: str):
     lines = stderr.splitlines()
     assert len(lines) == 1, f"{where}: {lines!r}"
+    assert len(lines[0]) < 600, f"{where}: a {len(lines[0])}-character line"
     assert lines[0].startswith("shotplan: error: "), lines[0]
     assert "Traceback" not in stderr
     return lines[0]
@@ -196,6 +217,7 @@ def _assert_check_lines(stderr: str, fragment: str) -> str:
     that says what is wrong (the first)."""
     lines = stderr.splitlines()
     assert "Traceback" not in stderr
+    assert all(len(x) < 600 for x in lines)
     assert lines and all(x.startswith("shotplan: error: bad.json") for x in lines), lines
     if len(lines) > 1:
         n = len(lines) - 1
@@ -308,3 +330,91 @@ def test_import_shotplan_does_not_import_pygame_or_matplotlib():
     out = subprocess.run([sys.executable, "-c", code], env=env, capture_output=True, text=True,
                          timeout=60, check=True).stdout
     assert out.strip() == "[]"
+
+
+# ------------------------------------------------------------- output files
+def _writing_parsers():
+    import argparse
+
+    from shotplan.cli import build_parser
+
+    out = {}
+
+    def walk(parser, name):
+        for action in parser._actions:
+            if isinstance(action, argparse._SubParsersAction):
+                for sub, child in action.choices.items():
+                    walk(child, f"{name} {sub}".strip())
+        opts = {o for a in parser._actions for o in a.option_strings}
+        if opts & {"-o", "--output", "--csv", "--plot", "--screenshot"}:
+            out[name] = opts
+    walk(build_parser(), "")
+    return out
+
+
+def test_every_command_that_writes_takes_force():
+    parsers = _writing_parsers()
+    # the commands that write files (README: Files)
+    assert {"draw", "drill", "position", "study window", "cushion fit",
+            "cushion report", "view"} <= set(parsers)
+    assert all("--force" in opts for opts in parsers.values()), parsers
+
+
+@pytest.mark.skipif(not hasattr(os, "symlink"), reason="symbolic links")
+def test_draw_through_a_link_and_over_a_read_only_file(tmp_path, monkeypatch, capsys):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "ok.json").write_text(lay())
+    (tmp_path / "real.png").write_bytes(b"old")
+    (tmp_path / "link.png").symlink_to("real.png")
+    assert main(["draw", "ok.json", "-o", "link.png", "--dpi", "20"]) == 0
+    assert (tmp_path / "link.png").is_symlink()
+    assert (tmp_path / "real.png").read_bytes().startswith(b"\x89PNG")  # PNG signature
+    capsys.readouterr()
+
+    (tmp_path / "real.png").chmod(0o444)
+    assert main(["draw", "ok.json", "-o", "link.png", "--dpi", "20"]) == 2
+    err = capsys.readouterr().err
+    assert err == ("shotplan: error: link.png: the file is read-only; give --force to "
+                   "replace it\n")
+    before = (tmp_path / "real.png").read_bytes()
+    assert main(["draw", "ok.json", "-o", "link.png", "--dpi", "25", "--force"]) == 0
+    assert (tmp_path / "real.png").read_bytes() != before
+    assert sorted(os.listdir(tmp_path)) == ["link.png", "ok.json", "real.png"]
+
+
+def test_a_newline_in_a_file_name_is_shown_escaped(tmp_path, monkeypatch, capsys):
+    monkeypatch.chdir(tmp_path)
+    assert main(["check", "two\nlines.json"]) == 2
+    err = capsys.readouterr().err
+    assert err == "shotplan: error: 'two\\nlines.json': no such file\n"
+
+
+def test_an_unwritable_output_names_the_path_typed(tmp_path, monkeypatch, capsys):
+    import errno as errno_codes
+
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "ok.json").write_text(lay())
+
+    def full(src, dst):
+        raise OSError(errno_codes.ENOSPC, os.strerror(errno_codes.ENOSPC), str(src))
+
+    monkeypatch.setattr(os, "replace", full)
+    assert main(["draw", "ok.json", "-o", "out.png", "--dpi", "20"]) == 2
+    err = capsys.readouterr().err
+    assert err == f"shotplan: error: out.png: cannot write: {os.strerror(errno_codes.ENOSPC)}\n"
+    assert sorted(os.listdir(tmp_path)) == ["ok.json"]
+
+
+@pytest.mark.parametrize("argv, fragment", [
+    (["study", "aim", "--step", "1e-9"], "--step: 1e-09 deg gives 9e+10 angles"),
+    (["study", "window", "--distances", *[str(0.1 * k) for k in range(1, 14)]],
+     "--distances: 13 values, at most 12"),
+    (["drill", str(ROOT / "assets" / "drills" / "club-night-drills.json"), "--trials",
+      "1000000", "-o", "sheet.pdf"], "simulations, at most 10,000,000 are run"),
+])
+def test_sizes_a_user_types_are_limited(argv, fragment, tmp_path, monkeypatch, capsys):
+    monkeypatch.chdir(tmp_path)
+    assert main(argv) == 2
+    out, err = capsys.readouterr()
+    assert fragment in _assert_one_error_line(err, fragment, argv[0])
+    assert os.listdir(tmp_path) == []

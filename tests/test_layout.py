@@ -468,3 +468,88 @@ def test_odd_file_names_and_ball_ids():
     layout = Layout(pool9(), {"cue": (0.6, 0.6), "a b\n": (1.0, 0.6)})
     (p,) = layout.problems()
     assert p.field == 'balls["a b\\n"]' and "\n" not in str(p).replace(repr("a b\n"), "")
+
+
+# ------------------------------------------------------------- size limits
+def test_at_most_max_balls():
+    from shotplan.layout import MAX_BALLS
+
+    assert MAX_BALLS >= 22  # snooker's full set: the most balls any game racks
+    spec = pool9()
+    many = {f"b{k}": [0.1 + 0.06 * (k % 20), 0.1 + 0.06 * (k // 20)] for k in range(MAX_BALLS)}
+    doc = {"format": "shotplan-layout", "version": 1, "table": "pool-9ft", "balls": many}
+    assert len(Layout.from_dict(doc, "m.json").balls) == MAX_BALLS
+    # 30,000 balls once tried to allocate 13.4 GiB for the pair distances
+    doc["balls"] = {f"b{k}": [1.0, 0.6] for k in range(30_000)}
+    with pytest.raises(LayoutError, match=f"m.json: balls: 30000 balls is too many, a layout "
+                                          f"holds at most {MAX_BALLS}"):
+        Layout.from_dict(doc, "m.json")
+    with pytest.raises(LayoutError, match="too many"):
+        Layout(spec, {f"b{k}": (1.0, 0.6) for k in range(MAX_BALLS + 1)})
+
+
+# ------------------------------------------------------------ table profiles
+@pytest.fixture(scope="module")
+def demo_profile(tmp_path_factory) -> Path:
+    """The profile 'shotplan cushion fit' makes from the demo measurements."""
+    from shotplan.cli import main
+
+    folder = tmp_path_factory.mktemp("profile")
+    measurements = sorted((ASSETS.parent / "measurements").glob("*.csv"))
+    out = folder / "club-table.json"
+    assert main(["cushion", "fit", *map(str, measurements), "-o", str(out)]) == 0
+    return out
+
+
+def _layout_naming(folder: Path, table: object) -> Path:
+    doc = json.loads((ASSETS / "club-night-3-bank-practice.json").read_text())
+    doc["table"] = table
+    p = folder / "uses-profile.json"
+    p.write_text(json.dumps(doc))
+    return p
+
+
+def test_a_layout_names_a_table_profile(demo_profile, tmp_path, monkeypatch):
+    from shotplan.layout import load_table
+
+    profile = json.loads(demo_profile.read_text())
+    expected = TableSpec.preset(profile["table"]["preset"]).with_overrides(
+        {k: v for k, v in profile["table"].items() if k != "preset"})
+    assert expected.overrides  # the fit measured something
+    folder = tmp_path / "layouts"
+    folder.mkdir()
+    (folder / "club-table.json").write_bytes(demo_profile.read_bytes())
+    path = _layout_naming(folder, {"profile": "club-table.json"})
+    monkeypatch.chdir(tmp_path)  # the path is relative to the layout, not to here
+    layout = load_layout(path)
+    assert layout.table == expected
+    assert layout.physics().cushion_restitution == pytest.approx(
+        profile["table"]["cushion_restitution"])
+    # the same profile on the command line, and more values on top of it
+    assert load_table(str(demo_profile)) == expected
+    path = _layout_naming(folder, {"profile": "club-table.json", "corner_mouth_m": 0.11})
+    assert load_layout(path).table == expected.with_overrides({"corner_mouth_m": 0.11})
+    # saved, the layout holds the table itself (a preset and the values)
+    assert Layout.from_json(layout.to_json(), "again") == layout
+
+
+@pytest.mark.parametrize("table, fragment", [
+    ({"profile": "nothing-here.json"}, "uses-profile.json: table.profile: "),
+    ({"profile": 3}, "table.profile: 3 is not a file name"),
+    ({"profile": "club-table.json", "preset": "pool-9ft"}, "give \"profile\" or \"preset\""),
+    ({"profile": "bad-nose.json"}, "bad-nose.json: table.cushion_nose_height_m: a cushion nose"),
+    ({"profile": "wrong.json"}, "is not a table profile file format"),
+])
+def test_bad_profiles_are_one_line(table, fragment, tmp_path):
+    (tmp_path / "club-table.json").write_text(json.dumps(
+        {"format": "shotplan-table-profile", "version": 1, "table": {"preset": "pool-9ft"}}))
+    (tmp_path / "bad-nose.json").write_text(json.dumps(
+        {"format": "shotplan-table-profile", "version": 1,
+         "table": {"preset": "pool-9ft", "ball_diameter_m": 0.03,
+                   "cushion_nose_height_m": 0.05}}))
+    (tmp_path / "wrong.json").write_text(json.dumps({"format": "something-else"}))
+    path = _layout_naming(tmp_path, table)
+    with pytest.raises(LayoutError) as info:
+        load_layout(path)
+    assert fragment in str(info.value) and "\n" not in str(info.value)
+    assert str(info.value).startswith(str(path))

@@ -346,3 +346,129 @@ def test_carom_corner_clearance():
     t = Table(TableSpec.preset("carom"))
     assert t.cushion_clearance(np.array([(0.05, 0.05)]))[0] == pytest.approx(
         0.05 - 29.95413e-3, abs=1e-8)
+
+
+# ------------------------------------------------- overrides checked together
+def test_every_preset_is_consistent():
+    for name in ALL:
+        assert TableSpec.preset(name).problems() == [], name
+
+
+def test_drop_width_and_face_length_by_hand():
+    from shotplan.equipment import drop_width_m, jaw_face_length_m
+    from shotplan.units import inches
+
+    spec = TableSpec.preset("pool-9ft")
+    # Hand-worked, side pocket (WPA numbers): the faces leave the mouth at
+    # 104 deg through the rubber, i.e. 14 deg toward the pocket's middle, so
+    # each closes by shelf * tan(14 deg) and the face is shelf / cos(14 deg):
+    # 5.0625 in - 2 * 0.1875 in * tan(14 deg) = 4.9690 in.
+    assert drop_width_m("side", spec.side) == pytest.approx(
+        inches(5.0625 - 2 * 0.1875 * math.tan(math.radians(14.0))), rel=1e-12)
+    assert jaw_face_length_m("side", spec.side) == pytest.approx(
+        inches(0.1875) / math.cos(math.radians(14.0)), rel=1e-12)
+    # Corner: 142 deg through the rubber is 7 deg past parallel (135 deg).
+    assert drop_width_m("corner", spec.corner) == pytest.approx(
+        inches(4.5625 - 2 * 1.625 * math.tan(math.radians(7.0))), rel=1e-12)
+    # ... and the same numbers measured on the built geometry
+    t = Table(spec)
+    for p in t.pockets:
+        j0, j1 = p.jaws
+        assert math.dist(j0.face_end, j1.face_end) == pytest.approx(
+            drop_width_m(p.kind, p.spec), abs=1e-12)
+        assert math.dist(j0.point, j0.face_end) == pytest.approx(
+            jaw_face_length_m(p.kind, p.spec), abs=1e-12)
+
+
+def _refused(preset: str, overrides: dict, *fragments: str) -> str:
+    from shotplan.errors import LayoutError
+
+    with pytest.raises(LayoutError) as info:
+        TableSpec.preset(preset).with_overrides(overrides, where="t.json: table")
+    text = str(info.value)
+    assert "\n" not in text and text.startswith("t.json: table.")
+    for f in fragments:
+        assert f in text, text
+    return text
+
+
+def test_a_nose_above_the_ball_or_below_its_centre_is_refused():
+    # A 30 mm ball under a 50 mm nose once gave speeds of 1e14 m/s. The
+    # nose must meet the ball above its equator and below its top (Han 2005
+    # geometry: contact height h - R above the centre, |h - R| < R).
+    _refused("pool-9ft", {"ball_diameter_m": 0.03, "cushion_nose_height_m": 0.05},
+             "table.cushion_nose_height_m: a cushion nose 50.0 mm high is not between the "
+             "centre (15.0 mm) and the top (30.0 mm)")
+    _refused("pool-9ft", {"cushion_nose_height_m": 0.02}, "cushion_nose_height_m", "20.0 mm")
+    # the ball changed alone: the ball is named
+    _refused("pool-9ft", {"ball_diameter_m": 0.1}, "table.ball_diameter_m:")
+    # a nose just under the top is strange but a table
+    TableSpec.preset("pool-9ft").with_overrides({"ball_diameter_m": 0.03,
+                                                 "cushion_nose_height_m": 0.029})
+
+
+def test_mouths_must_fit_the_table_and_pass_a_ball():
+    # 300 mm corner mouths on a 300 mm wide table: 2 * 300 / sqrt(2) of the
+    # end rail is mouth, more than the rail (this crashed 'draw').
+    _refused("pool-9ft", {"width_m": 0.3, "corner_mouth_m": 0.3},
+             "table.corner_mouth_m:", "leave none of cushion on the 0.3 m end rails")
+    _refused("pool-9ft", {"length_m": 0.5, "side_mouth_m": 0.3}, "long rails")
+    _refused("pool-9ft", {"corner_mouth_m": 0.05},
+             "a mouth of 50.0 mm is not wider than the 57.1 mm ball")
+    # 160 deg jaws 120 mm deep close a 115.9 mm mouth by 2 * 120 * tan(25 deg) = 111.9 mm
+    _refused("pool-9ft", {"corner_shelf_m": 0.12, "corner_jaw_angle_deg": 160.0},
+             "to 4.0 mm at the drop line")
+
+
+def test_a_measured_tip_radius_must_fit_its_face():
+    # side face 4.9 mm (see the hand-worked test); a 10 mm tip needs
+    # 10 / tan(52 deg) = 7.8 mm of it; at most 4.9 * tan(52 deg) = 6.3 mm fits
+    _refused("pool-9ft", {"side_jaw_tip_radius_m": 0.01},
+             "table.side_jaw_tip_radius_m: a 10.0 mm jaw tip does not fit on the 4.9 mm jaw "
+             "face", "at most 6.3 mm")
+    _refused("pool-9ft", {"side_shelf_m": 0.0, "side_jaw_tip_radius_m": 0.003},
+             "with a side shelf of 0 the drop line is the mouth line")
+    # the preset's remembered radius shrinks on a shallow shelf instead
+    spec = TableSpec.preset("pool-9ft").with_overrides({"side_shelf_m": 0.002})
+    jaw = Table(spec).pocket("side-left").jaws[0]
+    assert jaw.tip_radius < spec.side.jaw_tip_radius_m
+    assert math.dist(jaw.point, jaw.face_tangent) < math.dist(jaw.point, jaw.face_end)
+
+
+def test_markings_must_stay_on_the_table():
+    _refused("snooker", {"width_m": 0.5}, "table.width_m: the yellow spot falls off")
+    _refused("snooker", {"length_m": 1.0}, "the baulk line")
+
+
+@pytest.mark.parametrize("key", ["corner_shelf_m", "side_shelf_m"])
+def test_a_shelf_of_zero_drops_at_the_mouth(key):
+    """A shelf of 0 (the docs allow it; WPA allows 0 for the side pocket)
+    puts the drop line on the mouth line, with sharp jaws; it once divided
+    by zero in the physics."""
+    from shotplan import Layout
+    from shotplan.physics import simulate
+    from shotplan.stroke import Stroke
+
+    spec = TableSpec.preset("pool-9ft").with_overrides({key: 0.0})
+    t = Table(spec)
+    kind = key.split("_")[0]
+    for p in t.pockets:
+        if p.kind != kind:
+            continue
+        for jaw in p.jaws:
+            assert jaw.face_end == pytest.approx(jaw.point, abs=1e-15)
+            assert jaw.tip_radius == 0.0
+    seg = np.hypot(t.cushion_lines[:, 2] - t.cushion_lines[:, 0],
+                   t.cushion_lines[:, 3] - t.cushion_lines[:, 1])
+    assert np.all(seg > 0)  # no zero-length face
+    # a ball rolled straight down the pocket's axis drops (plane geometry:
+    # aimed at the middle of the mouth, it never meets a jaw)
+    pocket = t.pocket("foot-left" if kind == "corner" else "side-left")
+    mx, my = pocket.mouth_centre
+    ax, ay = pocket.axis
+    start = (mx - 0.5 * ax, my - 0.5 * ay)
+    lay = Layout(spec, {"cue": start})
+    out = simulate(lay, Stroke(math.degrees(math.atan2(ay, ax)), 1.5))
+    assert out.final["cue"]["state"] == "pocketed"
+    assert out.final["cue"]["pocket"] == pocket.name
+    assert t.bed.is_valid and all(c.is_valid for c in t.cushions)
