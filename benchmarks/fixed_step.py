@@ -14,7 +14,9 @@ as much of it as possible is the engine's own compiled code:
   therefore carries no stepping error, and the only error left is the one
   fixed steps are known for: contacts are found late, at the end of a step.
 * impacts: ``shotplan.physics.collide.ball_ball`` and ``ball_cushion``, the
-  engine's impact laws, with the engine's restitution and friction values.
+  engine's impact laws, with the engine's restitution and friction values,
+  and after a cushion or jaw impact the engine's ``_settle`` (a ball whose
+  rebounds would die out within a cushion contact time stays on the rubber).
 * cushions, jaw faces, the corners where jaw faces end, rounded jaw tips and
   drop lines: the engine's geometry arrays (``Simulator.lines``,
   ``circles``, ``drops``).
@@ -54,6 +56,7 @@ import numpy as np
 
 import shotplan.physics  # noqa: F401  (sets numba's cache folder before the kernels below)
 from shotplan.physics.collide import ball_ball, ball_cushion
+from shotplan.physics.engine import _settle
 from shotplan.physics.motion import classify
 from shotplan.physics.state import (
     P_E_B,
@@ -315,10 +318,13 @@ def _resolve(s, kind, a, b, pos, vel, om, st, prm, lines, circles):  # type: ign
             hn = math.hypot(hx, hy)
             hx /= hn
             hy /= hn
-        if jaw:
-            ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_J], prm[P_E_C_SLOPE], prm[P_MU_J])
-        else:
-            ball_cushion(a, hx, hy, pos, vel, om, prm, prm[P_E_C], prm[P_E_C_SLOPE], prm[P_MU_C])
+        vn_in = vel[a, 0] * hx + vel[a, 1] * hy
+        e0 = prm[P_E_J] if jaw else prm[P_E_C]
+        ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
+                     prm[P_MU_J] if jaw else prm[P_MU_C])
+        # As the engine does after a cushion or jaw impact: a rebound series
+        # that would be over within one contact time leaves the ball on the rubber.
+        _settle(a, hx, hy, vn_in, max(e0 - prm[P_E_C_SLOPE] * (-vn_in), 0.05), vel, om, prm)
     pos[a, 0] += vel[a, 0] * s
     pos[a, 1] += vel[a, 1] * s
     classify(a, vel, om, st, prm)
