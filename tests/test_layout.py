@@ -84,18 +84,6 @@ def _first_hit(cue, direction, others, two_r):
     return best
 
 
-def _crosses_mouth(start, direction, pocket):
-    """Where a ray crosses the pocket's mouth line, as a distance from the
-    mouth's middle, or None if it does not reach it."""
-    a, b = np.array(pocket.jaws[0].point), np.array(pocket.jaws[1].point)
-    along = b - a
-    m = np.array([[direction[0], -along[0]], [direction[1], -along[1]]])
-    t, s = np.linalg.solve(m, a - start)
-    if t <= 0:
-        return None
-    return abs(s - 0.5) * np.linalg.norm(along)
-
-
 DEMO_SHOTS = [
     # file, object ball, pocket (None: the break), cut angle deg, bank off y = c
     ("club-night-1-straight-in", "1", "foot-left", 0.0, False),
@@ -109,31 +97,35 @@ DEMO_SHOTS = [
 
 @pytest.mark.parametrize("stem, ball, pocket, cut_deg, bank", DEMO_SHOTS,
                          ids=[s[0] for s in DEMO_SHOTS])
-def test_demo_strokes_aim_through_the_ghost_ball(stem, ball, pocket, cut_deg, bank):
+def test_demo_geometry_is_the_shot_its_title_names(stem, ball, pocket, cut_deg, bank):
+    """The balls stand for the cut the demo names (ghost-ball method, common
+    practice, no source), and the stroke strikes that ball first, aimed within
+    a degree of the ghost ball. (The demo strokes may aim a little off the
+    ghost ball to allow for throw, as players do; what they then do is
+    checked by the demo-claim tests.)"""
     layout = load_layout(ASSETS / f"{stem}.json")
     geo = layout.geometry
     two_r = layout.table.ball.diameter_m
     pos = {b: np.array(xy) for b, xy in layout.balls}
     cue = pos.pop("cue")
     d = np.array([math.cos(layout.stroke.direction), math.sin(layout.stroke.direction)])
-    t, hit = _first_hit(cue, d, pos, two_r)
+    _t, hit = _first_hit(cue, d, pos, two_r)
     assert hit == ball
-    ghost = cue + t * d
-    ob_dir = (pos[ball] - ghost) / two_r  # along the line of centres at contact
-    cut = math.degrees(math.acos(np.clip(np.dot(ob_dir, d), -1.0, 1.0)))
-    assert cut == pytest.approx(cut_deg, abs=0.5)
-    if pocket is None:
+    if pocket is None:  # the break: straight at the apex ball
+        ghost_dir = (pos[ball] - cue) / np.linalg.norm(pos[ball] - cue)
+        assert math.degrees(math.acos(np.clip(np.dot(ghost_dir, d), -1, 1))) < 0.5
         return
-    start = pos[ball]
+    target = np.array(geo.pocket(pocket).mouth_centre)
     if bank:
-        # mirror reflection in the line the ball's centre meets the rail on
-        c = geo.contact_offset
-        assert ob_dir[1] < 0
-        s = (c - start[1]) / ob_dir[1]
-        start = start + s * ob_dir
-        ob_dir = ob_dir * np.array([1.0, -1.0])
-    miss = _crosses_mouth(start, ob_dir, geo.pocket(pocket))
-    assert miss is not None and miss < 0.005  # within 5 mm of the mouth's middle
+        # mirror the mouth in the line the ball's centre meets the rail on (y = c)
+        target = np.array([target[0], 2 * geo.contact_offset - target[1]])
+    ob_dir = (target - pos[ball]) / np.linalg.norm(target - pos[ball])
+    ghost = pos[ball] - two_r * ob_dir
+    aim = (ghost - cue) / np.linalg.norm(ghost - cue)
+    cut = math.degrees(math.acos(np.clip(np.dot(aim, ob_dir), -1.0, 1.0)))
+    assert cut == pytest.approx(cut_deg, abs=0.5)
+    off = math.degrees(math.acos(np.clip(np.dot(aim, d), -1.0, 1.0)))
+    assert off < 1.0, off
     # no other ball stands within 2R of the object ball's (first) path
     for other, o in pos.items():
         if other == ball:
