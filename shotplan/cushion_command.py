@@ -160,6 +160,8 @@ def _run_fit(args: argparse.Namespace) -> int:
                                   firm_speed_mps=args.firm_speed, progress=bar)
     finally:
         bar.close()
+    for w in result.warnings:
+        print(f"warning: {w}", file=sys.stderr)
     figure = _fit_figure(result) if plot is not None else None
     if out is not None:
         write_profile(result, out)
@@ -180,7 +182,9 @@ def _run_fit(args: argparse.Namespace) -> int:
     return 0
 
 
-def _pm(e: Any, digits: int = 4) -> str:
+def _pm(e: Any, digits: int = 4, degenerate: bool = False) -> str:
+    if degenerate:
+        return f"{e.value:.{digits}g} (standard error not estimable)"
     return f"{e.value:.{digits}g} +- {e.se:.2g}"
 
 
@@ -206,7 +210,7 @@ def _fit_lines(result: Any) -> list[str]:
         fit = kf.chosen
         lines.append(f"{title}: {fit.model}")
         for e in fit.estimates:
-            lines.append(f"  {e.name:<27} {_pm(e)}")
+            lines.append(f"  {e.name:<27} {_pm(e, degenerate=bool(fit.degenerate))}")
         for k, v in fit.fixed:
             lines.append(f"  {k:<27} {v:g} (not fitted)")
         lines.append(f"  {len(fit.rows)} rows used of {len(kf.all_rows.rows)}; residual "
@@ -220,7 +224,8 @@ def _fit_lines(result: Any) -> list[str]:
         if kf.without_outliers is not None:
             other = kf.without_outliers if kf.used == "all rows" else kf.all_rows
             label = "without the outliers" if kf.used == "all rows" else "with all rows"
-            lines.append(f"  {label}: " + ", ".join(f"{e.name} {_pm(e)}" for e in other.estimates))
+            lines.append(f"  {label}: " + ", ".join(
+                f"{e.name} {_pm(e, degenerate=bool(other.degenerate))}" for e in other.estimates))
     for n in result.notes:
         lines.append(f"note: {n}")
     t = result.simulated_test
@@ -418,7 +423,9 @@ def _curve_panel(ax: Any, curves: Sequence[Any], spin: str, rolled: bool) -> Non
         colour = _SPEED_COLOURS[k % len(_SPEED_COLOURS)]
         prof = c.profile_rolled_deg if rolled else c.profile_out_deg
         pre = c.preset_rolled_deg if rolled else c.preset_out_deg
-        ax.plot(c.angle_in_deg, prof, "-", color=colour, lw=1.6, label=f"{c.speed_mps:g} m/s")
+        label = f"{c.speed_mps:g} m/s" + (" (extrapolated)" if c.extrapolated else "")
+        ax.plot(c.angle_in_deg, prof, "--" if c.extrapolated else "-", color=colour, lw=1.6,
+                label=label)
         ax.plot(c.angle_in_deg, pre, ":", color=colour, lw=1.2)
     ax.plot([0, 90], [0, 90], color="#bbbbbb", lw=1, zorder=0, label="mirror")
     ax.set_xlim(0, 90)
@@ -431,8 +438,11 @@ def _curve_panel(ax: Any, curves: Sequence[Any], spin: str, rolled: bool) -> Non
 
 def _curves_figure(report: Any) -> Any:
     fig = _new_figure((8.27, 8.5))
-    fig.suptitle("Rebound angle against incoming angle: profile (solid), preset (dotted)",
-                 fontsize=11)
+    top = report.rebound_test.measured_up_to_mps
+    beyond = (f"; profile dashed above the measured {top:.2f} m/s (extrapolated)"
+              if top is not None and any(c.extrapolated for c in report.curves) else "")
+    fig.suptitle("Rebound angle against incoming angle: profile (solid), preset (dotted)"
+                 + beyond, fontsize=11 if not beyond else 9)
     grid = fig.add_gridspec(2, 2, hspace=0.35, wspace=0.3, top=0.92, bottom=0.07)
     for i, rolled in enumerate((False, True)):
         for j, spin in enumerate(("stun", "rolling")):
@@ -451,6 +461,12 @@ def _test_curves(ax: Any, report: Any) -> None:
     ax.plot(t.speeds_mps, t.preset_lengths, ":", color=_PRESET, lw=1.5, label="preset")
     ax.axvline(t.firm_speed_mps, color="#444444", lw=0.8, ls="--",
                label=f"firm stroke ({t.firm_speed_mps:g} m/s, our reading)")
+    top = t.measured_up_to_mps
+    if top is not None and top < float(max(t.speeds_mps)):
+        # Launches above every measured cushion speed: the profile's curve
+        # there is an extrapolation of the fitted law; shade it and say so.
+        ax.axvspan(top, float(max(t.speeds_mps)), color="#dddddd", alpha=0.6, lw=0, zorder=0,
+                   label=f"profile extrapolated (measured up to {top:.2f} m/s)")
     ax.legend(fontsize=7, loc="lower right")
 
 

@@ -88,6 +88,7 @@ Its ``table`` object holds only keys of
 from __future__ import annotations
 
 import csv
+import dataclasses
 import math
 import os
 from collections.abc import Callable, Mapping, Sequence
@@ -117,6 +118,12 @@ __all__ = [
     "FIRM_STROKE_MPS",
     "BANK_SPEED_MPS",
     "CAUTIONS",
+    "SLATE_9FT_KG",
+    "SLATE_9FT_LB",
+    "EXTRAPOLATED",
+    "measured_up_to",
+    "MAX_ROWS",
+    "ZERO_SPREAD_RELATIVE",
     "ReboundRow",
     "RolloutRow",
     "ReboundTestRow",
@@ -210,12 +217,35 @@ REBOUND_TEST_MIN_ROWS = 2
 MAX_FILE_BYTES = 10 * 1024 * 1024
 """Largest measurement file read (10 MB is far more than any test series)."""
 
+MAX_ROWS = 10_000
+"""Most data rows read, over all the files of one fit. Our choice: a day at
+the table gives a few hundred rows; every rebound row costs the fit a pass
+through the cushion law per step, so 10,000 rows fit in about 15 s (measured
+on a 2-core machine), where 300,000 took minutes. More rows are refused in one line before any fitting."""
+
+SLATE_DENSITY_KG_M3 = 2750.0
+"""Density of slate, kg/m^3 (from memory: 2.7 to 2.8 t/m^3)."""
+
+SLATE_9FT_IN = (111.0, 61.0, 1.0)
+"""Size of a 9-ft table's slate, inches: the 100 x 50 in bed and the slate
+under the rails, 1 inch thick (from memory)."""
+
+SLATE_9FT_KG = 300
+"""Weight of the three-piece 1-inch slate of a 9-ft table, kg, rounded: the
+size above at the density above is 111 x 61 x 1 in^3 = 0.111 m^3, 305 kg
+(from memory, as its inputs). The one figure the report's cautions and the
+README quote (a test holds the README to it)."""
+
+SLATE_9FT_LB = 670
+"""The same weight in pounds, rounded (305 kg / 0.4536 kg/lb = 672 lb)."""
+
 CAUTIONS: tuple[str, ...] = (
     "This tool only computes; it gives no instructions for table work. Follow the "
     "cushion, cloth and table maker's instructions, and leave slate and rail work to "
     "trained, licensed installers where local practice or law asks for them.",
-    "Slate is heavy: the slate set of a 9-ft table weighs several hundred pounds (from "
-    "memory, roughly 350-450 lb in three pieces). Lift with enough people and proper "
+    f"Slate is heavy: the three-piece 1-inch slate of a 9-ft table weighs about "
+    f"{SLATE_9FT_LB} lb ({SLATE_9FT_KG} kg) in all (from memory). "
+    "Lift with enough people and proper "
     "equipment, and never work under a raised slate or rail without support.",
     "Contact cements used for cushion rubber and cloth are often solvent-based and "
     "flammable: ventilate the room, keep flames and sparks away, wear the gloves and "
@@ -478,6 +508,9 @@ def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:
             continue
         n_row = len(rows) + 1
         where = f"{name}: line {lineno} (row {n_row})"
+        if n_row > MAX_ROWS:
+            raise InputError(f"{where}: more than {MAX_ROWS:,} data rows; a fit takes at most "
+                             f"{MAX_ROWS:,} (split the file, or keep a sample of the rows)")
         cells = _split(line)
         if len(cells) != len(header):
             raise InputError(f"{where}: {len(cells)} value{'s' if len(cells) != 1 else ''}, "
@@ -520,6 +553,10 @@ def read_measurements(paths: Sequence[str | os.PathLike[str]]) -> Measurements:
     out = Measurements()
     for p in paths:
         out = out + read_measurement_file(p)
+        if out.n_rows > MAX_ROWS:
+            raise InputError(f"{p}: the files hold {out.n_rows:,} data rows so far; a fit takes "
+                             f"at most {MAX_ROWS:,} over all its files (keep a sample of the "
+                             "rows)")
     return out
 
 
@@ -958,6 +995,9 @@ class ModelFit:
     """Root-mean-square residual of each kind of residual (rebounds: the
     outgoing speed's, relative, and the angle's, degrees; roll-outs: the
     distance's, relative), with the degrees of freedom shared out."""
+    degenerate: str = ""
+    """Why the standard errors cannot be estimated (too few distinct rows,
+    residuals zero to rounding), or ``""`` when they can."""
 
     def estimate(self, name: str) -> Estimate | None:
         """The estimate of ``name``, or None."""
@@ -970,7 +1010,10 @@ class ModelFit:
         """The fit's JSON object."""
         return {
             "model": self.model,
-            "estimates": {e.name: e.to_dict() for e in self.estimates},
+            "estimates": {e.name: {"value": e.value, "se": None if self.degenerate else e.se}
+                          for e in self.estimates},
+            "degenerate": bool(self.degenerate),
+            "degenerate_reason": self.degenerate or None,
             "fixed": dict(self.fixed),
             "rows_used": len(self.rows),
             "rss": self.rss,
@@ -1223,8 +1266,51 @@ def _flag(fit: ModelFit) -> ModelFit:
         RowResult(r.kind, r.file, r.line, r.measured, r.predicted, r.residuals, r.z,
                   bool(r.z) and max(abs(v) for v in r.z) > OUTLIER_Z)
         for r in fit.rows)
-    return ModelFit(fit.kind, fit.model, fit.estimates, fit.fixed, flagged, fit.rss, fit.sigma,
-                    fit.dof, fit.residual_unit, fit.iterations, fit.correlation, fit.spreads)
+    return dataclasses.replace(fit, rows=flagged)
+
+
+ZERO_SPREAD_RELATIVE = 1e-9
+"""Residuals below this fraction of the values they belong to are zero to
+rounding: no measuring device comes near (a speed gate or a video frame is
+good to a per cent or so; common practice, no source), so rows that fit this
+well are copies, not measurements."""
+
+
+def _degeneracy(fit: ModelFit, where: str) -> ModelFit:
+    """The fit with ``degenerate`` set when its standard errors mean nothing,
+    or an :class:`InputError` when its values are not determined at all.
+
+    Identical rows repeat one measurement: ``k`` distinct rows with ``r``
+    residuals each determine at most ``k r`` values, and estimate their
+    spread only when ``k r`` exceeds the number of values ``p`` (linear
+    least squares: ``sigma^2 = RSS / (m - p)``). Residuals zero to rounding
+    say the same from the other side: the errors come out as rounding
+    (the ``+- 9.1e-17`` of five copied rows)."""
+    if not fit.estimates or not fit.rows:
+        return fit
+    p = len(fit.estimates)
+    per_row = max(len(fit.rows[0].residuals), 1)
+    distinct = len({r.measured for r in fit.rows})
+    n = len(fit.rows)
+    names = " and ".join(e.name for e in fit.estimates)
+    if distinct * per_row < p:
+        raise InputError(f"{where}: the {n} row{'s' if n != 1 else ''} hold only {distinct} "
+                         f"distinct measurement{'s' if distinct != 1 else ''}, too few to "
+                         f"determine {names}; measure at other speeds and angles")
+    why = ""
+    if distinct * per_row == p:
+        why = (f"the {n} rows hold only {distinct} distinct measurement"
+               f"{'s' if distinct != 1 else ''}: the fit passes through "
+               f"{'it' if distinct == 1 else 'them'} exactly and its standard errors cannot "
+               "be estimated; measure more shots, at other speeds and angles")
+    else:
+        scale = [max(abs(v) for _k, v in r.predicted) for r in fit.rows]
+        if all(abs(res) <= ZERO_SPREAD_RELATIVE * max(sc, 1e-300)
+               for r, sc in zip(fit.rows, scale, strict=True) for res in r.residuals):
+            why = ("the fit reproduces every row to rounding (residual spread zero), as only "
+                   "copied or made-up rows do: its standard errors cannot be estimated; "
+                   "measure the shots one by one")
+    return dataclasses.replace(fit, degenerate=why) if why else fit
 
 
 def _choose_restitution(data: _Rebounds, model: str, defaults: Physics
@@ -1269,6 +1355,7 @@ def _fit_kind(kind: str, rows: Sequence[Row], fit_rows: Callable[[Sequence[Row]]
               drop_outliers: bool, min_rows: int) -> KindFit:
     """All rows, the outlier flags, and the fit without the flagged rows."""
     first, alternatives, notes = fit_rows(rows)
+    first = _degeneracy(first, _where(rows))
     flagged = _flag(first) if len(rows) >= MIN_ROWS_FOR_OUTLIERS else first
     notes = list(notes)
     if len(rows) < MIN_ROWS_FOR_OUTLIERS:
@@ -1282,6 +1369,7 @@ def _fit_kind(kind: str, rows: Sequence[Row], fit_rows: Callable[[Sequence[Row]]
         if len(keep) >= min_rows:
             try:
                 without, _alt, more = fit_rows(keep)
+                without = _degeneracy(without, _where(keep))
                 notes.extend(f"without outliers: {m}" for m in more)
             except ShotplanError as e:
                 notes.append(f"without the outliers the fit fails: {e}")
@@ -1425,7 +1513,6 @@ def _rebound_test_fit(rows: Sequence[ReboundTestRow], spec: TableSpec, physics: 
     speeds = np.array([r.launch_speed_mps for r in rows])
     measured = np.array([r.table_lengths for r in rows])
     table = _geometry(spec)
-    import dataclasses
 
     def lengths(e0: float) -> np.ndarray:
         ph = dataclasses.replace(physics, cushion_restitution=float(e0))
@@ -1535,6 +1622,25 @@ class FitResult:
                     return e
         return None
 
+    def _fits(self) -> tuple[KindFit, ...]:
+        return tuple(kf for kf in (self.rebound, self.rollout, self.rebound_test)
+                     if kf is not None and kf.chosen.estimates)
+
+    def degenerate(self, name: str) -> bool:
+        """Whether the standard error of the used estimate of ``name`` cannot
+        be estimated (see :attr:`ModelFit.degenerate`)."""
+        for kf in self._fits():
+            if kf.chosen.estimate(name) is not None and kf.chosen.degenerate:
+                return True
+        return False
+
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        """One line per fit the profile takes whose standard errors cannot be
+        estimated."""
+        return tuple(f"{kf.kind.replace('_', '-')} fit: {kf.chosen.degenerate}"
+                     for kf in self._fits() if kf.chosen.degenerate)
+
     @property
     def outliers(self) -> tuple[RowResult, ...]:
         """Every flagged row, of every kind."""
@@ -1569,7 +1675,7 @@ class FitResult:
                     "cloth_rolling_resistance", "cloth_sliding_friction"):
             e = self.estimate(key)
             doc[key] = e.value if e is not None else self.overrides().get(key)
-            doc[f"{key}_se"] = e.se if e is not None else None
+            doc[f"{key}_se"] = e.se if e is not None and not self.degenerate(key) else None
         doc["restitution_model"] = (
             ("linear" if self.rebound.chosen.estimate("cushion_restitution_slope") else "constant")
             if self.rebound is not None else
@@ -1587,6 +1693,8 @@ class FitResult:
             if self.simulated_test is not None else None)
         doc["measured_rebound_test_meets_minimum"] = self.measured_test_meets_minimum()
         doc["notes"] = list(self.notes)
+        doc["degenerate"] = bool(self.warnings)
+        doc["warnings"] = list(self.warnings)
         return doc
 
     def profile_dict(self) -> dict[str, Any]:
@@ -1819,6 +1927,9 @@ def write_profile(result: FitResult, path: str | os.PathLike[str]) -> Path:
 
 
 # ------------------------------------------------------------------ the report
+EXTRAPOLATED = "extrapolated beyond the measured speeds"
+"""The words marking a figure computed at a speed above every measured one."""
+
 REPORT_SPEEDS_MPS = (1.0, 2.0, 3.0, 4.0)
 """Incoming speeds of the report's rebound-angle curves, m/s."""
 
@@ -1847,10 +1958,13 @@ class ReboundCurve:
     """Angle once the ball rolls again (the cloth has taken the slip), profile."""
     preset_rolled_deg: np.ndarray
     """The same on the plain preset."""
+    extrapolated: bool = False
+    """Whether the speed is above every cushion speed the profile measured."""
 
     def to_dict(self) -> dict[str, Any]:
         """The curve's JSON object."""
         return {"spin": self.spin, "speed_mps": self.speed_mps,
+                "extrapolated": self.extrapolated,
                 "angle_in_deg": self.angle_in_deg.tolist(),
                 "profile_out_deg": self.profile_out_deg.tolist(),
                 "preset_out_deg": self.preset_out_deg.tolist(),
@@ -1882,6 +1996,8 @@ class BankComparison:
     """The same on the preset."""
     sight_spacing_m: float | None
     """Distance between sights (diamonds), m, or None."""
+    extrapolated: bool = False
+    """Whether the bank's speed is above every cushion speed the profile measured."""
 
     @property
     def difference_deg(self) -> float | None:
@@ -1902,6 +2018,7 @@ class BankComparison:
         return {
             "ball": self.ball, "pocket": self.pocket, "rail": self.rail,
             "speed_mps": self.speed_mps,
+            "extrapolated": self.extrapolated,
             "balls": {b: list(xy) for b, xy in self.layout.positions().items()},
             "profile_aim_deg": self.profile_shot.direction_deg if self.profile_shot else None,
             "preset_aim_deg": self.preset_shot.direction_deg if self.preset_shot else None,
@@ -1939,10 +2056,26 @@ class ReboundTestComparison:
     """Lowest speed reaching the standard's minimum, profile (None: not below 15 m/s)."""
     preset_speed_for_minimum: float | None
     """The same, preset."""
+    measured_up_to_mps: float | None = None
+    """The fastest cushion speed the profile measured (None: it measured none)."""
+
+    def beyond(self, speed_mps: float | None) -> bool:
+        """Whether a profile figure at this launch speed is an extrapolation:
+        faster than anything measured (``None``, "not below 15 m/s", counts
+        as faster). A preset's figures are never extrapolations."""
+        if self.measured_up_to_mps is None:
+            return False
+        return speed_mps is None or speed_mps > self.measured_up_to_mps
 
     def to_dict(self) -> dict[str, Any]:
         """The comparison's JSON object."""
         return {"firm_speed_mps": self.firm_speed_mps, "firm_speed_note": _FIRM_NOTE,
+                "measured_up_to_mps": self.measured_up_to_mps,
+                "profile_extrapolated": self.beyond(self.firm_speed_mps),
+                "profile_speed_for_minimum_extrapolated": self.beyond(
+                    self.profile_speed_for_minimum),
+                "profile_lengths_extrapolated": [self.beyond(float(v))
+                                                 for v in self.speeds_mps],
                 "standard_minimum": STANDARD_MIN_LENGTHS,
                 "standard_upper": STANDARD_MAX_LENGTHS,
                 "profile": self.profile.to_dict(), "preset": self.preset.to_dict(),
@@ -1982,8 +2115,18 @@ class ProfileReport:
             "rebound_curves": [c.to_dict() for c in self.curves],
             "bank": self.bank.to_dict() if self.bank is not None else None,
             "standard_rebound_test": self.rebound_test.to_dict(),
+            "measured_up_to_mps": self.rebound_test.measured_up_to_mps,
+            "extrapolated": self.extrapolated,
             "cautions": list(self.cautions),
         }
+
+    @property
+    def extrapolated(self) -> bool:
+        """Whether any profile figure of the report lies beyond the measured speeds."""
+        t = self.rebound_test
+        return (t.beyond(t.firm_speed_mps) or t.beyond(t.profile_speed_for_minimum)
+                or any(c.extrapolated for c in self.curves)
+                or (self.bank is not None and self.bank.extrapolated))
 
     def lines(self) -> list[str]:
         """The report as text lines."""
@@ -2010,16 +2153,22 @@ class ProfileReport:
                                                                  strict=True))
                        + (f"; {flagged} flagged as outliers by the fit" if flagged else ""))
         t = self.rebound_test
+        if t.measured_up_to_mps is not None:
+            out.append(f"measured cushion speeds up to {t.measured_up_to_mps:.2f} m/s: profile "
+                       f"figures at higher speeds are {EXTRAPOLATED}")
+        firm_mark = f" ({EXTRAPOLATED})" if t.beyond(t.firm_speed_mps) else ""
         out.append(f"standard rebound test (centre-ball stroke from the head spot at "
                    f"{t.firm_speed_mps:g} m/s, our reading of 'firm'): profile "
-                   f"{t.profile.table_lengths:.2f} table lengths, preset "
+                   f"{t.profile.table_lengths:.2f} table lengths{firm_mark}, preset "
                    f"{t.preset.table_lengths:.2f}; the standard asks at least "
                    f"{STANDARD_MIN_LENGTHS:g} to {STANDARD_MAX_LENGTHS:g}: the profile "
-                   + ("meets" if t.profile.meets_minimum else "does not meet") + " it")
+                   + ("meets" if t.profile.meets_minimum else "does not meet") + " it"
+                   + firm_mark)
         for who, v in (("profile", t.profile_speed_for_minimum),
                        ("preset", t.preset_speed_for_minimum)):
+            mark = f" ({EXTRAPOLATED})" if who == "profile" and t.beyond(v) else ""
             out.append(f"  {who}: {STANDARD_MIN_LENGTHS:g} table lengths need a launch of "
-                       + (f"{v:.2f} m/s" if v is not None else "more than 15 m/s"))
+                       + (f"{v:.2f} m/s" if v is not None else "more than 15 m/s") + mark)
         b = self.bank
         if b is None:
             out.append("one-rail bank: not compared (the table has no pockets)")
@@ -2199,6 +2348,7 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
     step(0.1, "measured rows")
     checks = _checks(profile)
     step(0.2, "standard rebound test")
+    top = measured_up_to(profile)
     table = _geometry(spec)
     table0 = _geometry(base)
     speeds = np.array(REPORT_TEST_SPEEDS_MPS)
@@ -2214,8 +2364,24 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
         standard_rebound_test(base, phys0, firm_speed_mps, table0),
         speeds, prof_l, pre_l,
         speed_for_lengths(spec, phys, table=table),
-        speed_for_lengths(base, phys0, table=table0))
+        speed_for_lengths(base, phys0, table=table0),
+        top)
     step(0.7, "one-rail bank")
     bank = _bank(profile, bank_speed_mps)
+    if bank is not None:
+        bank = dataclasses.replace(bank, extrapolated=comparison.beyond(bank.speed_mps))
+    curves = [dataclasses.replace(c, extrapolated=comparison.beyond(c.speed_mps))
+              for c in curves]
     step(1.0, "done")
     return ProfileReport(profile, tuple(curves), bank, comparison, checks)
+
+
+def measured_up_to(profile: Profile) -> float | None:
+    """The fastest cushion speed a profile's rows measured, m/s: the incoming
+    speed of its rebound rows and the launch speed of its rebound-test rows
+    (which meets the cushion slower still, so a launch above it is beyond
+    what was measured). None when it records neither."""
+    m = profile.measurements()
+    speeds = [r.speed_in_mps for r in m.rebounds] + [r.launch_speed_mps
+                                                     for r in m.rebound_tests]
+    return max(speeds) if speeds else None

@@ -408,3 +408,172 @@ def test_progress_bar_only_on_a_terminal(monkeypatch, capsys):
             assert fake.text.endswith("\r")  # the line is cleared at the end
         else:
             assert fake.text == ""
+
+
+# ------------------------------------------------------------ degenerate fits
+def _strict(text: str) -> dict:
+    def bad(c: str) -> None:
+        raise ValueError(c)
+    return json.loads(text, parse_constant=bad)
+
+
+def test_identical_rows_fit_but_say_their_errors_cannot_be_estimated(tmp_path, capsys):
+    # Five copies of one rebound: two residuals (speed and angle out) for two
+    # values (e0 and the friction) -- the fit passes through the one
+    # measurement exactly, and sigma^2 = RSS / (m - p) has no distinct
+    # degrees of freedom (linear least squares; common practice, no source).
+    # It used to print "+- 9.1e-17" without a word.
+    data = write_rebounds(tmp_path / "same.csv", [(1.5, 45.0, 1.2, 50.0, "stun")] * 5)
+    assert main(["cushion", "fit", str(data)]) == 0
+    cap = capsys.readouterr()
+    warn = [ln for ln in cap.err.splitlines() if ln.startswith("warning: ")]
+    assert len(warn) == 1 and "1 distinct measurement" in warn[0], cap.err
+    assert "+-" not in cap.out and "standard error not estimable" in cap.out
+    assert main(["cushion", "fit", str(data), "--json"]) == 0
+    doc = _strict(capsys.readouterr().out)
+    assert doc["degenerate"] is True and len(doc["warnings"]) == 1
+    assert doc["cushion_restitution_se"] is None and doc["cushion_friction_se"] is None
+    fit = doc["fits"]["rebound"]["all_rows"]
+    assert fit["degenerate"] is True and "distinct" in fit["degenerate_reason"]
+    assert all(e["se"] is None for e in fit["estimates"].values())
+    assert 0.0 < doc["cushion_restitution"] < 1.0  # the value itself is still given
+
+
+def test_rows_reproduced_to_rounding_are_flagged():
+    # Rows made by the cushion law itself, with no noise, at distinct
+    # settings: the residuals vanish to rounding, which no real measurement
+    # does, and the standard errors would be rounding too.
+    rows = rebound_rows(8, seed=4, noise=0.0, slope=0.0)
+    result = cf.fit_measurements(measurements(rows), restitution="constant")
+    assert result.rebound.chosen.degenerate
+    assert "rounding" in result.warnings[0]
+    assert result.to_dict()["cushion_restitution_se"] is None
+
+
+def test_real_scatter_is_not_degenerate(tmp_path, capsys):
+    data = write_rebounds(tmp_path / "r.csv", rebound_rows(10, seed=9))
+    assert main(["cushion", "fit", str(data), "--json"]) == 0
+    cap = capsys.readouterr()
+    doc = _strict(cap.out)
+    assert doc["degenerate"] is False and doc["warnings"] == []
+    assert doc["cushion_restitution_se"] > 0
+    assert "warning" not in cap.err
+
+
+def test_too_few_distinct_rows_for_the_values_is_refused():
+    # One distinct rebound (two residuals) cannot determine three values.
+    row = cf.RowResult("rebound", "t.csv", 2, (("speed_in_mps", 1.5),), (("speed_out_mps", 1.2),
+                                                                         ("angle_out_deg", 50.)),
+                       (0.0, 0.0))
+    fit = cf.ModelFit("rebound", "linear", tuple(cf.Estimate(n, 0.5, 0.1) for n in (
+        "cushion_restitution", "cushion_restitution_slope", "cushion_friction")), (),
+        (row,) * 5, 0.0, 0.0, 7, "m/s")
+    with pytest.raises(cf.InputError, match="only 1 distinct measurement, too few to determine"):
+        cf._degeneracy(fit, "t.csv")
+
+
+def test_nothing_to_estimate_exits_2(tmp_path, capsys):
+    # Copies of one rebound asked for a restitution that changes with speed:
+    # one normal speed cannot show a slope. One line, exit 2, nothing written.
+    data = write_rebounds(tmp_path / "same.csv", [(1.5, 45.0, 1.2, 50.0, "stun")] * 6)
+    out = tmp_path / "p.json"
+    rc = main(["cushion", "fit", str(data), "--restitution", "linear", "-o", str(out)])
+    err = capsys.readouterr().err
+    assert rc == 2 and len(err.strip().splitlines()) == 1 and "Traceback" not in err
+    assert not out.exists()
+
+
+def test_row_limit_refused_before_any_fitting(tmp_path, capsys, monkeypatch):
+    # MAX_ROWS + 1 rows: refused in one line naming the file and the row,
+    # before a fit starts (300,000 rows used to take minutes).
+    def no_fit(*_a, **_k):
+        raise AssertionError("fitted")
+    monkeypatch.setattr(cf, "fit_measurements", no_fit)
+    data = tmp_path / "big.csv"
+    data.write_text(REBOUND_HEADER + "\n" + "1.5,45,1.2,50,stun\n" * (cf.MAX_ROWS + 1))
+    rc = main(["cushion", "fit", str(data)])
+    err = capsys.readouterr().err.strip().splitlines()
+    assert rc == 2 and len(err) == 1
+    assert str(data) in err[0] and f"row {cf.MAX_ROWS + 1}" in err[0]
+    assert f"{cf.MAX_ROWS:,}" in err[0]
+    # Exactly the limit is read; two files over it together are refused too.
+    ok = tmp_path / "ok.csv"
+    ok.write_text(REBOUND_HEADER + "\n" + "1.5,45,1.2,50,stun\n" * (cf.MAX_ROWS // 2 + 1))
+    assert cf.read_measurements([ok]).n_rows == cf.MAX_ROWS // 2 + 1
+    with pytest.raises(cf.InputError, match="over all its files"):
+        cf.read_measurements([ok, ok])
+
+
+def test_readme_states_the_row_limit():
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    assert f"at most {cf.MAX_ROWS:,} rows" in " ".join(readme.split())
+
+
+# ------------------------------------------------------------ extrapolation
+def _profile_with_rebounds(tmp_path: Path, top_speed: float, capsys) -> Path:
+    rows = rebound_rows(12, seed=6)
+    rows = [(v * top_speed / max(r[0] for r in rows), a, s * top_speed / max(r[0] for r in rows),
+             o, spin) for (v, a, s, o, spin) in rows]
+    data = write_rebounds(tmp_path / f"r{top_speed:g}.csv", rows)
+    prof = tmp_path / f"p{top_speed:g}.json"
+    assert main(["cushion", "fit", str(data), "-o", str(prof)]) == 0
+    capsys.readouterr()
+    return prof
+
+
+def test_report_marks_figures_beyond_the_measured_speeds(tmp_path, capsys):
+    # Rebounds measured up to 3.3 m/s: the firm stroke (5.5 m/s), the speed
+    # that reaches 4 table lengths and the 4 m/s rebound curves lie beyond
+    # them and are marked, in the text and in the JSON (issue: "more than
+    # 15 m/s" came from rebounds measured only up to 3.3 m/s).
+    prof = _profile_with_rebounds(tmp_path, 3.3, capsys)
+    assert main(["cushion", "report", str(prof)]) == 0
+    text = capsys.readouterr().out
+    assert "measured cushion speeds up to 3.30 m/s" in text
+    test_line = next(ln for ln in text.splitlines() if ln.startswith("standard rebound test"))
+    assert cf.EXTRAPOLATED in test_line
+    assert main(["cushion", "report", str(prof), "--json"]) == 0
+    doc = _strict(capsys.readouterr().out)
+    assert doc["extrapolated"] is True and doc["measured_up_to_mps"] == pytest.approx(3.3)
+    t = doc["standard_rebound_test"]
+    assert t["profile_extrapolated"] is True
+    assert t["profile_lengths_extrapolated"] == [v > 3.3 for v in t["speeds_mps"]]
+    assert {c["speed_mps"]: c["extrapolated"] for c in doc["rebound_curves"]} == {
+        1.0: False, 2.0: False, 3.0: False, 4.0: True}
+    assert doc["bank"]["extrapolated"] is False  # 3 m/s is inside
+    # The existing keys are all still there.
+    for key in ("profile_speed_for_minimum_mps", "preset_speed_for_minimum_mps", "profile"):
+        assert key in t
+
+
+def test_report_inside_the_measured_speeds_marks_nothing(tmp_path, capsys):
+    prof = _profile_with_rebounds(tmp_path, 7.5, capsys)
+    assert main(["cushion", "report", str(prof), "--json", "--firm-speed", "5.5"]) == 0
+    doc = _strict(capsys.readouterr().out)
+    assert doc["standard_rebound_test"]["profile_extrapolated"] is False
+    assert not any(c["extrapolated"] for c in doc["rebound_curves"])
+    # A bare preset measured nothing, so nothing is extrapolated from it.
+    bare = tmp_path / "bare.json"
+    bare.write_text(json.dumps({"preset": "pool-9ft"}))
+    assert main(["cushion", "report", str(bare), "--json"]) == 0
+    doc = _strict(capsys.readouterr().out)
+    assert doc["extrapolated"] is False and doc["measured_up_to_mps"] is None
+
+
+# ------------------------------------------------------------ the slate figure
+def test_slate_figure_is_one_and_the_readme_quotes_it():
+    # Hand-worked: 111 x 61 x 1 in^3 of slate at 2750 kg/m^3 (both from
+    # memory) is 305 kg; 1 lb = 0.45359237 kg exactly (the international
+    # pound). The constants are these, rounded.
+    kg = 111 * 61 * 1 * 0.0254**3 * 2750.0
+    assert abs(kg - cf.SLATE_9FT_KG) <= 10
+    assert abs(kg / 0.45359237 - cf.SLATE_9FT_LB) <= 10
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    text = " ".join(readme.split())
+    assert f"about {cf.SLATE_9FT_LB} lb, {cf.SLATE_9FT_KG} kg" in text
+    caution = next(c for c in cf.CAUTIONS if "Slate" in c)
+    assert f"{cf.SLATE_9FT_LB} lb ({cf.SLATE_9FT_KG} kg)" in caution
+    # No other weight in pounds anywhere in the cautions or the README.
+    import re
+    assert set(re.findall(r"(\d[\d,-]*) ?lb", text)) == {str(cf.SLATE_9FT_LB)}
+    assert set(re.findall(r"(\d[\d,-]*) ?lb", " ".join(cf.CAUTIONS))) == {str(cf.SLATE_9FT_LB)}
