@@ -146,9 +146,9 @@ def _run_check(args: argparse.Namespace) -> int:
         # Problems are diagnostics: stderr, one line each, then the summary.
         if not args.json:
             for p in problems:
-                _error_line(f"{name}: {p}")
+                _error_line(f"{show_path(name)}: {p}")
         n = len(problems)
-        _error_line(f"{name}: {n} problem{'s' if n > 1 else ''}")
+        _error_line(f"{show_path(name)}: {n} problem{'s' if n > 1 else ''}")
         return EXIT_ERROR
     return EXIT_OK
 
@@ -195,7 +195,8 @@ def _playable(layout: Any, name: str) -> None:
     probs = layout.problems()
     if probs:
         extra = f" (and {len(probs) - 1} more)" if len(probs) > 1 else ""
-        raise InputError(f"{name}: {probs[0]}{extra}; 'shotplan check {name}' lists them")
+        raise InputError(f"{show_path(name)}: {probs[0]}{extra}; 'shotplan check "
+                         f"{show_path(name)}' lists them")
 
 
 def _add_draw(sub: argparse._SubParsersAction) -> None:

@@ -387,6 +387,11 @@ def test_a_newline_in_a_file_name_is_shown_escaped(tmp_path, monkeypatch, capsys
     assert main(["check", "two\nlines.json"]) == 2
     err = capsys.readouterr().err
     assert err == "shotplan: error: 'two\\nlines.json': no such file\n"
+    (tmp_path / "two\nlines.json").write_text(lay(balls=balls(**{"3": [1.0, 9.0]})))
+    assert main(["check", "two\nlines.json"]) == 2
+    err = capsys.readouterr().err.splitlines()
+    assert err == ["shotplan: error: 'two\\nlines.json': balls.3: [1.0, 9.0] is off the table "
+                   "(the table is 2.54 x 1.27 m)", "shotplan: error: 'two\\nlines.json': 1 problem"]
 
 
 def test_an_unwritable_output_names_the_path_typed(tmp_path, monkeypatch, capsys):
