@@ -6,7 +6,12 @@ exactly up to the rounding of the coefficients. Tolerances follow the
 condition number of each root: a root ``r`` of ``p`` moves by about
 ``eps * sum_k |c_k| |r|^k / |p'(r)|`` under rounding of the coefficients
 (the standard first-order perturbation bound, common practice, no source),
-so a cluster or a double root is only known to that accuracy.
+so a cluster or a double root is only known to that accuracy. The engine's
+own stopping rule (``roots._refine``: stop when the bracket is within 4 eps
+of the root, or a Newton step within eps) adds at most 4 eps |r|; every
+tolerance below is the larger of the two bounds with room to spare, not one
+machine's rounding. ``poly_eval`` against ``numpy.polyval`` is plain Horner
+arithmetic (a few eps), hence 1e-12.
 """
 
 from __future__ import annotations

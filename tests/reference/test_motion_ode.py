@@ -197,6 +197,10 @@ def test_trajectory_matches_ode_integration(name, stroke):
         got = out.state_of("cue", float(t))
         want = ref(float(t))
         eng = np.array([got.x, got.y, got.vx, got.vy, got.wx, got.wy, got.wz])
+        # The tolerance follows from the integrator's: it keeps each step's
+        # error below rtol 1e-10 of values of order 1 (m, m/s, R w in m/s),
+        # and the engine's closed forms are exact to rounding; 1e-7 leaves
+        # room for the steps' errors to add up over a run of a few seconds.
         np.testing.assert_allclose(eng[:2], want[:2], atol=1e-7, rtol=0,
                                    err_msg=f"{name}: position at t={t:.6f}")
         np.testing.assert_allclose(eng[2:4], want[2:4], atol=1e-7, rtol=0,
@@ -204,6 +208,9 @@ def test_trajectory_matches_ode_integration(name, stroke):
         np.testing.assert_allclose(R * eng[4:], R * want[4:], atol=1e-7, rtol=0,
                                    err_msg=f"{name}: spin (as R w) at t={t:.6f}")
     # The engine's transition times against the integrator's events.
+    # The integrator's events end sliding at a slip of 1e-10 m/s, which the
+    # slip's fall of 7/2 mu_s g (about 7 m/s^2) reaches ~1e-11 s early, and
+    # it locates events to its own rtol; 1e-8 s covers both with room.
     eng_changes = [e.t for e in out.events]
     np.testing.assert_allclose(sorted(eng_changes), sorted(changes), atol=1e-8)
 
