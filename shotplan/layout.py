@@ -669,24 +669,36 @@ def _table_from_profile_field(value: Mapping[str, Any], where: str,
     path = Path(ref)
     if not path.is_absolute() and base is not None:
         path = Path(base) / path
-    spec = table_from_file(path, f"{where}: table.profile")
+    spec = table_from_file(path, f"{where}: table.profile", referenced=True)
     extra = {k: v for k, v in value.items() if k != "profile"}
     return spec.with_overrides(extra, where=f"{where}: table") if extra else spec
 
 
-def table_from_file(path: str | os.PathLike[str], where: str = "") -> TableSpec:
+def table_from_file(path: str | os.PathLike[str], where: str = "", *,
+                    referenced: bool = False) -> TableSpec:
     """The table in a file: a table profile (``"format":
     "shotplan-table-profile"``, what ``shotplan cushion fit -o`` writes), a
     bare table object ``{"preset": ..., measured values...}``, or a layout
     file (its table). Its measured values go through every check of
     :meth:`TableSpec.with_overrides`. ``where`` (a field that names the
-    file) starts every message; the file's name follows it."""
+    file) starts every message; the file's name follows it.
+
+    ``referenced=True`` (a file another file names, which may be any file):
+    only a table profile is read, and messages show its fields and their
+    problems, never the rest of its content."""
     shown = show_path(path)
     label = f"{where}: {shown}" if where else shown
     try:
         data = read_json_file(path)
     except LayoutError as e:
-        raise LayoutError(f"{where}: {e}" if where else str(e)) from None
+        text = str(e)
+        if referenced and "not UTF-8" in text:  # the inner message quotes a byte
+            text = f"{shown}: not UTF-8 text"
+        raise LayoutError(f"{where}: {text}" if where else text) from None
+    if referenced and (not isinstance(data, Mapping) or data.get("format") != PROFILE_FORMAT):
+        raise LayoutError(f"{label}: not a table profile file (a table profile has "
+                          f"\"format\": \"{PROFILE_FORMAT}\", as 'shotplan cushion fit -o' "
+                          "writes it)")
     if isinstance(data, Mapping) and ("balls" in data or data.get("format") == FORMAT):
         return Layout.from_dict(data, label, header=False, base=Path(path).parent).table
     if isinstance(data, Mapping) and "format" in data:

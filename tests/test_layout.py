@@ -530,7 +530,10 @@ def test_a_layout_names_a_table_profile(demo_profile, tmp_path, monkeypatch):
     ({"profile": 3}, "table.profile: 3 is not a file name"),
     ({"profile": "club-table.json", "preset": "pool-9ft"}, "give \"profile\" or \"preset\""),
     ({"profile": "bad-nose.json"}, "bad-nose.json: table.cushion_nose_height_m: a cushion nose"),
-    ({"profile": "wrong.json"}, "is not a table profile file format"),
+    # a file a layout names may be any file: its content is never shown
+    ({"profile": "wrong.json"}, "wrong.json: not a table profile file (a table profile has "
+                                "\"format\": \"shotplan-table-profile\""),
+    ({"profile": "other.json"}, "other.json: not a table profile file"),
 ])
 def test_bad_profiles_are_one_line(table, fragment, tmp_path):
     (tmp_path / "club-table.json").write_text(json.dumps(
@@ -540,8 +543,10 @@ def test_bad_profiles_are_one_line(table, fragment, tmp_path):
          "table": {"preset": "pool-9ft", "ball_diameter_m": 0.03,
                    "cushion_nose_height_m": 0.05}}))
     (tmp_path / "wrong.json").write_text(json.dumps({"format": "something-else"}))
+    (tmp_path / "other.json").write_text(json.dumps({"secret-key": "secret value"}))
     path = _layout_naming(tmp_path, table)
     with pytest.raises(LayoutError) as info:
         load_layout(path)
     assert fragment in str(info.value) and "\n" not in str(info.value)
+    assert "secret" not in str(info.value) and "something-else" not in str(info.value)
     assert str(info.value).startswith(str(path))
