@@ -413,7 +413,7 @@ def _referenced_layout(path: Path, where: str) -> Layout:
         raise LayoutError(f"{where}: {path}: not a shotplan layout file (a layout file has "
                           f"\"format\": \"{LAYOUT_FORMAT}\")")
     try:
-        return Layout.from_dict(data, str(path))
+        return Layout.from_dict(data, str(path), base=Path(path).parent)
     except LayoutError as e:
         raise LayoutError(f"{where}: {e}") from None
 

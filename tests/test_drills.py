@@ -597,3 +597,25 @@ def test_a_killed_sheet_write_leaves_a_whole_folder_or_none(folder):
     left = [p.name for p in folder.iterdir() if p.name.startswith(".sheet-stations")]
     assert left == [], left
     assert os.path.getsize(sheet) > 0
+
+
+def test_a_station_layout_naming_a_profile_reads_it_from_the_layout_folder(tmp_path, monkeypatch):
+    # The profile path in a layout file is relative to that layout's folder,
+    # not to the drill file's or the current one (README, Files).
+    sub = tmp_path / "tables"
+    sub.mkdir()
+    profile = sub / "club.json"
+    assert main(["cushion", "fit", *map(str, sorted((ROOT / "assets" / "measurements")
+                                                    .glob("*.csv"))), "-o", str(profile)]) == 0
+    layout = {"format": "shotplan-layout", "version": 1, "table": {"profile": "club.json"},
+              "balls": {"cue": [1.0, 0.6], "1": [1.8, 0.9]}}
+    (sub / "lay.json").write_text(json.dumps(layout))
+    drill = {"format": "shotplan-drill", "version": 1, "title": "t",
+             "stations": [{"name": "s", "layout": "tables/lay.json", "ball": "1",
+                           "pocket": "foot-left"}]}
+    (tmp_path / "d.json").write_text(json.dumps(drill))
+    monkeypatch.chdir(tmp_path.parent)
+    d = load_drill(tmp_path / "d.json")
+    measured = json.loads(profile.read_text())["table"]
+    assert d.stations[0].layout.physics().cushion_restitution == pytest.approx(
+        measured["cushion_restitution"])

@@ -1,4 +1,4 @@
-"""``shotplan view [LAYOUT] [--table PRESET] [--screenshot FILE]``: the table view.
+"""``shotplan view [LAYOUT] [--table PRESET|PROFILE] [--screenshot FILE]``: the table view.
 
 Nothing heavy is imported until the command runs, so the other commands stay
 fast: pygame and the widgets load inside :func:`run_view`.
@@ -40,9 +40,10 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
                     "export. Press F1 in the view for the keys.")
     p.add_argument("layout", nargs="?", metavar="LAYOUT",
                    help="layout file to open (.json); a file with problems opens with them shown")
-    p.add_argument("--table", metavar="PRESET",
-                   help="table preset: for a new layout, or to show LAYOUT's balls on that "
-                        "table (see 'shotplan tables'; default pool-9ft)")
+    p.add_argument("--table", metavar="PRESET|PROFILE",
+                   help="table preset or table profile file (.json, from 'shotplan cushion "
+                        "fit'): for a new layout, or to show LAYOUT's balls on that table "
+                        "(see 'shotplan tables'; default pool-9ft)")
     p.add_argument("--screenshot", metavar="FILE",
                    help="draw the first frame to a PNG and exit (needs no display)")
     p.set_defaults(run=run_view)
@@ -61,11 +62,10 @@ def display_available() -> bool:
 
 def run_view(args: argparse.Namespace) -> int:
     """Run ``shotplan view``; returns the exit code."""
-    from ..equipment import TableSpec
     from ..fileio import check_output_path
-    from ..layout import load_layout
+    from ..layout import load_layout, load_table
 
-    spec = TableSpec.preset(args.table) if args.table else None  # LayoutError: one line
+    spec = load_table(args.table) if args.table else None  # LayoutError: one line
     shot = args.screenshot
     if shot is not None:
         check_output_path(shot, (".png",))
@@ -89,7 +89,10 @@ def run_view(args: argparse.Namespace) -> int:
         os.environ["SDL_VIDEODRIVER"] = "dummy"
     import pygame
 
-    from .app import App
+    from .app import App, new_layout
+
+    if layout is None and spec is not None:
+        layout = new_layout(spec)  # a measured table: its own values, not the preset's
 
     if shot is not None:
         pygame.display.init()
