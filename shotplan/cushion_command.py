@@ -12,7 +12,7 @@
     PNG/SVG figure.
 
 Figures are matplotlib figures on the Agg canvas (no pyplot state); every
-file goes through :func:`shotplan.fileio.atomic_path`. Heavy imports happen
+file goes through :func:`shotplan.fileio.atomic_write_bytes`. Heavy imports happen
 inside the run functions so that other commands stay fast.
 """
 
@@ -290,22 +290,25 @@ def _new_figure(size_in: tuple[float, float]) -> Any:
 
 def _write_figures(figures: Sequence[Any], path: Path) -> None:
     """One figure as PNG/SVG/PDF, or several as a multi-page PDF; atomic."""
-    from .fileio import atomic_path
+    import io
+
+    from .fileio import atomic_write_bytes
 
     fmt = path.suffix.lower().lstrip(".")
     if len(figures) > 1 and fmt != "pdf":
         raise InputError(f"{str(path)!r}: several pages need a .pdf file")
     meta = {"png": {"Software": "shotplan"}, "svg": {"Date": None, "Creator": "shotplan"},
             "pdf": {"Creator": "shotplan", "Producer": "shotplan", "CreationDate": None}}[fmt]
-    with atomic_path(path) as tmp:
-        if fmt == "pdf":
-            from matplotlib.backends.backend_pdf import PdfPages
+    buf = io.BytesIO()  # the bytes first, then the file: nothing half-made on disk
+    if fmt == "pdf":
+        from matplotlib.backends.backend_pdf import PdfPages
 
-            with PdfPages(tmp, metadata=meta) as pdf:
-                for fig in figures:
-                    pdf.savefig(fig)
-        else:
-            figures[0].savefig(tmp, format=fmt, dpi=150, metadata=meta)
+        with PdfPages(buf, metadata=meta) as pdf:
+            for fig in figures:
+                pdf.savefig(fig)
+    else:
+        figures[0].savefig(buf, format=fmt, dpi=150, metadata=meta)
+    atomic_write_bytes(path, buf.getvalue())
 
 
 def _identity(ax: Any, values: Sequence[float]) -> None:

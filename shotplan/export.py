@@ -6,7 +6,7 @@ threads. Exactly the shapes of the scene are drawn, in layer order, with equal
 aspect and no axes; the title goes above the table and the note below it, and
 every size given in mm of table is turned into points by the figure's scale.
 
-Files are written through :func:`shotplan.fileio.atomic_path`: a failed write
+Files are rendered in memory and written through :func:`shotplan.fileio.atomic_write_bytes`: a failed write
 leaves an old file untouched. SVG and PDF carry no creation date, so the same
 scene gives the same bytes.
 
@@ -39,7 +39,7 @@ from matplotlib.path import Path as MplPath
 from matplotlib.textpath import TextToPath
 
 from .errors import InputError
-from .fileio import atomic_path, check_output_path
+from .fileio import atomic_write_bytes, check_output_path
 from .scene import (
     ANCHORS,
     CircleShape,
@@ -421,9 +421,11 @@ def write_scene(
         raise InputError(f"{str(p)!r}: {scene!r} is not a Scene")
     fig = render_figure(scene, dpi=dpi, width_in=width_in,
                         max_pixels_for=str(path) if fmt == "png" else None)
-    with atomic_path(p) as tmp:
-        # The temporary name ends in .part, so the format is given explicitly.
-        fig.savefig(tmp, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=_PAPER)
+    # Rendered in memory first: the temporary file appears only when the
+    # bytes are ready, so a kill while drawing leaves nothing behind.
+    buf = io.BytesIO()
+    fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=_PAPER)
+    atomic_write_bytes(p, buf.getvalue())
     return p
 
 
@@ -464,8 +466,9 @@ def write_pages(
     if not (math.isfinite(w) and math.isfinite(h) and 2.0 <= w <= 100 and 2.0 <= h <= 100):
         raise InputError(f"page_size_in: {page_size_in!r} must be two sizes from 2 to 100 in")
     figures = [_page_figure(item, (w, h)) for item in items]
-    with atomic_path(p) as tmp:
-        with PdfPages(tmp, metadata=_METADATA["pdf"]) as pdf:
-            for fig in figures:
-                pdf.savefig(fig, facecolor=_PAPER)
+    buf = io.BytesIO()
+    with PdfPages(buf, metadata=_METADATA["pdf"]) as pdf:
+        for fig in figures:
+            pdf.savefig(fig, facecolor=_PAPER)
+    atomic_write_bytes(p, buf.getvalue())
     return p

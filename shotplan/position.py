@@ -831,7 +831,8 @@ def zone_shapes(zone: Zone, style: str = "colour") -> list[Any]:
                              layer=Layer.MARKING + 6))
 
 
-def position_scene(pmap: PositionMap, title: str | None = None, note: str | None = None) -> Any:
+def position_scene(pmap: PositionMap, title: str | None = None, note: str | None = None,
+                   style: str = "print") -> Any:
     """The position map as a :class:`shotplan.scene.Scene`: the layout, the
     object ball's line to the pocket, the zone, and every finish of a setting
     that pocketed the ball as a mark coloured by tip height (see
@@ -847,14 +848,18 @@ def position_scene(pmap: PositionMap, title: str | None = None, note: str | None
     table = lay.geometry
     R = table.ball_radius
     limit = lay.physics().miscue_limit
-    base = layout_scene(lay, title="", note="")
+    base = layout_scene(lay, title="", note="", style=style)
+    # Marks over the cloth: dark ink on the print style's pale cloth, light
+    # on the colour style's green.
+    ink = "#1b1b1b" if style == "print" else "#ffffff"
     shapes: list[Any] = []
     pos = lay.positions()
     k = table.pocket_index(pmap.pocket)
-    shapes.append(PolylineShape((pos[pmap.ball], _pocket_target(table, k)), colour="#e3ebe5",
+    shapes.append(PolylineShape((pos[pmap.ball], _pocket_target(table, k)),
+                                colour="#555555" if style == "print" else "#e3ebe5",
                                 line_width_mm=1.2, dash=True, alpha=0.7, layer=Layer.PATH))
     if pmap.zone is not None:
-        shapes += zone_shapes(pmap.zone)
+        shapes += zone_shapes(pmap.zone, style=style)
     speeds = sorted({f.speed_mps for f in pmap.finishes})
     v_lo, v_hi = (speeds[0], speeds[-1]) if speeds else (1.0, 1.0)
 
@@ -877,7 +882,7 @@ def position_scene(pmap: PositionMap, title: str | None = None, note: str | None
                 continue
             if f.in_zone:
                 shapes.append(CircleShape(f.cue_finish, size(f.speed_mps) * 1.9, fill=None,
-                                          edge="#ffffff", line_width_mm=1.2, layer=Layer.MARKER))
+                                          edge=ink, line_width_mm=1.2, layer=Layer.MARKER))
             shapes.append(_marker(f.cue_finish, size(f.speed_mps), f.side, colour,
                                   Layer.MARKER + 1))
     # Legend strip under the table.

@@ -33,6 +33,7 @@ from __future__ import annotations
 
 import contextlib
 import hashlib
+import io
 import math
 import os
 import secrets
@@ -48,7 +49,7 @@ from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 
 from .errors import InputError
-from .fileio import atomic_path, check_output_path
+from .fileio import atomic_write_bytes, check_output_path
 from .players import MISCUE_FLAG_RATE, PlayerErrors, tip_room
 from .stroke import speed_word
 
@@ -558,11 +559,13 @@ def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str
             p = tmp / f"station-{k}.png"
             fig.savefig(p, format="png", dpi=dpi, metadata=_METADATA["png"], facecolor="white")
             pngs.append(folder / p.name)
-        with atomic_path(pdf) as part:
-            with PdfPages(part, metadata=_METADATA["pdf"]) as out:
-                for fig in figures:
-                    out.savefig(fig, facecolor="white")
-        digest = hashlib.sha256(pdf.read_bytes()).hexdigest()
+        buf = io.BytesIO()  # the sheet's bytes first: its temporary file appears only when ready
+        with PdfPages(buf, metadata=_METADATA["pdf"]) as out:
+            for fig in figures:
+                out.savefig(fig, facecolor="white")
+        data = buf.getvalue()
+        atomic_write_bytes(pdf, data)
+        digest = hashlib.sha256(data).hexdigest()
         with open(tmp / MARKER, "a", encoding="utf-8") as f:
             f.write(f"sheet: {pdf.name}\nsha256 of the sheet: {digest}\n")
         old = None

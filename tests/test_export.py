@@ -243,8 +243,14 @@ def test_failed_write_leaves_the_old_file(nine_foot, tmp_path, monkeypatch):
     target.write_bytes(b"the old diagram")
 
     def broken_savefig(self, fname, *args, **kwargs):
-        with open(fname, "wb") as fh:
-            fh.write(b"half a fi")
+        # Fails half way through writing wherever it writes (a file name or
+        # a file object): the drawing is rendered in memory before any file
+        # is made, so nothing of it may reach the folder.
+        if hasattr(fname, "write"):
+            fname.write(b"half a fi")
+        else:
+            with open(fname, "wb") as fh:
+                fh.write(b"half a fi")
         raise OSError("disk full")
 
     monkeypatch.setattr(Figure, "savefig", broken_savefig)
