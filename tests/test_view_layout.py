@@ -348,3 +348,15 @@ def test_the_view_draws_the_paths_in_those_styles(tmp_path):
     styles = path_styles(app.predictor.outcome.moved())
     colours = {s.colour for s in app._dynamic_shapes() if getattr(s, "arrow", False)}
     assert {styles[b].colour for b in ("cue", "1", "9")} <= colours
+
+
+def test_the_window_opens_inside_a_small_screen():
+    # A window larger than its screen hides its own panels: the view opens at
+    # most 92 % of the desktop, never below the smallest size it lays out.
+    from shotplan.view.app import fit_screen
+    from shotplan.view.panels import MIN_SIZE
+
+    assert fit_screen((1280, 800), [(1920, 1080)]) == (1280, 800)
+    assert fit_screen((1280, 800), [(1100, 800)]) == (1012, 736)
+    assert fit_screen((1280, 800), [(640, 480)]) == MIN_SIZE
+    assert fit_screen((1280, 800), []) == (1280, 800)

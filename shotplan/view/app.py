@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import math
 import os
+from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -139,6 +140,18 @@ DEFAULT_RECOVERY: Any = _DEFAULT
 def theme_resource() -> Any:
     """The view's pygame_gui theme (``shotplan/view/theme.json``, package data)."""
     return pygame_gui.PackageResource(package="shotplan.view", resource="theme.json")
+
+
+def fit_screen(size: tuple[int, int], desktops: Sequence[tuple[int, int]]) -> tuple[int, int]:
+    """The window size to open: ``size``, shrunk to 92 % of the first desktop
+    when that is smaller (a window larger than its screen hides its own
+    panels), but never below :data:`MIN_SIZE`."""
+    if not desktops:
+        return size
+    dw, dh = desktops[0]
+    w = min(size[0], int(0.92 * dw))
+    h = min(size[1], int(0.92 * dh))
+    return (max(w, MIN_SIZE[0]), max(h, MIN_SIZE[1]))
 
 
 def new_layout(spec: TableSpec) -> Layout:
@@ -1121,6 +1134,7 @@ class App:
         """Open the window and run until it is closed."""
         pygame.display.init()
         pygame.font.init()
+        self.size = fit_screen(self.size, pygame.display.get_desktop_sizes())
         screen = pygame.display.set_mode(self.size, pygame.RESIZABLE)
         try:  # the panels are laid out for MIN_SIZE and up; SDL keeps the window there
             pygame.Window.from_display_module().minimum_size = MIN_SIZE

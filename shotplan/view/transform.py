@@ -26,6 +26,8 @@ from typing import Any
 
 import numpy as np
 
+from ..units import to_diamonds  # re-exported: the view's status line uses it
+
 __all__ = ["Transform", "to_diamonds"]
 
 
@@ -131,10 +133,3 @@ class Transform:
         xmin, ymin, xmax, ymax = self.bounds
         return xmin <= x <= xmax and ymin <= y <= ymax
 
-
-def to_diamonds(x: float, y: float, length: float, width: float) -> tuple[float, float]:
-    """A table point in diamonds: (along, across) with a diamond ``L/8`` along
-    the length and ``W/4`` across, counted from the head-right corner of the
-    cushion noses (the trade counts sights this way: eight along a long rail,
-    four along a short one)."""
-    return (x / (length / 8.0), y / (width / 4.0))
