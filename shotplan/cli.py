@@ -304,7 +304,7 @@ def _run_simulate(args: argparse.Namespace) -> int:
           f" (cue ball leaves at {outcome.launch.direction_deg:.2f} deg)")
     print(f"{'t (s)':>8}  {'event':<10} {'balls':<12} where")
     for ev in outcome.events:
-        print(f"{ev.t:8.3f}  {ev.kind.word:<10} {'-'.join(ev.balls):<12} {ev.where}")
+        print(f"{ev.t:8.3f}  {ev.kind.word:<10} {'-'.join(ev.balls):<12} {ev.where}".rstrip())
     print("where the balls end:")
     for bid, fin in outcome.final.items():
         if fin["state"] == "pocketed":
