@@ -11,7 +11,6 @@ import time
 import numpy as np
 
 from shotplan.drills import LEVELS, load_drill, plan_station, simulate_station
-from shotplan.search import _Run
 
 DEMO = pathlib.Path(__file__).resolve().parent.parent / "assets" / "drills" / \
     "club-night-drills.json"
@@ -44,7 +43,7 @@ def main() -> None:
     n = 2000
     t0 = time.perf_counter()
     for _ in range(n):
-        _Run(sim.run_raw(pos, ids.index("cue"), ln.velocity, ln.spin))
+        sim.run_raw(pos, ids.index("cue"), ln.velocity, ln.spin)
     bare = (time.perf_counter() - t0) / n
     t0 = time.perf_counter()
     simulate_station(plan, LEVELS["club"], trials=TRIALS, seed=1)

@@ -72,7 +72,7 @@ from shapely.geometry.base import BaseGeometry
 from .errors import InputError, LayoutError, StrokeError
 from .physics import Physics
 from .players import DEFAULT_LEVEL, TIP_MARGIN_SD, PlayerErrors, level_tip_room, safe_height
-from .stroke import Stroke, speed_word
+from .stroke import Stroke, default_speed, speed_word, tip_height
 
 __all__ = [
     "Zone",
@@ -361,7 +361,7 @@ class Finish:
     """Tip side offset, ball radii (+ right english)."""
     tip: str
     """``"stun"`` when the height came from the stun rule of
-    :func:`shotplan.search.tip_height` at this speed, else ``""``."""
+    :func:`shotplan.stroke.tip_height` at this speed, else ``""``."""
     direction_deg: float | None
     """Cue direction played (found in simulation), or None (``no aim``, ``miscue``)."""
     result: str
@@ -513,21 +513,20 @@ class PositionMap:
 class _Player:
     """Plays strokes on one layout and judges them for one ball and pocket.
 
-    Shared with :mod:`shotplan.drills`: the positions array, the simulator
-    and the indices are set up once; each stroke costs one engine run.
+    Shared with :mod:`shotplan.drills`. The balls are set up once in a
+    :class:`shotplan.physics.run.StrokePlayer`; each stroke costs one engine run.
     """
 
     def __init__(self, layout: Any, ball: str, pocket: str, physics: Physics | None = None,
                  first: str | None = None):
-        from .physics import simulator_for  # the compiled engine loads on first use
+        from .physics.run import StrokePlayer  # the compiled engine loads on first use
 
-        self.physics = physics if physics is not None else layout.physics()
-        self.sim = simulator_for(layout.table, self.physics)
+        self.stroke_player = StrokePlayer.for_layout(layout, physics)
+        """The player of the strokes."""
+        self.physics = self.stroke_player.physics
+        self.sim = self.stroke_player.sim
         table = self.sim.table
-        positions = layout.positions()
-        self.ids = list(positions)
-        if "cue" not in self.ids:
-            raise InputError("the layout has no cue ball: nothing to strike")
+        self.ids = self.stroke_player.ids
         if ball == "cue" or ball not in self.ids:
             others = [b for b in self.ids if b != "cue"]
             raise InputError(f"{ball!r} is not an object ball on this layout, must be one of "
@@ -538,30 +537,30 @@ class _Player:
             self.pocket_index = table.pocket_index(pocket)
         except KeyError as e:
             raise InputError(str(e.args[0])) from None
-        self.pos = np.array([positions[i] for i in self.ids], dtype=float)
-        self.cue = self.ids.index("cue")
+        self.pos = self.stroke_player.pos
+        self.cue = self.stroke_player.cue
         self.ball = self.ids.index(ball)
         self.first = self.ids.index(first) if first is not None else self.ball
         self.limit = self.physics.miscue_limit
-        self.runs = 0
+
+    @property
+    def runs(self) -> int:
+        """Engine runs so far."""
+        return self.stroke_player.runs
 
     def play(self, direction: float, speed: float, side: float, height: float,
              elevation: float = 0.0) -> tuple[str, tuple[float, float] | None]:
         """(result, cue finish) of one stroke; result as in :data:`RESULTS`
         but never ``no aim``. The finish is None after a miscue or a scratch."""
-        from .search import _Run
-
         if math.hypot(side, height) > self.limit + 1e-12:
             return "miscue", None
-        ln = self.sim.launch(Stroke(direction, speed, side, height, elevation))
-        self.runs += 1
-        run = _Run(self.sim.run_raw(self.pos, self.cue, ln.velocity, ln.spin))
+        sp = self.stroke_player
+        run = sp.play(direction, speed, side, height, elevation)
         if run.pocket_of(self.cue) >= 0:
             potted = run.pocket_of(self.ball) == self.pocket_index
             return ("scratch" if potted else "missed"), None
-        finish = (float(run.final[self.cue, 0]), float(run.final[self.cue, 1]))
-        _k, other = run.first_collision(self.cue)
-        if other == self.first and run.pocket_of(self.ball) == self.pocket_index:
+        finish = run.finish(self.cue)
+        if sp.pots(run, self.first, self.ball, self.pocket_index):
             return "pocketed", finish
         return "missed", finish
 
@@ -573,7 +572,7 @@ def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = 
     """The default (speeds, heights, sides) of a position map.
 
     * speeds: 7, geometric, from the speed that brings the object ball to the
-      pocket gently (:func:`shotplan.search.default_speed` for a rolling cue
+      pocket gently (:func:`shotplan.stroke.default_speed` for a rolling cue
       ball and a 0.25 m/s arrival) to 4.5 times that (at least 2 m/s more,
       at most 8 m/s);
     * heights: ``"stun"`` (the stun rule at each speed) and 7 heights evenly
@@ -587,13 +586,13 @@ def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = 
     the room; :func:`position_map` marks them ``risky tip``.
     """
     from .aim import aim_at
-    from .search import _pocket_target, default_speed
+    from .search import pocket_target
 
     phys = physics if physics is not None else layout.physics()
     table = layout.geometry
     pos = layout.positions()
     k = table.pocket_index(pocket)
-    a = aim_at(pos["cue"], pos[ball], _pocket_target(table, k), table.ball_radius)
+    a = aim_at(pos["cue"], pos[ball], pocket_target(table, k), table.ball_radius)
     v_lo = default_speed(min(a.cut_deg, 80.0), a.cue_distance, a.object_distance, phys,
                          "follow", arrive_mps=0.25)
     v_hi = min(max(4.5 * v_lo, v_lo + 2.0), 8.0)
@@ -671,7 +670,7 @@ def position_map(
     all (not even centre ball keeps a miscue rare).
     """
     t0 = time.perf_counter()
-    from .search import aim_direct, tip_height
+    from .search import aim_direct
 
     player = _Player(layout, ball, pocket, physics)
     phys = player.physics
@@ -842,7 +841,7 @@ def position_scene(pmap: PositionMap, title: str | None = None, note: str | None
     so the draw, stun and follow lines show. Settings that reached the zone
     are ringed. A legend strip is added under the table."""
     from .scene import CircleShape, Layer, PolylineShape, Scene, TextShape, layout_scene
-    from .search import _pocket_target
+    from .search import pocket_target
 
     lay = pmap.layout
     table = lay.geometry
@@ -855,7 +854,7 @@ def position_scene(pmap: PositionMap, title: str | None = None, note: str | None
     shapes: list[Any] = []
     pos = lay.positions()
     k = table.pocket_index(pmap.pocket)
-    shapes.append(PolylineShape((pos[pmap.ball], _pocket_target(table, k)),
+    shapes.append(PolylineShape((pos[pmap.ball], pocket_target(table, k)),
                                 colour="#555555" if style == "print" else "#e3ebe5",
                                 line_width_mm=1.2, dash=True, alpha=0.7, layer=Layer.PATH))
     if pmap.zone is not None:

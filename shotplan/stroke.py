@@ -15,11 +15,18 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
-from .errors import StrokeError
+from .errors import InputError, StrokeError
 
-__all__ = ["Stroke", "STROKE_KEYS", "speed_word"]
+if TYPE_CHECKING:  # pragma: no cover
+    from .physics.params import Physics
+
+__all__ = ["Stroke", "STROKE_KEYS", "speed_word", "TIPS", "tip_height", "default_speed"]
+
+TIPS = ("stun", "follow", "draw", "centre")
+"""Tip choices: ``stun`` (no spin about the horizontal at contact), ``follow``
+(natural roll), ``draw`` (low, within the miscue limit), ``centre``."""
 
 STROKE_KEYS = ("direction_deg", "speed_mps", "side", "height", "elevation_deg")
 """The keys of a stroke object, in file order."""
@@ -131,3 +138,48 @@ def speed_word(speed_mps: float) -> str:
         if speed_mps < limit:
             return word
     return "break"
+
+
+# The two functions below are stroke physics from closed forms: they read the
+# physics values but run no simulation, so this module imports the physics
+# only for type checking (the engine is not loaded by ``import shotplan``).
+def tip_height(tip: str, speed: float, distance: float, physics: Physics) -> float:
+    """Tip height (ball radii) for a tip choice, a launch speed and the cue
+    ball's travel to contact.
+
+    ``stun`` is the draw that exactly wears off at contact: while sliding, the
+    spin about the horizontal changes at ``5 mu_s g / (2R)`` and the speed at
+    ``mu_s g``; with ``w0 = 5 h v0 / (2R)`` from the strike, zero spin at the
+    contact time ``t_c`` needs ``h = -mu_s g t_c / v0`` where
+    ``distance = v0 t_c - mu_s g t_c^2 / 2``.
+    """
+    limit = physics.miscue_limit * 0.9
+    if tip == "follow":
+        return 0.4
+    if tip == "draw":
+        return -limit
+    if tip == "centre":
+        return 0.0
+    if tip != "stun":
+        raise InputError(f"{tip!r} is not a tip choice, must be one of {', '.join(TIPS)}")
+    a = physics.cloth_sliding_friction * physics.gravity
+    disc = speed * speed - 2.0 * a * distance
+    if disc <= 0.0:
+        return -limit
+    t_c = (speed - math.sqrt(disc)) / a
+    return max(-a * t_c / speed, -limit)
+
+
+def default_speed(cut_deg: float, cue_distance: float, object_path: float, physics: Physics,
+                  tip: str = "stun", rails: int = 0, arrive_mps: float = 0.6) -> float:
+    """A launch speed that brings the object ball to the pocket at a sensible
+    pace (``arrive_mps``, rolling), from the closed forms of sliding and
+    rolling and the impact laws; the simulator then checks it."""
+    g = physics.gravity
+    v_roll = math.sqrt(arrive_mps**2 + 2.0 * physics.cloth_rolling_resistance * g * object_path)
+    v_ob = 7.0 / 5.0 * v_roll / (physics.cushion_restitution ** rails)
+    cos_cut = max(math.cos(math.radians(min(cut_deg, 80.0))), 0.25)
+    v_contact = v_ob / (0.5 * (1.0 + physics.ball_restitution) * cos_cut)
+    mu = physics.cloth_rolling_resistance if tip == "follow" else physics.cloth_sliding_friction
+    v0 = math.sqrt(v_contact**2 + 2.0 * mu * g * cue_distance)
+    return float(min(max(v0, 0.5), 8.0))

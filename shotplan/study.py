@@ -775,7 +775,7 @@ class ThrowStudy:
 def _spin_tip(spin: str, speed: float, distance: float, side_offset: float, sense: float,
               physics: Physics) -> tuple[float, float]:
     """(side, height) for a study spin word."""
-    from .search import tip_height
+    from .stroke import tip_height
 
     if spin == "rolling":
         return 0.0, tip_height("follow", speed, distance, physics)
@@ -1098,7 +1098,7 @@ def deflection_study(
         Launch speed, m/s.
     """
     from .physics import simulator_for
-    from .search import tip_height
+    from .stroke import tip_height
 
     t0 = time.perf_counter()
     cuts = tuple(_check_angle(c, "cut angle") for c in (cuts if cuts is not None

@@ -10,7 +10,8 @@ from shotplan.equipment import TableSpec
 from shotplan.errors import InputError
 from shotplan.layout import Layout
 from shotplan.physics import Physics, simulate
-from shotplan.search import find_shots, tip_height
+from shotplan.search import find_shots
+from shotplan.stroke import tip_height
 from shotplan.table import Table
 
 SPEC = TableSpec.preset("pool-9ft")
@@ -295,3 +296,72 @@ def test_a_side_beyond_the_tip_room_is_refused():
         find_shots(lay, side=0.45)
     # an elite player's room (0.5 - 2.5 * 0.015 = 0.4625 R) has space for it
     assert find_shots(lay, side=0.45, kinds=["direct"], player=PlayerErrors.level("elite")).shots
+
+
+# ------------------------------------------------ named run, stroke player
+def test_run_record_of_a_straight_in_stun_shot():
+    # One engine run read by name: on a straight-in shot the cue ball's first
+    # contact is the object ball, the object ball falls in the pocket on its
+    # line, and a stun shot stops the cue ball about where it met the object
+    # ball (common practice, no source: "stop shot"; a few cm of follow-on
+    # from the ball restitution below 1).
+    from shotplan.physics.run import StrokePlayer
+    from shotplan.physics.state import EV_COLLISION
+
+    lay = straight_in(0.5, 0.6)
+    shot = only(lay, speed=2.0, tip="stun")
+    sp = StrokePlayer.for_layout(lay)
+    run = sp.play(shot.direction_deg, shot.speed_mps, shot.side, shot.height)
+    ob, cue = sp.ids.index("1"), sp.cue
+    k, other = run.first_collision(cue)
+    assert other == ob and run.event_kind[k] == EV_COLLISION
+    assert run.pocket_of(ob) == TABLE.pocket_index("foot-right")
+    assert run.pocket_of(cue) == -1
+    assert sp.pots(run, ob, ob, TABLE.pocket_index("foot-right"))
+    assert not sp.pots(run, ob, ob, TABLE.pocket_index("foot-left"))
+    ghost = ghost_ball(lay.position("1"), TABLE.pocket("foot-right").drop_centre, R)
+    assert math.dist(run.finish(cue), ghost) < 0.05
+    assert run.n_events == len(run.event_t) and run.n_segments == len(run.seg_t)
+    assert sp.runs == 1
+
+
+def test_the_search_counts_every_engine_run():
+    # SearchResult.simulations is the stroke player's count: running the same
+    # search twice costs the same number of runs, and a search with fewer
+    # kinds costs fewer (a subset of the same candidates).
+    lay = cut_layout(20.0).with_ball("2", (0.8, 0.9))
+    full = find_shots(lay)
+    assert full.simulations == find_shots(lay).simulations > 0
+    assert find_shots(lay, kinds=["direct"]).simulations < full.simulations
+
+
+def test_rails_are_named_records_facing_into_the_table():
+    # A six-pocket table has six straight cushions: the head and foot rails
+    # and two halves of each long rail, split by the side pockets (trade
+    # fact, common practice); each normal is a unit vector into the bed.
+    from shotplan.search.candidates import rails_of
+
+    rails = rails_of(TABLE)
+    names = sorted(r.name for r in rails)
+    assert names == ["foot rail", "head rail", "left rail", "left rail", "right rail",
+                     "right rail"]
+    for r in rails:
+        assert math.hypot(*r.normal) == pytest.approx(1.0)
+        inward = (L / 2 - r.start[0]) * r.normal[0] + (W / 2 - r.start[1]) * r.normal[1]
+        assert inward > 0
+    halves = [r for r in rails if r.name == "left rail"]
+    assert halves[0].faces_like(halves[1])
+    assert not any(r.faces_like(q) for r in rails for q in rails
+                   if r.name != q.name)
+
+
+def test_stroke_physics_loads_without_the_engine():
+    # tip_height and default_speed are closed forms: importing them must not
+    # start numba (the engine loads on first simulation only).
+    import subprocess
+    import sys
+
+    code = ("import sys, shotplan.stroke as s; "
+            "print(callable(s.tip_height), callable(s.default_speed), 'numba' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.split() == ["True", "True", "False"]

@@ -23,6 +23,7 @@ from .engine import STATUS_DONE, run_events
 from .jit import jit
 from .motion import state_at
 from .params import Physics
+from .run import Run
 from .state import (
     N_PARAMS,
     P_E_B,
@@ -176,9 +177,9 @@ class Simulator:
         return launch(stroke, self.radius, self.mass, self.physics)
 
     def run_raw(self, positions: np.ndarray, cue_index: int, velocity: Sequence[float],
-                spin: Sequence[float], pocketed: np.ndarray | None = None) -> tuple:
-        """Run from the given state; returns the raw engine arrays
-        ``(n_events, n_segments, status, events..., segments...)``."""
+                spin: Sequence[float], pocketed: np.ndarray | None = None) -> Run:
+        """Run from the given state; returns the engine's record of the run
+        (:class:`shotplan.physics.run.Run`, its arrays cut to what was used)."""
         pos = np.array(positions, dtype=float).reshape(-1, 2)
         n = len(pos)
         vel = np.zeros((n, 2))
@@ -208,8 +209,9 @@ class Simulator:
             ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
             seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om,
         )
-        return (n_ev, n_seg, status, ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
-                seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om, pos, st)
+        return Run(int(status), ev_t[:n_ev], ev_kind[:n_ev], ev_a[:n_ev], ev_b[:n_ev], ev_elem[:n_ev],
+                   ev_sa[:n_ev], ev_sb[:n_ev], seg_t[:n_seg], seg_ball[:n_seg],
+                   seg_state[:n_seg], seg_pos[:n_seg], seg_vel[:n_seg], seg_om[:n_seg], pos, st)
 
     def run(self, ids: Sequence[str], positions: Any, stroke: Stroke, cue: str = "cue") -> Outcome:
         """Play ``stroke`` on the cue ball with the balls at ``positions``."""
@@ -217,8 +219,8 @@ class Simulator:
         if cue not in ids:
             raise LayoutError(f"no {cue!r} ball on the table: nothing to strike")
         ln = self.launch(stroke)
-        raw = self.run_raw(np.asarray(positions, dtype=float), ids.index(cue), ln.velocity, ln.spin)
-        return Outcome(self, ids, stroke, ln, raw)
+        run = self.run_raw(np.asarray(positions, dtype=float), ids.index(cue), ln.velocity, ln.spin)
+        return Outcome(self, ids, stroke, ln, run)
 
 
 @lru_cache(maxsize=32)
@@ -266,33 +268,30 @@ class Outcome:
     """
 
     def __init__(self, sim: Simulator, ids: tuple[str, ...], stroke: Stroke, launch: Launch,
-                 raw: tuple):
-        (n_ev, n_seg, status, ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
-         seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om, _pos, _st) = raw
+                 run: Run):
         self.simulator = sim
         self.ids = ids
         self.stroke = stroke
         self.launch = launch
-        self.complete = status == STATUS_DONE
+        self.complete = run.status == STATUS_DONE
         """False if the run hit ``Physics.max_events`` before every ball stopped."""
         self.reason: str | None = None if self.complete else (
             f"the run stopped at the event limit ({int(sim.physics.max_events)} events, "
             "physics max_events) before every ball was still; positions after its last "
             "event are where the balls were then")
         """Why the run is not complete (None when it is)."""
-        self._seg_t = seg_t[:n_seg].copy()
-        self._seg_ball = seg_ball[:n_seg].copy()
-        self._seg_state = seg_state[:n_seg].copy()
-        self._seg_pos = seg_pos[:n_seg].copy()
-        self._seg_vel = seg_vel[:n_seg].copy()
-        self._seg_om = seg_om[:n_seg].copy()
-        self._ev = (ev_t[:n_ev].copy(), ev_kind[:n_ev].copy(), ev_a[:n_ev].copy(),
-                    ev_b[:n_ev].copy(), ev_elem[:n_ev].copy(), ev_sa[:n_ev].copy(),
-                    ev_sb[:n_ev].copy())
+        self._seg_t = run.seg_t.copy()
+        self._seg_ball = run.seg_ball.copy()
+        self._seg_state = run.seg_state.copy()
+        self._seg_pos = run.seg_pos.copy()
+        self._seg_vel = run.seg_vel.copy()
+        self._seg_om = run.seg_spin.copy()
+        self._ev = (run.event_t.copy(), run.event_kind.copy(), run.ball_a.copy(),
+                    run.ball_b.copy(), run.element.copy(), run.seg_a.copy(), run.seg_b.copy())
         # Segments of each ball, in time order
         self._by_ball = [np.flatnonzero(self._seg_ball == i) for i in range(len(ids))]
         self._events: list[Event] | None = None
-        self.duration = float(self._ev[0][-1]) if n_ev else 0.0
+        self.duration = float(self._ev[0][-1]) if run.n_events else 0.0
         """Time of the last event, s (every ball is still after it, unless the
         run is not complete). Sampling at later times gives the state at this
         time: nothing is extrapolated past the end of the run."""

@@ -38,7 +38,7 @@ from ..errors import ShotplanError
 from ..fileio import atomic_path, check_output_path
 from ..layout import Layout, load_layout, save_layout
 from ..scene import Scene, Shape, layout_scene, shot_scene, table_scene
-from ..search import tip_height
+from ..stroke import tip_height
 from .draw import Painter, TableCache, rgb
 from .layers import (
     aim_layer,

@@ -276,7 +276,7 @@ def test_spin_in_place_decays_linearly():
     phys = Physics()
     sim = Simulator(TABLE, phys)
     raw = sim.run_raw(np.array([[3.0, 1.5]]), 0, (0.0, 0.0), (0.0, 0.0, 30.0))
-    n_ev, ev_t, ev_kind = raw[0], raw[3], raw[4]
+    n_ev, ev_t, ev_kind = raw.n_events, raw.event_t, raw.event_kind
     assert n_ev == 1 and ev_kind[0] == EventKind.REST
     rate = phys.cloth_spin_friction * M * phys.gravity * R / I
     assert ev_t[0] == pytest.approx(30.0 / rate, rel=1e-12)

@@ -1,0 +1,187 @@
+"""A run of the engine by name, and one stroke player for the searches.
+
+:class:`Run` is what :meth:`Simulator.run_raw` returns: the engine's event
+and segment arrays, cut to their used length, with named fields and the few
+queries the searches ask of a run (where a ball fell, what the cue ball hit
+first, a ball's velocity after an event). :class:`StrokePlayer` sets the
+balls of a layout up once and plays strokes on them, one engine run each;
+the shot search and the position maps and drills all play through it.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from ..errors import InputError
+from ..stroke import Stroke
+from .state import EV_COLLISION, EV_CUSHION, EV_POCKET
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .params import Physics
+    from .simulator import Simulator
+
+__all__ = ["Run", "StrokePlayer"]
+
+
+@dataclass(frozen=True, slots=True)
+class Run:
+    """The engine's record of one run (SI units; indices into the run's balls).
+
+    Event arrays are cut to the events recorded, segment arrays to the
+    segments recorded; an event's ``seg_a``/``seg_b`` index the segment arrays
+    (the segment each ball starts with after the event).
+    """
+
+    status: int
+    """The engine's status (``STATUS_DONE`` when every ball came to rest)."""
+    event_t: np.ndarray
+    """Time of each event, s."""
+    event_kind: np.ndarray
+    """Kind of each event (``EV_*`` of :mod:`shotplan.physics.state`)."""
+    ball_a: np.ndarray
+    """The ball of each event."""
+    ball_b: np.ndarray
+    """The other ball of a collision (else unused)."""
+    element: np.ndarray
+    """The table element of a cushion, jaw or pocket event (line or pocket index)."""
+    seg_a: np.ndarray
+    """Segment ``ball_a`` starts after each event."""
+    seg_b: np.ndarray
+    """Segment ``ball_b`` starts after a collision."""
+    seg_t: np.ndarray
+    """Start time of each trajectory segment, s."""
+    seg_ball: np.ndarray
+    """Ball of each segment."""
+    seg_state: np.ndarray
+    """Motion state of each segment (``MotionState``)."""
+    seg_pos: np.ndarray
+    """Position at the segment's start, (n, 2)."""
+    seg_vel: np.ndarray
+    """Velocity at the segment's start, (n, 2)."""
+    seg_spin: np.ndarray
+    """Angular velocity at the segment's start, (n, 3)."""
+    final: np.ndarray
+    """Every ball's position when the run stopped, (balls, 2)."""
+    states: np.ndarray
+    """Every ball's motion state when the run stopped."""
+
+    @property
+    def n_events(self) -> int:
+        """Events recorded."""
+        return len(self.event_kind)
+
+    @property
+    def n_segments(self) -> int:
+        """Trajectory segments recorded."""
+        return len(self.seg_t)
+
+    def pocket_of(self, i: int) -> int:
+        """Pocket index ball ``i`` fell into, or -1."""
+        hit = np.flatnonzero((self.event_kind == EV_POCKET) & (self.ball_a == i))
+        return int(self.element[hit[0]]) if len(hit) else -1
+
+    def collisions_of(self, i: int) -> np.ndarray:
+        """Indices of ball ``i``'s collisions with other balls, in order."""
+        return np.flatnonzero((self.event_kind == EV_COLLISION)
+                              & ((self.ball_a == i) | (self.ball_b == i)))
+
+    def other_ball(self, k: int, i: int) -> int:
+        """The ball ball ``i`` met in collision ``k``."""
+        return int(self.ball_b[k] if self.ball_a[k] == i else self.ball_a[k])
+
+    def first_collision(self, i: int) -> tuple[int, int]:
+        """(event index, other ball) of ball i's first collision, or (-1, -1)."""
+        hit = self.collisions_of(i)
+        if not len(hit):
+            return -1, -1
+        k = int(hit[0])
+        return k, self.other_ball(k, i)
+
+    def velocity_after(self, k: int, i: int) -> tuple[float, float]:
+        """Ball ``i``'s velocity just after event ``k``."""
+        seg = self.seg_a[k] if self.ball_a[k] == i else self.seg_b[k]
+        return float(self.seg_vel[seg, 0]), float(self.seg_vel[seg, 1])
+
+    def position_at_event(self, k: int, i: int) -> tuple[float, float]:
+        """Ball ``i``'s position at event ``k``."""
+        seg = self.seg_a[k] if self.ball_a[k] == i else self.seg_b[k]
+        return float(self.seg_pos[seg, 0]), float(self.seg_pos[seg, 1])
+
+    def events_of(self, i: int) -> np.ndarray:
+        """Indices of every event ball ``i`` takes part in, in order."""
+        return np.flatnonzero((self.ball_a == i) | (self.ball_b == i))
+
+    def next_event_of(self, i: int, k: int) -> int:
+        """Index of ball i's first event after event k, or -1."""
+        hit = np.flatnonzero(((self.ball_a == i) | (self.ball_b == i))[k + 1:])
+        return int(hit[0]) + k + 1 if len(hit) else -1
+
+    def cushion_events(self, i: int) -> np.ndarray:
+        """Indices of ball ``i``'s cushion events, in order."""
+        return np.flatnonzero((self.event_kind == EV_CUSHION) & (self.ball_a == i))
+
+    def finish(self, i: int) -> tuple[float, float]:
+        """Where ball ``i`` was when the run stopped."""
+        return float(self.final[i, 0]), float(self.final[i, 1])
+
+
+class StrokePlayer:
+    """Plays strokes on one set of balls: the positions array, the
+    simulator and the cue ball's index are set up once; each stroke costs one
+    engine run, counted in :attr:`runs`."""
+
+    __slots__ = ("sim", "ids", "pos", "cue", "elevation", "runs")
+
+    def __init__(self, sim: Simulator, ids: list[str], pos: np.ndarray,
+                 elevation: float = 0.0) -> None:
+        if "cue" not in ids:
+            raise InputError("the layout has no cue ball: nothing to strike")
+        self.sim = sim
+        """The simulator of the table and physics."""
+        self.ids = ids
+        """Ball ids, in the order of :attr:`pos`."""
+        self.pos = pos
+        """Ball centres, (balls, 2), m."""
+        self.cue = ids.index("cue")
+        """Index of the cue ball."""
+        self.elevation = elevation
+        """Cue elevation of every stroke, degrees (unless one is given)."""
+        self.runs = 0
+        """Engine runs so far."""
+
+    @classmethod
+    def for_layout(cls, layout: Any, physics: Physics | None = None,
+                   elevation: float = 0.0) -> StrokePlayer:
+        """A player for a :class:`shotplan.layout.Layout`'s balls and table."""
+        from .simulator import simulator_for  # the compiled engine loads on first use
+
+        phys = physics if physics is not None else layout.physics()
+        positions = layout.positions()
+        ids = list(positions)
+        pos = np.array([positions[i] for i in ids], dtype=float)
+        return cls(simulator_for(layout.table, phys), ids, pos, elevation)
+
+    @property
+    def physics(self) -> Physics:
+        """The physics values played with."""
+        return self.sim.physics
+
+    @property
+    def radius(self) -> float:
+        """Ball radius, m."""
+        return self.sim.radius
+
+    def play(self, direction: float, speed: float, side: float, height: float,
+             elevation: float | None = None) -> Run:
+        """One stroke on the cue ball from the set-up positions."""
+        self.runs += 1
+        ln = self.sim.launch(Stroke(direction, speed, side, height,
+                                    self.elevation if elevation is None else elevation))
+        return self.sim.run_raw(self.pos, self.cue, ln.velocity, ln.spin)
+
+    def pots(self, run: Run, first: int, ball: int, pocket: int) -> bool:
+        """Whether the cue ball met ``first`` first and ``ball`` fell in ``pocket``."""
+        return run.first_collision(self.cue)[1] == first and run.pocket_of(ball) == pocket

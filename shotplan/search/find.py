@@ -1,0 +1,176 @@
+"""``find_shots``: every shot on a layout that pockets a ball, best first."""
+
+from __future__ import annotations
+
+import math
+import time
+from collections.abc import Sequence
+from typing import Any
+
+import numpy as np
+
+from ..aim import aim_at
+from ..errors import InputError
+from ..physics import Physics, simulator_for
+from ..physics.run import StrokePlayer
+from ..players import DEFAULT_LEVEL, PlayerErrors, level_tip_room
+from ..stroke import TIPS
+from .candidates import GENERATORS, Board, Candidate, pocket_target, rails_of
+from .refine import Settings, error_fn, evaluate, refine
+from .shots import KINDS, MAX_CUT_DEG, Rejected, SearchResult, Shot
+
+__all__ = ["find_shots", "aim_direct"]
+
+
+def _check_settings(kinds: Sequence[str], tip: str, speed: float | None, side: float,
+                    height: float | None, phys: Physics,
+                    player: PlayerErrors | None) -> float:
+    """Raise InputError on a bad setting; returns the player's tip room."""
+    for k in kinds:
+        if k not in KINDS:
+            raise InputError(f"{k!r} is not a kind of shot, must be one of {', '.join(KINDS)}")
+    if tip not in TIPS:
+        raise InputError(f"{tip!r} is not a tip choice, must be one of {', '.join(TIPS)}")
+    if speed is not None and not 0.0 < speed <= 15.0:
+        raise InputError(f"speed {speed!r} m/s is out of range, must be above 0 and at most 15")
+    limit = phys.miscue_limit
+    if not abs(side) <= limit:
+        raise InputError(f"side {side!r} is beyond the miscue limit, must be within "
+                         f"+-{limit:g} ball radii")
+    if height is not None and math.hypot(side, height) > limit:
+        raise InputError(f"tip offset side {side!r}, height {height!r} is beyond the miscue "
+                         f"limit {limit:g} ball radii")
+    # The heights the search chooses itself (stun, draw) keep the tip inside
+    # the player's tip room: 2.5 sd of the tip error inside the miscue limit
+    # (shotplan.players). A height given outright is the caller's choice.
+    room = level_tip_room(limit, player)
+    level = player.describe() if player is not None else f"a {DEFAULT_LEVEL} player"
+    if height is None and room < 0.0:
+        raise InputError(f"no tip setting keeps {level} clear of the miscue limit "
+                         f"{limit:g} R; give a smaller tip error or --height")
+    if height is None and abs(side) > room:
+        raise InputError(f"side {side!r} leaves {level} no room: the tip must stay within "
+                         f"{room:.3f} R of centre (the miscue limit {limit:g} R less 2.5 "
+                         "standard deviations of the tip error); give a smaller side")
+    return room
+
+
+def _object_balls(ids: list[str], balls: Sequence[str] | None) -> list[int]:
+    obj = [i for i, b in enumerate(ids) if b != "cue"]
+    if not balls:
+        return obj
+    for wanted in balls:
+        if wanted not in ids or wanted == "cue":
+            raise InputError(f"{wanted!r} is not an object ball on this layout, must be one "
+                             f"of {', '.join(ids[i] for i in obj) or '(none)'}")
+    return [ids.index(wanted) for wanted in balls]
+
+
+def find_shots(
+    layout: Any,
+    *,
+    balls: Sequence[str] | None = None,
+    pockets: Sequence[str] | None = None,
+    kinds: Sequence[str] = KINDS,
+    speed: float | None = None,
+    tip: str = "stun",
+    side: float = 0.0,
+    height: float | None = None,
+    elevation_deg: float = 0.0,
+    top: int | None = None,
+    allow_scratch: bool = False,
+    max_cut_deg: float = MAX_CUT_DEG,
+    physics: Physics | None = None,
+    player: PlayerErrors | None = None,
+) -> SearchResult:
+    """Every shot on the layout that pockets a ball, best first.
+
+    Parameters
+    ----------
+    layout
+        A :class:`shotplan.layout.Layout` with a cue ball.
+    balls, pockets
+        Restrict to these object balls / pockets (default: all).
+    kinds
+        Kinds of shot to try (see :data:`KINDS`).
+    speed
+        Launch speed for every shot; default: a sensible pace per shot.
+    tip, side
+        Tip choice (:data:`TIPS`) and side offset (ball radii) for every shot.
+    height
+        Tip height (ball radii) for every shot, instead of the tip choice.
+    elevation_deg
+        Cue elevation for every shot, degrees.
+    allow_scratch
+        Keep shots that pocket the cue ball too (flagged ``scratch``).
+    player
+        The player's errors: the heights the search chooses keep the tip
+        inside this player's tip room (:func:`shotplan.players.tip_room`);
+        default the club level.
+    """
+    t_start = time.perf_counter()
+    phys = physics if physics is not None else layout.physics()
+    room = _check_settings(kinds, tip, speed, side, height, phys, player)
+    sim = simulator_for(layout.table, phys)
+    table = sim.table
+    positions = layout.positions()
+    ids = list(positions)
+    if "cue" not in ids:
+        raise InputError("the layout has no cue ball: nothing to strike")
+    pos = np.array([positions[i] for i in ids], dtype=float)
+    if not 0.0 <= elevation_deg <= 60.0:
+        raise InputError(f"elevation {elevation_deg!r} deg is out of range, must be between 0 "
+                         "and 60 degrees")
+    sp = StrokePlayer(sim, ids, pos, elevation_deg)
+    if not table.pockets:
+        return SearchResult((), (), 0, time.perf_counter() - t_start,
+                            {"note": "this table has no pockets"})
+    pocket_ids = list(range(len(table.pockets)))
+    if pockets:
+        pocket_ids = [table.pocket_index(p) for p in pockets]
+    obj = _object_balls(ids, balls)
+    board = Board(table, ids, pos, sp.cue, sim.radius, rails_of(table), max_cut_deg)
+    cands: list[Candidate] = []
+    rejected: list[Rejected] = []
+    gens = [GENERATORS[k] for k in KINDS if k in kinds]
+    for b in obj:
+        for pk in pocket_ids:
+            target = pocket_target(table, pk)
+            for gen in gens:
+                for item in gen(board, b, pk, target):
+                    if isinstance(item, Candidate):
+                        cands.append(item)
+                    else:
+                        rejected.append(item)
+    settings = Settings(speed, tip, side, allow_scratch, height, room)
+    shots: list[Shot] = []
+    for cand in cands:
+        shot, why = evaluate(sp, table, cand, settings)
+        if shot is None:
+            rejected.append(board.rejected(cand.kind, cand.balls, cand.pocket, cand.rails, why))
+        else:
+            shots.append(shot)
+    shots.sort(key=lambda s: (-round(s.window_deg, 2), s.difficulty))
+    if top is not None:
+        shots = shots[:top]
+    return SearchResult(tuple(shots), tuple(rejected), sp.runs, time.perf_counter() - t_start,
+                        {"tip": tip, "side": side, "speed": speed, "kinds": list(kinds),
+                         "tip_room": room})
+
+
+def aim_direct(layout: Any, ball: str, pocket: str, speed: float, side: float, height: float,
+               physics: Physics | None = None) -> float | None:
+    """The cue direction (degrees) that sends ``ball`` at the middle of
+    ``pocket`` as a direct cut with these settings, corrected in simulation
+    for throw and squirt; None if the cut cannot be made (no window search:
+    this is the cheap call for sweeps over settings)."""
+    sp = StrokePlayer.for_layout(layout, physics)
+    table = sp.sim.table
+    b = sp.ids.index(ball)
+    pk = table.pocket_index(pocket)
+    target = pocket_target(table, pk)
+    a = aim_at(sp.pos[sp.cue], sp.pos[b], target, sp.radius)
+    cand = Candidate("direct", (ball,), pk, (), b, b, target, a.ghost, a.ghost, a.cut_deg,
+                     a.cue_distance, a.object_distance)
+    phi, _throw = refine(sp, error_fn(sp, cand, target), a.direction_deg, speed, side, height)
+    return phi
