@@ -66,6 +66,26 @@ def _object_balls(ids: list[str], balls: Sequence[str] | None) -> list[int]:
     return [ids.index(wanted) for wanted in balls]
 
 
+def _candidates(board: Board, obj: list[int], pocket_ids: list[int], kinds: Sequence[str]
+                ) -> tuple[list[Candidate], list[Rejected]]:
+    """Every candidate of the wanted kinds for these balls and pockets, and
+    the ones the geometry rejects (ball by ball, pocket by pocket, in the
+    order of :data:`KINDS`)."""
+    cands: list[Candidate] = []
+    rejected: list[Rejected] = []
+    gens = [GENERATORS[k] for k in KINDS if k in kinds]
+    for b in obj:
+        for pk in pocket_ids:
+            target = pocket_target(board.table, pk)
+            for gen in gens:
+                for item in gen(board, b, pk, target):
+                    if isinstance(item, Candidate):
+                        cands.append(item)
+                    else:
+                        rejected.append(item)
+    return cands, rejected
+
+
 def find_shots(
     layout: Any,
     *,
@@ -130,18 +150,7 @@ def find_shots(
         pocket_ids = [table.pocket_index(p) for p in pockets]
     obj = _object_balls(ids, balls)
     board = Board(table, ids, pos, sp.cue, sim.radius, rails_of(table), max_cut_deg)
-    cands: list[Candidate] = []
-    rejected: list[Rejected] = []
-    gens = [GENERATORS[k] for k in KINDS if k in kinds]
-    for b in obj:
-        for pk in pocket_ids:
-            target = pocket_target(table, pk)
-            for gen in gens:
-                for item in gen(board, b, pk, target):
-                    if isinstance(item, Candidate):
-                        cands.append(item)
-                    else:
-                        rejected.append(item)
+    cands, rejected = _candidates(board, obj, pocket_ids, kinds)
     settings = Settings(speed, tip, side, allow_scratch, height, room)
     shots: list[Shot] = []
     for cand in cands:
