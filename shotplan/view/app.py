@@ -15,7 +15,8 @@ Pointer (on the table):
   anywhere: aim the cue freely, toward the pointer; the wheel turns it finely;
 * click the cue-ball face in the panel to set the tip.
 
-The keys are listed in :data:`KEYS` and shown by F1 (or ``?``).
+The keys are the table :data:`shotplan.view.keys.KEY_MAP` (also the help F1 or ``?``
+shows); the actions they call are in :mod:`shotplan.view.actions`.
 """
 
 from __future__ import annotations
@@ -39,7 +40,9 @@ from ..fileio import atomic_path, check_output_path
 from ..layout import Layout, load_layout, save_layout
 from ..scene import Scene, Shape, layout_scene, shot_scene, table_scene
 from ..stroke import tip_height
+from .actions import ACTIONS
 from .draw import Painter, TableCache, rgb
+from .keys import HELP_ROWS, KEYS, binding_for
 from .layers import (
     aim_layer,
     balls_layer,
@@ -83,43 +86,6 @@ DRAG_PX = 4
 
 DIAGRAM_SUFFIXES = (".png", ".svg", ".pdf")
 """What Export writes."""
-
-KEYS: tuple[tuple[str, str], ...] = (
-    ("F1  or  ?", "show or hide this list"),
-    ("Ctrl+O / Ctrl+S", "open a layout / save it"),
-    ("Ctrl+Shift+S", "save as a new file"),
-    ("Ctrl+E", "export the view (PNG, SVG, PDF)"),
-    ("Ctrl+Z / Ctrl+Y", "undo / redo (Ctrl+Shift+Z redoes too)"),
-    ("Space", "play or pause the shot"),
-    ("Home", "back to the start of the shot"),
-    ("P", "playback speed: real time, half, quarter, tenth"),
-    ("Left / Right", "turn the cue 0.1\u00b0 (with Shift 1\u00b0)"),
-    ("Up / Down", "speed +/- 0.05 m/s (with Shift 0.5)"),
-    ("Tab / Shift+Tab", "select the next / previous object ball"),
-    ("[  /  ]", "aim the selected ball at the previous / next pocket"),
-    ("N / Shift+N", "take the next / previous proposed shot"),
-    ("0", "tip to the centre of the cue ball"),
-    ("Insert", "add a ball"),
-    ("Delete", "remove the selected ball"),
-    ("F8 / F9", "rack for 8-ball / 9-ball"),
-    ("Ctrl+Delete", "clear the table (the cue ball stays)"),
-    ("Esc", "close, stop the shot, or drop the selection"),
-    ("Ctrl+Q", "quit (unsaved work is kept for the next start)"),
-)
-"""Keyboard shortcuts: (keys, what they do), as the help lists them."""
-
-POINTER: tuple[tuple[str, str], ...] = (
-    ("drag a ball", "move it (it stops clear of balls and cushions)"),
-    ("click a ball, then a pocket", "aim that ball at that pocket"),
-    ("drag on the cloth", "aim the cue toward the pointer (or right-drag)"),
-    ("mouse wheel", "turn the cue finely"),
-    ("click the cue-ball face", "set the tip (inside the dashed miscue limit)"),
-)
-"""Pointer gestures, as the help lists them."""
-
-HELP_ROWS: tuple[tuple[str, str], ...] = (("Keys", ""), *KEYS, ("", ""), ("Pointer", ""), *POINTER)
-"""The rows of the key help: headings (no second part), keys and gestures."""
-
 
 def help_box(size: tuple[int, int]) -> tuple[pygame.Rect, int, int]:
     """Where the key help goes in a window of ``size`` px: its box, the row
@@ -502,63 +468,11 @@ class App:
     # ------------------------------------------------------------ actions
     def do(self, action: str, value: Any = None) -> None:
         """Carry out one action (a button, a key, a widget's value)."""
-        st = self.state
-        pred = self.predictor
+        act = ACTIONS.get(action)
         try:
-            if action == "open" and st.dirty:
-                self._confirm_drop()
-            elif action in ("open", "save-as", "export"):
-                self._file_dialog(action)
-            elif action == "save":
-                self.save_file()
-            elif action == "undo":
-                self.say("undone" if st.undo() else "nothing to undo")
-            elif action == "redo":
-                self.say("redone" if st.redo() else "nothing to redo")
-            elif action in ("rack-8", "rack-9"):
-                st.set_rack("8-ball" if action == "rack-8" else "9-ball")
-            elif action == "clear":
-                st.clear()
-            elif action == "add":
-                b = st.add_ball()
-                self.say(f"added ball {b}: drag it into place")
-            elif action == "remove":
-                if st.selection is None:
-                    self.say("select a ball first (click it), then remove it")
-                else:
-                    b = st.selection
-                    st.remove_ball(b)
-                    self.say(f"removed ball {b}")
-            elif action == "help":
-                self.help_visible = not self.help_visible
-            elif action == "play":
-                if pred.outcome is None:
-                    self.say("nothing to play: aim the cue first")
-                else:
-                    self.playback.toggle(pred.duration)
-            elif action == "reset":
-                self.playback.reset()
-            elif action == "scrub":
-                self.playback.scrub(float(value), pred.duration)
-            elif action == "rate":
-                self.playback.rate = float(value)
-            elif action == "speed":
-                st.set_speed(float(value), coalesce="speed")
-            elif action == "elevation":
-                st.set_elevation(float(value), coalesce="elevation")
-            elif action == "tip":
-                st.set_tip(float(value[0]), float(value[1]), coalesce="tip")
-            elif action == "tip-preset":
-                self._tip_preset(str(value))
-            elif action == "proposal":
-                st.choose_proposal(int(value))
-                self.say(st.proposals[int(value)].describe())
-            elif action == "recovery":
-                self._answer_recovery(value == "restore")
-            elif action == "quit":
-                self.running = False
-            else:
+            if act is None:
                 raise ShotplanError(f"{action!r} is not an action of the view")
+            act(self, value)
         except (ShotplanError, KeyError) as e:
             self.say(str(e).strip("'\""))
 
@@ -765,70 +679,10 @@ class App:
 
     # keys
     def _key(self, event: pygame.event.Event) -> bool:
-        st = self.state
-        key, mods = event.key, event.mod
-        ctrl = bool(mods & (pygame.KMOD_CTRL | pygame.KMOD_META))
-        shift = bool(mods & pygame.KMOD_SHIFT)
-        text = getattr(event, "unicode", "")
-        if key == pygame.K_F1 or text == "?":
-            self.do("help")
-        elif ctrl and key == pygame.K_o:
-            self.do("open")
-        elif ctrl and key == pygame.K_s:
-            self.do("save-as" if shift else "save")
-        elif ctrl and key == pygame.K_e:
-            self.do("export")
-        elif ctrl and (key == pygame.K_y or (key == pygame.K_z and shift)):
-            self.do("redo")
-        elif ctrl and key == pygame.K_z:
-            self.do("undo")
-        elif ctrl and key == pygame.K_q:
-            self.do("quit")
-        elif ctrl and key == pygame.K_DELETE:
-            self.do("clear")
-        elif key == pygame.K_SPACE:
-            self.do("play")
-        elif key == pygame.K_HOME:
-            self.do("reset")
-        elif key == pygame.K_p:
-            rates = [r for _, r in Playback.RATES]
-            k = rates.index(self.playback.rate) if self.playback.rate in rates else -1
-            self.playback.rate = rates[(k + 1) % len(rates)]
-            self.say(f"playback: {dict((r, n) for n, r in Playback.RATES)[self.playback.rate]}")
-        elif key in (pygame.K_LEFT, pygame.K_RIGHT):
-            step = (1.0 if shift else 0.1) * (1 if key == pygame.K_LEFT else -1)
-            if not st.nudge_aim(step):
-                self.say("aim first: the arrows turn the cue")
-        elif key in (pygame.K_UP, pygame.K_DOWN):
-            step = (0.5 if shift else 0.05) * (1 if key == pygame.K_UP else -1)
-            st.set_speed(st.settings.speed_mps + step, coalesce="speed-key")
-        elif key == pygame.K_TAB:
-            self._cycle_ball(-1 if shift else 1)
-        elif key in (pygame.K_LEFTBRACKET, pygame.K_RIGHTBRACKET):
-            self._cycle_pocket(-1 if key == pygame.K_LEFTBRACKET else 1)
-        elif key == pygame.K_n:
-            if st.proposals:
-                k = 0 if st.chosen is None else (st.chosen + (-1 if shift else 1)) % len(st.proposals)
-                self.do("proposal", k)
-            else:
-                self.say("no proposed shot (yet)")
-        elif key in (pygame.K_0, pygame.K_KP0):
-            self.do("tip-preset", "centre")
-        elif key == pygame.K_INSERT:
-            self.do("add")
-        elif key in (pygame.K_DELETE, pygame.K_BACKSPACE):
-            self.do("remove")
-        elif key == pygame.K_F8:
-            self.do("rack-8")
-        elif key == pygame.K_F9:
-            self.do("rack-9")
-        elif key == pygame.K_ESCAPE:
-            if self.playback.active:
-                self.playback.reset()
-            else:
-                st.select(None)
-        else:
+        binding = binding_for(event.key, event.mod, getattr(event, "unicode", ""))
+        if binding is None:
             return False
+        self.do(binding.action, binding.value)
         return True
 
     def _cycle_ball(self, step: int) -> None:
