@@ -74,6 +74,8 @@ __all__ = [
     "PROFILE_FORMAT",
     "LAYOUT_KEYS",
     "RACKS",
+    "new_layout",
+    "start_spot",
     "Problem",
     "Layout",
     "load_layout",
@@ -475,6 +477,29 @@ def parse_json(text: str, where: str) -> Any:
         raise LayoutError(f"{where}: nested too deeply to be a layout") from None
     _check_numbers(data, where)
     return data
+
+
+# --------------------------------------------------------------- new tables
+def start_spot(spec: TableSpec, ball: str = "cue") -> tuple[float, float]:
+    """Where a new ball goes before it is made legal: the cue ball on the head
+    spot (in the D on snooker, half its radius behind the baulk line), any
+    other ball on the foot spot; the quarter or three-quarter point of the long
+    axis on a table without these spots."""
+    table = _geometry(spec)
+    spots = {s.name: (s.x, s.y) for s in spec.spots}
+    if ball == "cue":
+        if "head spot" not in spots and spec.baulk_line_x_m and spec.d_radius_m:
+            return (spec.baulk_line_x_m - 0.5 * spec.d_radius_m, table.width / 2)
+        return spots.get("head spot", (table.length / 4, table.width / 2))
+    return spots.get("foot spot", (0.75 * table.length, table.width / 2))
+
+
+def new_layout(spec: TableSpec) -> Layout:
+    """An empty table of ``spec`` with the cue ball at its :func:`start_spot`
+    (moved to the nearest legal place should that spot not be one)."""
+    spot = start_spot(spec)
+    cue = _geometry(spec).nearest_legal_spot(spot) or spot
+    return Layout(spec, (("cue", cue),))
 
 
 # ------------------------------------------------------------------- racks

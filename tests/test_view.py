@@ -27,7 +27,7 @@ from shotplan.view.app import App
 from shotplan.view.draw import dash_segments
 from shotplan.view.panels import face_to_tip, slider_to_speed, speed_bands, speed_to_slider
 from shotplan.view.recovery import read_recovery
-from shotplan.view.state import FreeAim, PocketAim, ViewState, legal_spot
+from shotplan.view.state import FreeAim, PocketAim, ViewState
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json"
@@ -123,12 +123,14 @@ def test_legal_spot_hand_worked():
     # disc's outside); a target beyond a straight rail goes to the line a
     # contact offset inside the nose (the nearest legal point of a half-plane).
     ob = (1.5, 0.6)
-    p = legal_spot(TABLE, (1.49, 0.6), [ob])
+    p = TABLE.nearest_legal_spot((1.49, 0.6), [ob])
     assert p == pytest.approx((1.5 - 2 * R, 0.6), abs=1e-6)
-    p = legal_spot(TABLE, (1.0, -0.3), [])
-    assert p == pytest.approx((1.0, TABLE.contact_offset), abs=1e-9)
+    p = TABLE.nearest_legal_spot((1.0, -0.3), [])
+    # (within 1e-6 m: the search's circles are polygons at most 4.7e-6 of a
+    # radius outside them, see shotplan.table._SAGITTA)
+    assert p == pytest.approx((1.0, TABLE.contact_offset), abs=1e-6)
     # A point already legal stays exactly where it is.
-    assert legal_spot(TABLE, (1.0, 0.6), [ob]) == (1.0, 0.6)
+    assert TABLE.nearest_legal_spot((1.0, 0.6), [ob]) == (1.0, 0.6)
 
 
 def test_legal_spot_in_a_crowd_is_legal_and_clear():
@@ -136,7 +138,7 @@ def test_legal_spot_in_a_crowd_is_legal_and_clear():
 
     pos = rack("8-ball", SPEC)
     others = [xy for b, xy in pos.items() if b != "cue"]
-    p = legal_spot(TABLE, pos["5"], others)
+    p = TABLE.nearest_legal_spot(pos["5"], others)
     assert TABLE.is_legal([p])[0]
     assert min(math.dist(p, q) for q in others) >= 2 * R - 1e-9
 

@@ -37,7 +37,7 @@ from ..aim import direction_deg, overlap_word
 from ..equipment import TableSpec
 from ..errors import ShotplanError
 from ..fileio import atomic_path, check_output_path
-from ..layout import Layout, load_layout, save_layout
+from ..layout import Layout, load_layout, new_layout, save_layout
 from ..scene import Scene, Shape, layout_scene, shot_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
@@ -118,13 +118,6 @@ def fit_screen(size: tuple[int, int], desktops: Sequence[tuple[int, int]]) -> tu
     w = min(size[0], int(0.92 * dw))
     h = min(size[1], int(0.92 * dh))
     return (max(w, MIN_SIZE[0]), max(h, MIN_SIZE[1]))
-
-
-def new_layout(spec: TableSpec) -> Layout:
-    """An empty table of ``spec`` with the cue ball on its head spot (in the D on snooker)."""
-    empty = ViewState(Layout(spec))
-    empty.add_ball("cue")
-    return empty.layout
 
 
 @dataclass

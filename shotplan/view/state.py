@@ -12,10 +12,10 @@ What is *derived* from the model (the simulated outcome, the window, the
 proposals) is worked out by :mod:`shotplan.view.predict`; the proposals are
 kept here because choosing one is an edit.
 
-:func:`legal_spot` is how a dragged or added ball stays legal: the nearest
-place to where the pointer wants it that is on the bed, clear of every
-cushion and jaw (:meth:`shotplan.table.Table.is_legal`) and of every other
-ball (touching is allowed).
+:meth:`shotplan.table.Table.nearest_legal_spot` is how a dragged or added
+ball stays legal: the nearest place to where the pointer wants it that is on
+the bed, clear of every cushion and jaw and of every other ball (touching is
+allowed).
 """
 
 from __future__ import annotations
@@ -28,7 +28,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import InputError, LayoutError
-from ..layout import Layout, Problem, rack
+from ..layout import Layout, Problem, new_layout, rack, start_spot
 from ..physics.params import Physics
 from ..stroke import MAX_SPEED_MPS, Stroke
 from ..table import Table
@@ -44,7 +44,6 @@ __all__ = [
     "Snapshot",
     "Playback",
     "ViewState",
-    "legal_spot",
     "clamp_tip",
 ]
 
@@ -59,9 +58,6 @@ ELEVATION_RANGE_DEG: tuple[float, float] = (0.0, 45.0)
 MAX_UNDO = 500
 """Undo steps kept; the oldest go first."""
 
-_CLEARANCE = 1e-7
-"""A placed ball keeps this much air (m) to a ball it is pushed against, so
-that rounding never turns "touching" into "overlapping" (layouts allow 1e-9)."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -183,103 +179,6 @@ class Playback:
 
 
 # ------------------------------------------------------------ placement
-def legal_spot(
-    table: Table,
-    target: Sequence[float],
-    others: Any = (),
-    *,
-    reach: float | None = None,
-) -> tuple[float, float] | None:
-    """The nearest place to ``target`` where a ball may lie.
-
-    Legal means :meth:`Table.is_legal` (on the bed, before every drop line,
-    clear of the cushions and jaws) and at least two radii from every point
-    of ``others`` (the other balls' centres; touching is allowed).
-
-    The exact candidates come first: the target itself, the target clamped
-    into the playing area, pushed straight out of each ball it overlaps, and
-    set in the notch between two such balls. Rings of points around the
-    clamped target, a millimetre apart near it and coarser further out, catch
-    what these miss (a jaw's rounded tip, a crowded rack). Returns ``None``
-    if nothing within ``reach`` (default: the whole table) is free.
-    """
-    R = table.ball_radius
-    two_r = 2.0 * R
-    co = table.contact_offset
-    L, W = table.length, table.width
-    tx, ty = float(target[0]), float(target[1])
-    if not (math.isfinite(tx) and math.isfinite(ty)):
-        raise InputError(f"legal_spot: target {target!r} is not a finite point")
-    oth = np.asarray(others, dtype=float).reshape(-1, 2)
-
-    def valid(points: np.ndarray) -> np.ndarray:
-        ok = table.is_legal(points)
-        if len(oth):
-            d = np.hypot(points[:, None, 0] - oth[None, :, 0], points[:, None, 1] - oth[None, :, 1])
-            ok &= np.all(d >= two_r - 1e-9, axis=1)
-        return ok
-
-    first = np.array([[tx, ty]])
-    if valid(first)[0]:
-        return (tx, ty)
-    cx = min(max(tx, co), L - co)
-    cy = min(max(ty, co), W - co)
-    cands = [(cx, cy)]
-    near = oth[np.hypot(oth[:, 0] - cx, oth[:, 1] - cy) < 2.0 * two_r + 1e-9] if len(oth) else oth
-    for q in near:
-        d = math.hypot(cx - q[0], cy - q[1])
-        ux, uy = ((cx - q[0]) / d, (cy - q[1]) / d) if d > 1e-12 else (1.0, 0.0)
-        cands.append((q[0] + ux * (two_r + _CLEARANCE), q[1] + uy * (two_r + _CLEARANCE)))
-    rr = two_r + _CLEARANCE
-    for i in range(len(near)):
-        for j in range(i + 1, len(near)):
-            (ax, ay), (bx, by) = near[i], near[j]
-            d = math.hypot(bx - ax, by - ay)
-            if d <= 1e-12 or d >= 2.0 * rr:
-                continue
-            mx, my = (ax + bx) / 2.0, (ay + by) / 2.0
-            h = math.sqrt(max(rr * rr - (d / 2.0) ** 2, 0.0))
-            px, py = -(by - ay) / d, (bx - ax) / d
-            cands += [(mx + px * h, my + py * h), (mx - px * h, my - py * h)]
-    pts = np.array(cands, dtype=float)
-    ok = valid(pts)
-    best: tuple[float, float] | None = None
-    best_d = math.inf
-    if ok.any():
-        # Each exact candidate is the nearest place for the constraint it
-        # answers (a cushion, one ball, two balls); the nearest of them is the spot.
-        d = np.hypot(pts[ok, 0] - tx, pts[ok, 1] - ty)
-        k = int(np.argmin(d))
-        return (float(pts[ok][k, 0]), float(pts[ok][k, 1]))
-
-    limit = reach if reach is not None else math.hypot(L, W)
-    # Rings around the clamped target, in batches of growing radius; a batch
-    # is only tried while it could hold something nearer than the best so far.
-    radii = np.concatenate([np.arange(0.001, 0.0101, 0.001), np.arange(0.012, 0.0601, 0.002),
-                            np.arange(0.065, 0.2001, 0.005), np.arange(0.22, limit + 0.02, 0.02)])
-    radii = radii[radii <= limit + 1e-12]
-    off = math.hypot(tx - cx, ty - cy)  # the rings are centred on the clamped point
-    start = 0
-    while start < len(radii):
-        if best is not None and radii[start] - off > best_d:
-            break
-        stop = min(start + 8, len(radii))
-        batch = []
-        for r in radii[start:stop]:
-            n = int(min(max(2 * math.pi * r / 0.0015, 24), 180))
-            ang = np.linspace(0.0, 2 * math.pi, n, endpoint=False)
-            batch.append(np.column_stack([cx + r * np.cos(ang), cy + r * np.sin(ang)]))
-        ring = np.vstack(batch)
-        ok = valid(ring)
-        if ok.any():
-            d = np.hypot(ring[ok, 0] - tx, ring[ok, 1] - ty)
-            k = int(np.argmin(d))
-            if d[k] < best_d:
-                best, best_d = (float(ring[ok][k, 0]), float(ring[ok][k, 1])), float(d[k])
-        start = stop
-    return best
-
-
 def clamp_tip(side: float, height: float, limit: float) -> tuple[float, float]:
     """A tip offset moved onto the miscue-limit circle if it lies outside it."""
     r = math.hypot(side, height)
@@ -452,10 +351,10 @@ class ViewState:
 
     def move_ball(self, ball: str, xy: Sequence[float], coalesce: str | None = None
                   ) -> tuple[float, float] | None:
-        """Move ``ball`` as near ``xy`` as it may lie (see :func:`legal_spot`);
+        """Move ``ball`` as near ``xy`` as it may lie (see :meth:`shotplan.table.Table.nearest_legal_spot`);
         returns where it went, or ``None`` if there was no room."""
         self.layout.position(ball)  # raises LayoutError if absent
-        spot = legal_spot(self.table, xy, self._others(ball))
+        spot = self.table.nearest_legal_spot(xy, self._others(ball))
         if spot is None:
             return None
         self._apply(coalesce, layout=self.layout.with_ball(ball, spot))
@@ -482,23 +381,13 @@ class ViewState:
         if ball in self.layout.ball_ids:
             raise LayoutError(f"ball {ball!r} is already on the table")
         if xy is None:
-            xy = self._default_spot(ball)
-        spot = legal_spot(self.table, xy, self._others(None))
+            xy = start_spot(self.layout.table, ball)
+        spot = self.table.nearest_legal_spot(xy, self._others(None))
         if spot is None:
             raise LayoutError("no free place on the table for another ball")
         self._apply(None, layout=self.layout.with_ball(ball, spot))
         self.selection = ball
         return ball
-
-    def _default_spot(self, ball: str) -> tuple[float, float]:
-        spec = self.layout.table
-        spots = {s.name: (s.x, s.y) for s in spec.spots}
-        if ball == "cue":
-            if "head spot" not in spots and spec.baulk_line_x_m and spec.d_radius_m:
-                # Snooker: the cue ball starts in the D.
-                return (spec.baulk_line_x_m - 0.5 * spec.d_radius_m, self.table.width / 2)
-            return spots.get("head spot", (self.table.length / 4, self.table.width / 2))
-        return spots.get("foot spot", (0.75 * self.table.length, self.table.width / 2))
 
     def remove_ball(self, ball: str) -> bool:
         """Take ``ball`` off the table (an aim that uses it goes too)."""
@@ -528,7 +417,7 @@ class ViewState:
         head spot). The title and the note go with the balls they described."""
         cue = dict(self.layout.balls).get("cue")
         if cue is None:
-            cue = legal_spot(self.table, self._default_spot("cue"), ()) or self._default_spot("cue")
+            cue = new_layout(self.layout.table).position("cue")
         layout = Layout(self.layout.table, (("cue", cue),), self.layout.stroke,
                         self.layout.physics_overrides, "", "")
         aim = self.aim if isinstance(self.aim, FreeAim) else None
