@@ -504,23 +504,8 @@ class App:
         if not modal and self._tip_event(event):
             return True
         consumed = bool(self.manager.process_events(event))
-        if event.type == pygame_gui.UI_CONFIRMATION_DIALOG_CONFIRMED and \
-                self._dialogs.get(event.ui_element) == "confirm-open":
-            del self._dialogs[event.ui_element]
-            self._file_dialog("open")
+        if self._dialog_event(event):
             return True
-        if event.type == pygame_gui.UI_FILE_DIALOG_PATH_PICKED and event.ui_element in self._dialogs:
-            purpose = self._dialogs.pop(event.ui_element)
-            {"open": self.open_file, "save-as": self.save_file,
-             "export": self.export_file}[purpose](event.text)
-            return True
-        if event.type == pygame_gui.UI_BUTTON_PRESSED and self._recovery_dialog is not None:
-            if event.ui_element is self._recovery_dialog.restore:
-                self.do("recovery", "restore")
-                return True
-            if event.ui_element is self._recovery_dialog.discard:
-                self.do("recovery", "discard")
-                return True
         action = self.panels.handle(event)
         if action is not None:
             self.do(*action)
@@ -539,6 +524,25 @@ class App:
         if event.type == pygame.KEYUP:
             self.state.end_gesture()
         return consumed
+
+    def _dialog_event(self, event: pygame.event.Event) -> bool:
+        """An answer from one of the view's dialogs: True if it was one."""
+        if event.type == pygame_gui.UI_CONFIRMATION_DIALOG_CONFIRMED and \
+                self._dialogs.get(event.ui_element) == "confirm-open":
+            del self._dialogs[event.ui_element]
+            self._file_dialog("open")
+            return True
+        if event.type == pygame_gui.UI_FILE_DIALOG_PATH_PICKED and event.ui_element in self._dialogs:
+            purpose = self._dialogs.pop(event.ui_element)
+            {"open": self.open_file, "save-as": self.save_file,
+             "export": self.export_file}[purpose](event.text)
+            return True
+        rec = self._recovery_dialog
+        if event.type == pygame_gui.UI_BUTTON_PRESSED and rec is not None and \
+                event.ui_element in (rec.restore, rec.discard):
+            self.do("recovery", "restore" if event.ui_element is rec.restore else "discard")
+            return True
+        return False
 
     def _tip_event(self, event: pygame.event.Event) -> bool:
         assert self.panels is not None
@@ -600,68 +604,75 @@ class App:
         st.aim_free(direction_deg(cue, (x, y)), coalesce="aim-drag")
 
     def _table_mouse(self, event: pygame.event.Event) -> bool:
-        st = self.state
-        if event.type == pygame.MOUSEWHEEL:
-            if self.hover_pos is not None and self._in_table(self.hover_pos):
-                return st.nudge_aim(0.1 * event.y, coalesce="wheel")
-            return False
-        pos = (int(event.pos[0]), int(event.pos[1]))
-        if event.type == pygame.MOUSEMOTION:
-            self.hover_pos = pos
-            press = self._press
-            if press is None:
-                self.hover_ball = self.ball_at(pos) if self._in_table(pos) else None
-                return False
-            if not press.moved and math.dist(pos, press.start) >= DRAG_PX:
-                press.moved = True
-                if press.kind == "cloth":
-                    press.kind = "aim"
-            if press.moved:
-                if press.kind == "ball":
-                    x, y = self.transform.to_table(*pos)
-                    self._drag_target = (x + press.offset[0], y + press.offset[1])
-                elif press.kind == "aim":
-                    self._aim_toward(pos)
-            return True
-        if event.type == pygame.MOUSEBUTTONDOWN:
-            if not self._in_table(pos) or event.button not in (1, 3):
-                return False
-            if self.playback.active:
-                self.playback.reset()  # editing shows the balls where they stand
-            mods = pygame.key.get_mods()
-            if event.button == 3 or (mods & pygame.KMOD_CTRL):
-                self._press = _Press("aim", pos, moved=True)
-                self._aim_toward(pos)
-                return True
-            ball = self.ball_at(pos)
-            if ball is not None:
-                bx, by = self.shown_positions()[ball]
-                x, y = self.transform.to_table(*pos)
-                self._press = _Press("ball", pos, ball, (bx - x, by - y))
-                return True
-            pocket = self.pocket_at(pos)
-            if pocket is not None and st.selection is not None and st.selection != "cue":
-                st.aim_at_pocket(st.selection, pocket)
-                self.say(f"aiming the {st.selection} at the {pocket} pocket")
-                return True
-            self._press = _Press("cloth", pos)
-            return True
-        if event.type == pygame.MOUSEBUTTONUP:
-            press, self._press = self._press, None
-            if press is None:
-                return False
-            if press.kind == "ball":
-                if press.moved:
-                    self._apply_drag(press)
-                else:
-                    st.select(press.ball)
-                    if press.ball != "cue":
-                        self.say(f"ball {press.ball} selected: click a pocket to aim it there")
-            elif press.kind == "cloth" and not press.moved:
-                st.select(None)
-            st.end_gesture()
-            return True
+        handler = {pygame.MOUSEWHEEL: self._wheel, pygame.MOUSEMOTION: self._pointer_move,
+                   pygame.MOUSEBUTTONDOWN: self._pointer_down,
+                   pygame.MOUSEBUTTONUP: self._pointer_up}.get(event.type)
+        return handler(event) if handler is not None else False
+
+    def _wheel(self, event: pygame.event.Event) -> bool:
+        if self.hover_pos is not None and self._in_table(self.hover_pos):
+            return self.state.nudge_aim(0.1 * event.y, coalesce="wheel")
         return False
+
+    def _pointer_move(self, event: pygame.event.Event) -> bool:
+        pos = (int(event.pos[0]), int(event.pos[1]))
+        self.hover_pos = pos
+        press = self._press
+        if press is None:
+            self.hover_ball = self.ball_at(pos) if self._in_table(pos) else None
+            return False
+        if not press.moved and math.dist(pos, press.start) >= DRAG_PX:
+            press.moved = True
+            if press.kind == "cloth":
+                press.kind = "aim"
+        if press.moved and press.kind == "ball":
+            x, y = self.transform.to_table(*pos)
+            self._drag_target = (x + press.offset[0], y + press.offset[1])
+        elif press.moved and press.kind == "aim":
+            self._aim_toward(pos)
+        return True
+
+    def _pointer_down(self, event: pygame.event.Event) -> bool:
+        st = self.state
+        pos = (int(event.pos[0]), int(event.pos[1]))
+        if not self._in_table(pos) or event.button not in (1, 3):
+            return False
+        if self.playback.active:
+            self.playback.reset()  # editing shows the balls where they stand
+        mods = pygame.key.get_mods()
+        if event.button == 3 or (mods & pygame.KMOD_CTRL):
+            self._press = _Press("aim", pos, moved=True)
+            self._aim_toward(pos)
+            return True
+        ball = self.ball_at(pos)
+        if ball is not None:
+            bx, by = self.shown_positions()[ball]
+            x, y = self.transform.to_table(*pos)
+            self._press = _Press("ball", pos, ball, (bx - x, by - y))
+            return True
+        pocket = self.pocket_at(pos)
+        if pocket is not None and st.selection is not None and st.selection != "cue":
+            st.aim_at_pocket(st.selection, pocket)
+            self.say(f"aiming the {st.selection} at the {pocket} pocket")
+            return True
+        self._press = _Press("cloth", pos)
+        return True
+
+    def _pointer_up(self, event: pygame.event.Event) -> bool:
+        st = self.state
+        press, self._press = self._press, None
+        if press is None:
+            return False
+        if press.kind == "ball" and press.moved:
+            self._apply_drag(press)
+        elif press.kind == "ball":
+            st.select(press.ball)
+            if press.ball != "cue":
+                self.say(f"ball {press.ball} selected: click a pocket to aim it there")
+        elif press.kind == "cloth" and not press.moved:
+            st.select(None)
+        st.end_gesture()
+        return True
 
     def _apply_drag(self, press: _Press) -> None:
         if self._drag_target is not None and press.ball is not None:
