@@ -655,6 +655,25 @@ class Panels:
         if aim_html != self._aim_text and (now - self._aim_time >= 0.12 or not busy):
             self._aim_text, self._aim_time = aim_html, now
             self.aim_box.set_text(aim_html)
+        self._sync_list(state)
+        duration = predictor.duration
+        label = f"{playback.t:.2f} / {duration:.2f} s"
+        if label != self._play_label:
+            self._play_label = label
+            self.time_label.set_text(label)
+        self.play_button.set_text("Pause" if playback.playing else "Play")
+        if not _held(self.time_slider):
+            pos = round(SLIDER_STEPS * playback.t / duration) if duration > 0 else 0
+            if round(self.time_slider.get_current_value()) != pos:
+                self.time_slider.set_current_value(pos, warn=False)
+        if status != self._status_text and (now - self._status_time >= 0.06 or not busy):
+            self._status_text, self._status_time = status, now
+            self.status.set_text(status)
+        self.title_label.set_text(title)
+
+    def _sync_list(self, state: Any) -> None:
+        """The proposed shots' list (or why there are none), redrawn when the
+        search's results change."""
         source = (state.proposals, state.rejections, state.proposals_done,
                   bool(state.problems()))
         old = self._list_source
@@ -691,20 +710,6 @@ class Panels:
                 self.why.hide()
                 self.columns.show()
                 self.shots.show()
-        duration = predictor.duration
-        label = f"{playback.t:.2f} / {duration:.2f} s"
-        if label != self._play_label:
-            self._play_label = label
-            self.time_label.set_text(label)
-        self.play_button.set_text("Pause" if playback.playing else "Play")
-        if not _held(self.time_slider):
-            pos = round(SLIDER_STEPS * playback.t / duration) if duration > 0 else 0
-            if round(self.time_slider.get_current_value()) != pos:
-                self.time_slider.set_current_value(pos, warn=False)
-        if status != self._status_text and (now - self._status_time >= 0.06 or not busy):
-            self._status_text, self._status_time = status, now
-            self.status.set_text(status)
-        self.title_label.set_text(title)
 
 
 def _held(slider: UIHorizontalSlider) -> bool:
