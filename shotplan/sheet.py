@@ -89,7 +89,7 @@ def roll_distance(speed_mps: float, height: float, physics: Any, elevation_deg: 
     ``height`` (ball radii, + follow) travels before it stops, m, on an
     endless cloth (see the module docstring). The strike gives the ball a
     spin ``w0 = 5 v0 h / (2 R)`` about the horizontal (the same law as
-    :func:`shotplan.search.tip_height`); a raised cue is treated as level."""
+    :func:`shotplan.stroke.tip_height`); a raised cue is treated as level."""
     v0 = float(speed_mps)
     if not math.isfinite(v0) or v0 < 0.0:
         raise InputError(f"speed {speed_mps!r} must be a number, 0 or more m/s")

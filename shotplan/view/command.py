@@ -89,7 +89,8 @@ def run_view(args: argparse.Namespace) -> int:
         os.environ["SDL_VIDEODRIVER"] = "dummy"
     import pygame
 
-    from .app import App, new_layout
+    from ..layout import new_layout
+    from .app import App
 
     if layout is None and spec is not None:
         layout = new_layout(spec)  # a measured table: its own values, not the preset's
