@@ -1,5 +1,5 @@
 """``shotplan cushion fit`` and ``shotplan cushion report``: the CLI face of
-:mod:`shotplan.cushion_fit`, with its figures.
+:mod:`shotplan.cushion`, with its figures.
 
 ``shotplan cushion fit DATA.csv [MORE.csv ...] [-o profile.json] [--plot FILE] [--json]``
     fits the cushion and cloth values to measurement files (their columns say
@@ -80,7 +80,7 @@ def _speed(text: str) -> float:
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
     """Add ``cushion`` with its actions ``fit`` and ``report``."""
-    from .cushion_fit import FIRM_STROKE_MPS, RESTITUTION_MODELS
+    from .cushion import FIRM_STROKE_MPS, RESTITUTION_MODELS
     from .equipment import PRESETS
 
     p = sub.add_parser("cushion", help="fit cushion and cloth measurements; report a profile",
@@ -141,7 +141,7 @@ def _run_missing(args: argparse.Namespace) -> int:
 # ------------------------------------------------------------------- fit
 def _run_fit(args: argparse.Namespace) -> int:
     from .cli import _emit_json
-    from .cushion_fit import finite_json, fit_measurements, read_measurements, write_profile
+    from .cushion import finite_json, fit_measurements, read_measurements, write_profile
     from .fileio import check_output_path
 
     # Every output checked before any work, so a bad name costs nothing.
@@ -198,7 +198,7 @@ def _spread_words(fit: Any) -> str:
 
 
 def _fit_lines(result: Any) -> list[str]:
-    from .cushion_fit import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
+    from .cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
 
     files = ", ".join(f"{f} ({k.replace('_', '-')})" for f, k in result.files)
     lines = [f"fit of {files} on {result.preset}"]
@@ -248,7 +248,7 @@ def _fit_lines(result: Any) -> list[str]:
 # ------------------------------------------------------------------- report
 def _run_report(args: argparse.Namespace) -> int:
     from .cli import _emit_json
-    from .cushion_fit import BANK_SPEED_MPS, finite_json, load_profile, profile_report
+    from .cushion import BANK_SPEED_MPS, finite_json, load_profile, profile_report
     from .fileio import check_output_path
 
     out = check_output_path(args.output, FIGURE_SUFFIXES) if args.output else None
@@ -347,7 +347,7 @@ def _rollout_panel(ax: Any, fit: Any, sliding: float, rolling_res: float, gravit
                    title: str) -> None:
     import numpy as np
 
-    from .cushion_fit import rollout_distance
+    from .cushion import rollout_distance
 
     rows = fit.rows
     vmax = max(float(dict(r.measured)["launch_speed_mps"]) for r in rows)
@@ -371,7 +371,7 @@ def _rollout_panel(ax: Any, fit: Any, sliding: float, rolling_res: float, gravit
 
 
 def _test_panel(ax: Any, rows: Sequence[Any], title: str, curve: Any = None) -> None:
-    from .cushion_fit import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
+    from .cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
 
     ax.axhspan(STANDARD_MIN_LENGTHS, STANDARD_MAX_LENGTHS, color=_BAND, zorder=0,
                label="standard: 4 to 4.5 lengths")

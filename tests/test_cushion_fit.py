@@ -1,4 +1,4 @@
-"""shotplan.cushion_fit and the ``shotplan cushion`` commands.
+"""shotplan.cushion and the ``shotplan cushion`` commands.
 
 Checks against outside references (the simulator, scipy, published
 standards) live in tests/reference/test_cushion_fit_reference.py; here are
@@ -14,9 +14,10 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from shotplan import cushion_fit as cf
+from shotplan import cushion as cf
 from shotplan.cli import main
 from shotplan.equipment import TableSpec
+from shotplan.errors import InputError
 from shotplan.layout import Layout, load_layout
 
 POOL = TableSpec.preset("pool-9ft")
@@ -198,7 +199,7 @@ def test_modified_z_hand_worked():
     # Iglewicz and Hoaglin (1993): z = 0.6745 (x - median) / MAD.
     # By hand for [1, 2, 3, 4, 100]: median 3, |x - 3| = [2, 1, 0, 1, 97],
     # MAD = 1, so z = 0.6745 * [-2, -1, 0, 1, 97]; only 100 exceeds 3.5.
-    z = cf._modified_z(np.array([1.0, 2.0, 3.0, 4.0, 100.0]), 1.0)
+    z = cf.modified_z(np.array([1.0, 2.0, 3.0, 4.0, 100.0]), 1.0)
     np.testing.assert_allclose(z, 0.6745 * np.array([-2, -1, 0, 1, 97]))
     assert list(np.abs(z) > cf.OUTLIER_Z) == [False, False, False, False, True]
 
@@ -226,12 +227,12 @@ def test_auto_model_choice():
 def test_inconsistent_rows_are_refused():
     rows = rebound_rows(8, seed=2)
     swapped = [(s, a, v, o, spin) for v, a, s, o, spin in rows]  # speed in and out swapped
-    with pytest.raises(cf.InputError, match="restitution of 1.*above 1.*swapped"):
+    with pytest.raises(InputError, match="restitution of 1.*above 1.*swapped"):
         cf.fit_measurements(measurements(swapped))
     narrow = [(2.0, 60.0 + i, 1.6, 63.0 + i, "stun") for i in range(6)]
-    with pytest.raises(cf.InputError, match="span only a factor"):
+    with pytest.raises(InputError, match="span only a factor"):
         cf.fit_measurements(measurements(narrow), restitution="linear")
-    with pytest.raises(cf.InputError, match="not a restitution model"):
+    with pytest.raises(InputError, match="not a restitution model"):
         cf.fit_measurements(measurements(rows), restitution="cubic")
 
 
@@ -307,10 +308,10 @@ def test_profile_errors(tmp_path):
     bad = tmp_path / "p.json"
     bad.write_text(json.dumps({"format": cf.PROFILE_FORMAT, "version": 1,
                                "table": {"preset": "pool-9ft", "cushion_restitution": 3.0}}))
-    with pytest.raises(cf.InputError, match=r"table.cushion_restitution: 3.0 is out of range"):
+    with pytest.raises(InputError, match=r"table.cushion_restitution: 3.0 is out of range"):
         cf.load_profile(bad)
     bad.write_text(json.dumps({"format": "something", "table": {}}))
-    with pytest.raises(cf.InputError, match="is not a table profile"):
+    with pytest.raises(InputError, match="is not a table profile"):
         cf.load_profile(bad)
     bare = tmp_path / "bare.json"
     bare.write_text(json.dumps({"preset": "pool-8ft", "cloth_rolling_resistance": 0.008}))
@@ -468,8 +469,8 @@ def test_too_few_distinct_rows_for_the_values_is_refused():
     fit = cf.ModelFit("rebound", "linear", tuple(cf.Estimate(n, 0.5, 0.1) for n in (
         "cushion_restitution", "cushion_restitution_slope", "cushion_friction")), (),
         (row,) * 5, 0.0, 0.0, 7, "m/s")
-    with pytest.raises(cf.InputError, match="only 1 distinct measurement, too few to determine"):
-        cf._degeneracy(fit, "t.csv")
+    with pytest.raises(InputError, match="only 1 distinct measurement, too few to determine"):
+        cf.degeneracy(fit, "t.csv")
 
 
 def test_nothing_to_estimate_exits_2(tmp_path, capsys):
@@ -500,7 +501,7 @@ def test_row_limit_refused_before_any_fitting(tmp_path, capsys, monkeypatch):
     ok = tmp_path / "ok.csv"
     ok.write_text(REBOUND_HEADER + "\n" + "1.5,45,1.2,50,stun\n" * (cf.MAX_ROWS // 2 + 1))
     assert cf.read_measurements([ok]).n_rows == cf.MAX_ROWS // 2 + 1
-    with pytest.raises(cf.InputError, match="over all its files"):
+    with pytest.raises(InputError, match="over all its files"):
         cf.read_measurements([ok, ok])
 
 

@@ -59,7 +59,7 @@ class Physics:
     Parkin (2010) fit 0.98 with their compliant model. 0.9 is the value in
     that range with which a table built to the standard passes its own
     rebound test (WPA: a firm centre-ball stroke travels at least 4 table
-    lengths; see ``shotplan.cushion_fit.standard_rebound_test``)."""
+    lengths; see ``shotplan.cushion.standard_rebound_test``)."""
     cushion_restitution_slope: float = 0.0
     """Fall of cushion restitution per m/s of normal speed:
     ``e = max(e0 - slope * v_n, 0.05)``. 0 (constant) unless fitted."""

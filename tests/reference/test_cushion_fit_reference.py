@@ -8,9 +8,11 @@ Sources, beside each check:
   standard errors, and the errors must shrink as rows are added (roughly as
   one over the square root of the rows: linearised least-squares theory,
   common practice, no source);
-* ``scipy.optimize.least_squares`` (a reference library) for the numpy
-  Levenberg-Marquardt fitter, and the textbook closed forms of straight-line
-  regression for its standard errors;
+* ``scipy.optimize.least_squares`` run directly, with MINPACK's
+  Levenberg-Marquardt and with tight tolerances (a reference library), for
+  the fitter (scipy's trust-region method inside the bounds, with our
+  Jacobian), and the textbook closed forms of straight-line regression for
+  its standard errors;
 * the solid-sphere closed forms of sliding and rolling on the cloth
   (DESIGN.md: a centre-ball launch slides ``12 v^2 / (49 mu_s g)`` and leaves
   at ``5/7 v``; rolling decelerates at ``mu_r g``) for the roll-out model and
@@ -22,7 +24,6 @@ Sources, beside each check:
 
 from __future__ import annotations
 
-import inspect
 import json
 import math
 
@@ -30,7 +31,7 @@ import numpy as np
 import pytest
 from scipy.optimize import least_squares
 
-from shotplan import cushion_fit as cf
+from shotplan import cushion as cf
 from shotplan.equipment import TableSpec
 from shotplan.layout import Layout
 from shotplan.physics import Physics, simulate
@@ -155,58 +156,63 @@ def test_fitted_profile_reproduces_its_rebounds_in_the_simulator(tmp_path):
 
 # ------------------------------------------------------------- the fitter
 # How close an iterative fit gets to the exact minimum follows from its
-# stopping rule, not from one machine's rounding. Our fitter stops when the
-# cost falls by less than ``ftol`` of itself (or when no step lowers the cost
-# by more than its rounding, eps << ftol), so it cannot tell apart points
-# whose excess cost is ``delta <= ftol * cost``. Near the minimum the cost is
+# stopping rule, not from one machine's rounding. The fitter (scipy's
+# ``trf``) stops when the cost falls by less than ``ftol`` of itself, so it
+# cannot tell apart points whose excess cost is ``delta <= ftol * cost``. Near the minimum the cost is
 # ``cost* + 1/2 dx^T A dx`` (A = J^T J), and by Cauchy-Schwarz in the A-norm
 # ``|dx_j| <= sqrt(2 delta (A^-1)_jj)``. With ``SE_j^2 = sigma^2 (A^-1)_jj``
 # and ``sigma^2 = 2 cost / (m - p)`` this is
-# ``|dx_j| <= sqrt(ftol (m - p)) SE_j``: the band below. Two fitters, each
-# with its own ftol, may differ by the sum of their bands.
-FTOL = inspect.signature(cf.levenberg_marquardt).parameters["ftol"].default
+# ``|dx_j| <= sqrt(ftol (m - p)) SE_j``. It also stops when a step is
+# shorter than ``xtol (xtol + |x|)``; near the minimum a step goes most of
+# the way there, so that is within the same length of it. The band below is
+# the sum of the two. Two fitters, each with its own tolerances, may differ
+# by the sum of their bands. The tolerances are read from the fitter.
+FTOL = cf.FTOL
+XTOL = cf.XTOL
 
 
-def stopping_band(se: np.ndarray, m: int, *ftols: float) -> np.ndarray:
+def stopping_band(se: np.ndarray, m: int, x: np.ndarray,
+                  *tols: tuple[float, float]) -> np.ndarray:
     """Largest distance from the exact minimum, per parameter, at which the
-    stopping rules of fitters with these ``ftols`` may stop (derivation above);
-    ``m`` residuals, ``len(se)`` parameters."""
+    stopping rules of fitters with these ``(ftol, xtol)`` may stop (derivation
+    above); ``m`` residuals, ``len(se)`` parameters, ``x`` the solution."""
     p = len(se)
-    return sum(math.sqrt(f * (m - p)) for f in ftols) * np.asarray(se)
+    return sum(math.sqrt(f * (m - p)) * np.asarray(se)
+               + xt * (xt + float(np.linalg.norm(x))) for f, xt in tols)
 
 
-def test_numpy_fitter_agrees_with_scipy_on_the_cushion_fit():
+def test_fitter_agrees_with_plain_scipy_on_the_cushion_fit():
     # Reference library: scipy.optimize.least_squares on the very same
     # residuals (MINPACK's Levenberg-Marquardt, and the trust-region method).
     rows = simulated_rows(30, seed=3)
-    data = cf._Rebounds(rows, POOL)
+    data = cf.ReboundData(rows, POOL)
     data.weights = np.array([1.0, 1.0])
 
     def fun(p):
         return data.residuals(*p)
 
-    ours = cf.levenberg_marquardt(fun, [0.8, 0.0, 0.14], lower=[0.05, -1, 0], upper=[1.5, 1, 1],
-                                  scale=[1.0, 0.1, 0.1])
+    ours = cf.least_squares_fit(fun, [0.8, 0.0, 0.14], lower=[0.05, -1, 0], upper=[1.5, 1, 1],
+                                scale=[1.0, 0.1, 0.1])
     se_ours, _s, _c = cf.standard_errors(ours)
     m = len(ours.residuals)
     for method in ("lm", "trf"):
         ref = least_squares(fun, [0.8, 0.0, 0.14], method=method, x_scale=[1.0, 0.1, 0.1],
                             xtol=1e-14, ftol=1e-14, gtol=1e-14)
-        # Both stop within their ftol bands of the same minimum (see above).
-        band = stopping_band(se_ours, m, FTOL, 1e-14)
+        # Both stop within their bands of the same minimum (see above).
+        band = stopping_band(se_ours, m, ref.x, (FTOL, XTOL), (1e-14, 1e-14))
         assert np.all(np.abs(ours.x - ref.x) <= band), (ours.x - ref.x, band)
         # Each cost is within its ftol of the minimum cost.
         assert ours.cost == pytest.approx(ref.cost, rel=FTOL + 1e-14)
         sigma2 = 2 * ref.cost / (len(ref.fun) - 3)
         se_ref = np.sqrt(np.diag(sigma2 * np.linalg.inv(ref.jac.T @ ref.jac)))
         # The standard errors come from two numerical Jacobians: scipy's
-        # forward differences (relative error of order sqrt(eps) ~ 1.5e-8 times
-        # the curvature) and our central ones (eps^(2/3)); 1e-3 is far above
+        # default forward differences (relative error of order sqrt(eps) ~
+        # 1.5e-8 times the curvature) and our central ones (eps^(2/3)); 1e-3 is far above
         # both, and far below any error that would matter to a user.
         np.testing.assert_allclose(se_ours, se_ref, rtol=1e-3)
 
 
-def test_numpy_fitter_agrees_with_scipy_on_exponential_decay():
+def test_fitter_agrees_with_minpack_on_exponential_decay():
     # A classic nonlinear problem: y = a exp(-b t) + c with noise.
     rng = np.random.default_rng(0)
     t = np.linspace(0, 4, 40)
@@ -215,10 +221,11 @@ def test_numpy_fitter_agrees_with_scipy_on_exponential_decay():
     def fun(p):
         return p[0] * np.exp(-p[1] * t) + p[2] - y
 
-    ours = cf.levenberg_marquardt(fun, [1.0, 1.0, 0.0])
+    ours = cf.least_squares_fit(fun, [1.0, 1.0, 0.0])
     ref = least_squares(fun, [1.0, 1.0, 0.0], method="lm", xtol=1e-15, ftol=1e-15)
     se, _s, _c = cf.standard_errors(ours)
-    band = stopping_band(se, len(t), FTOL, 1e-15)  # the solvers' stopping rules (above)
+    # the solvers' stopping rules (above)
+    band = stopping_band(se, len(t), ref.x, (FTOL, XTOL), (1e-15, 1e-15))
     assert np.all(np.abs(ours.x - ref.x) <= band), (ours.x - ref.x, band)
     assert ours.converged
 
@@ -230,7 +237,7 @@ def test_standard_errors_match_straight_line_regression():
     rng = np.random.default_rng(1)
     x = np.linspace(0.0, 10.0, 25)
     y = 1.5 + 0.7 * x + 0.3 * rng.standard_normal(25)
-    res = cf.levenberg_marquardt(lambda p: p[0] + p[1] * x - y, [0.0, 0.0])
+    res = cf.least_squares_fit(lambda p: p[0] + p[1] * x - y, [0.0, 0.0])
     se, sigma, _cov = cf.standard_errors(res)
     xbar = x.mean()
     sxx = float(np.sum((x - xbar) ** 2))
@@ -238,10 +245,10 @@ def test_standard_errors_match_straight_line_regression():
     a = float(y.mean() - b * xbar)
     rss = float(np.sum((y - a - b * x) ** 2))
     s = math.sqrt(rss / 23)
-    # The closed form is exact; the fitter stops within its ftol band of it
-    # (derivation above), not at 1e-9: it once stopped 1.1e-9 away, by its
-    # step rule, where the cost is flat to rounding.
-    band = stopping_band(se, 25, FTOL)
+    # The closed form is exact; the fitter stops within its band of it
+    # (derivation above), not at 1e-9: a fitter once stopped 1.1e-9 away,
+    # by its step rule, where the cost is flat to rounding.
+    band = stopping_band(se, 25, np.array([a, b]), (FTOL, XTOL))
     assert np.all(np.abs(res.x - [a, b]) <= band), (res.x - [a, b], band)
     # sigma^2 is 2 cost / (n - 2), and the cost is within ftol of the least
     # one, so sigma is within ftol / 2 of the closed form's.
@@ -379,8 +386,8 @@ def test_bank_aim_follows_the_cushion():
     same = cf.profile_from_dict({"preset": "pool-9ft"}, "same")
     dead = cf.profile_from_dict({"preset": "pool-9ft", "cushion_restitution": 0.7,
                                  "cushion_friction": 0.25}, "dead")
-    b_same = cf._bank(same, cf.BANK_SPEED_MPS)
-    b_dead = cf._bank(dead, cf.BANK_SPEED_MPS)
+    b_same = cf.bank_comparison(same, cf.BANK_SPEED_MPS)
+    b_dead = cf.bank_comparison(dead, cf.BANK_SPEED_MPS)
     # The same table twice runs the same deterministic search: the two
     # answers are bit-identical, so any tolerance would do; 1e-9 says "zero".
     assert b_same.difference_deg == pytest.approx(0.0, abs=1e-9)
