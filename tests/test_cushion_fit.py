@@ -578,3 +578,25 @@ def test_slate_figure_is_one_and_the_readme_quotes_it():
     import re
     assert set(re.findall(r"(\d[\d,-]*) ?lb", text)) == {str(cf.SLATE_9FT_LB)}
     assert set(re.findall(r"(\d[\d,-]*) ?lb", " ".join(cf.CAUTIONS))) == {str(cf.SLATE_9FT_LB)}
+
+
+def test_cushion_package_layers_and_sizes():
+    # The house issue's rules for the package (our own rules, no outside
+    # source): no module above 800 lines, no private name imported from
+    # another module, and each module imports only the ones listed before it
+    # in the package docstring's order.
+    import ast
+
+    import shotplan.cushion as pkg
+
+    order = ["measurements", "models", "lsq", "results", "profile", "fit", "report"]
+    root = Path(pkg.__file__).parent
+    assert sorted(p.stem for p in root.glob("*.py")) == sorted(order + ["__init__"])
+    for i, name in enumerate(order):
+        text = (root / f"{name}.py").read_text(encoding="utf-8")
+        assert len(text.splitlines()) <= 800, name
+        for node in ast.walk(ast.parse(text)):
+            if isinstance(node, ast.ImportFrom) and node.level > 0:
+                assert all(not a.name.startswith("_") for a in node.names), (name, node.module)
+                if node.level == 1:
+                    assert node.module in order[:i], (name, node.module)
