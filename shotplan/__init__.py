@@ -4,6 +4,8 @@ The public names are handed on from their modules; see each module's
 docstring for details.
 """
 
+from importlib import metadata as _metadata
+
 from .equipment import PRESETS, TableSpec
 from .errors import InputError, LayoutError, PhysicsError, ShotplanError, StrokeError
 from .layout import Layout, Problem, load_layout, save_layout
@@ -11,7 +13,10 @@ from .physics import Physics
 from .stroke import Stroke
 from .table import Table
 
-__version__ = "0.1.0"
+try:  # the version is written once, in pyproject.toml
+    __version__ = _metadata.version("shotplan")
+except _metadata.PackageNotFoundError:  # run from a source tree never installed
+    __version__ = "0+unknown"
 
 
 def __getattr__(name: str) -> object:

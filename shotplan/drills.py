@@ -70,7 +70,7 @@ from typing import Any, TextIO
 import numpy as np
 
 from .errors import InputError, LayoutError
-from .fileio import atomic_write_text, check_output_path
+from .files.write import atomic_write_text, check_output_path
 from .layout import Layout, _kind, _show, check_format, check_version, read_json_file
 from .players import (
     DEFAULT_LEVEL,
@@ -317,7 +317,7 @@ class Drill:
         return json.dumps(self.to_dict(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
-def _station(data: Any, where: str, base: Path) -> Station:
+def _station(data: Any, where: str, base: Path) -> Station:  # noqa: C901 (to split)
     if not isinstance(data, Mapping):
         raise LayoutError(f"{where}: must be a station object (name, layout, ball, pocket), "
                           f"not {_kind(data)}")
@@ -924,7 +924,7 @@ def station_scene(result: StationResult, title: str | None = None, dots: int = 4
     style: white pocketed and in position, red not; ``print``: a filled ink
     dot and an open ring)."""
     from .position import zone_shapes
-    from .scene import CircleShape, Layer, shot_scene
+    from .render.scene import CircleShape, Layer, shot_scene
 
     plan = result.plan
     st = plan.station
@@ -958,9 +958,9 @@ def write_sheet(result: DrillResult, path: str | os.PathLike[str], dpi: float = 
                 ) -> list[Path]:
     """Write the drill sheet: a PDF with a page per station at ``path``
     (``X.pdf``) and a folder ``X-stations/`` with a PNG per page, replaced as
-    a whole (see :mod:`shotplan.sheet`). Every page is drawn before anything
+    a whole (see :mod:`shotplan.render.sheet`). Every page is drawn before anything
     is written. Returns the files written, the PDF first."""
-    from .sheet import sheet_figures, write_sheet_files
+    from .render.sheet import sheet_figures, write_sheet_files
 
     return write_sheet_files(sheet_figures(result), path, dpi=dpi)
 

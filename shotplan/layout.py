@@ -61,7 +61,7 @@ from .errors import (
     shorten,
     show_path,
 )
-from .fileio import atomic_write_text, check_output_path, read_limited
+from .files.write import atomic_write_text, check_output_path, read_limited
 from .physics.params import Physics
 from .stroke import Stroke
 from .table import LINE_RAIL, Table

@@ -799,7 +799,7 @@ def height_colour(height: float, limit: float) -> str:
 
 
 def _marker(centre: tuple[float, float], r: float, side: float, fill: str, layer: int) -> Any:
-    from .scene import CircleShape, PolygonShape
+    from .render.scene import CircleShape, PolygonShape
 
     x, y = centre
     if abs(side) < 1e-9:
@@ -817,7 +817,7 @@ def zone_shapes(zone: Zone, style: str = "colour") -> list[Any]:
     """The zone as scene shapes: a translucent gold area with a solid edge
     (``print`` style: a pale amber area with a dark dashed edge, which reads
     on white paper and in greyscale)."""
-    from .scene import Layer, PolylineShape, polygon_shapes
+    from .render.scene import Layer, PolylineShape, polygon_shapes
 
     geom = zone.geometry
     if style == "print":
@@ -832,7 +832,7 @@ def zone_shapes(zone: Zone, style: str = "colour") -> list[Any]:
 
 def position_scene(pmap: PositionMap, title: str | None = None, note: str | None = None,
                    style: str = "print") -> Any:
-    """The position map as a :class:`shotplan.scene.Scene`: the layout, the
+    """The position map as a :class:`shotplan.render.scene.Scene`: the layout, the
     object ball's line to the pocket, the zone, and every finish of a setting
     that pocketed the ball as a mark coloured by tip height (see
     :func:`height_colour`; the stun row in teal), bigger for faster speeds,
@@ -840,7 +840,7 @@ def position_scene(pmap: PositionMap, title: str | None = None, note: str | None
     english; the finishes of one height and side are joined in speed order,
     so the draw, stun and follow lines show. Settings that reached the zone
     are ringed. A legend strip is added under the table."""
-    from .scene import CircleShape, Layer, PolylineShape, Scene, TextShape, layout_scene
+    from .render.scene import CircleShape, Layer, PolylineShape, Scene, TextShape, layout_scene
     from .search import pocket_target
 
     lay = pmap.layout

@@ -114,8 +114,8 @@ MAGIC = {
 
 @pytest.mark.parametrize("suffix", [".png", ".svg", ".pdf"])
 def test_draw_writes_a_valid_file(suffix, tmp_path, capsys):
-    pytest.importorskip("shotplan.export")
-    pytest.importorskip("shotplan.scene")
+    pytest.importorskip("shotplan.render.export")
+    pytest.importorskip("shotplan.render.scene")
     out = tmp_path / f"diagram{suffix}"
     code, stdout, err = run(capsys, "draw", str(DEMOS[1]), "-o", str(out), "--title",
                             "Thirty degrees", "--dpi", "60")
@@ -138,7 +138,7 @@ def test_draw_writes_a_valid_file(suffix, tmp_path, capsys):
 
 
 def test_draw_replaces_an_old_diagram(tmp_path, capsys):
-    pytest.importorskip("shotplan.export")
+    pytest.importorskip("shotplan.render.export")
     out = tmp_path / "d.png"
     out.write_bytes(b"old")
     code, _, err = run(capsys, "draw", str(DEMOS[0]), "-o", str(out), "--dpi", "40")

@@ -382,7 +382,7 @@ def test_bank_layout_is_playable_on_every_preset():
 
 
 def test_progress_bar_only_on_a_terminal(monkeypatch, capsys):
-    from shotplan import cushion_command
+    from shotplan.cli import cushion as cushion_command
 
     class Tty:
         def __init__(self, tty):

@@ -493,7 +493,7 @@ def test_roll_distance_hand_worked():
     # for (5/7)^2 / (2 x 0.01 x 9.81) = 2.60043 m. Total 2.72525 m.
     from types import SimpleNamespace
 
-    from shotplan.sheet import roll_distance
+    from shotplan.render.sheet import roll_distance
 
     phys = SimpleNamespace(gravity=9.81, cloth_sliding_friction=0.2,
                            cloth_rolling_resistance=0.01)
@@ -507,7 +507,7 @@ def test_roll_distance_matches_the_engine(speed, height):
     # The event engine, an independent implementation of the same cloth
     # laws, must stop a lone cue ball where the closed form says.
     from shotplan.physics import simulate
-    from shotplan.sheet import roll_distance
+    from shotplan.render.sheet import roll_distance
 
     lay = Layout(TableSpec.preset("pool-9ft"), {"cue": (0.3, 0.635)})
     out = simulate(lay, Stroke(0.0, speed, 0.0, height))
@@ -521,7 +521,7 @@ def test_aim_picture_of_a_thirty_degree_cut(folder):
     # passes 2R sin 30 = R from the object ball's centre, a half-ball hit
     # (fraction 1 - sin 30 = 0.5), touching R/2 from its centre.
     from shotplan.aim import aim_at
-    from shotplan.sheet import aim_picture, aim_words
+    from shotplan.render.sheet import aim_picture, aim_words
 
     spec = TableSpec.preset("pool-9ft")
     table = Layout(spec, {"cue": (0.5, 0.5)}).geometry
@@ -551,7 +551,7 @@ def test_a_kick_is_aimed_at_a_diamond():
     # no source): the sight to aim at is where the cue ball's centre meets
     # the right rail, x / (L / 8) from the head rail.
     from shotplan.layout import load_layout
-    from shotplan.sheet import aim_picture, aim_words
+    from shotplan.render.sheet import aim_picture, aim_words
 
     lay = load_layout(LAYOUTS / "club-night-3-bank-practice.json")
     plan = plan_station(Station("kick", lay, "3", "side-left"))
@@ -593,7 +593,7 @@ def test_a_killed_sheet_write_leaves_a_whole_folder_or_none(folder):
             names = sorted(p.name for p in pics.iterdir())
             assert names == ["station-1.png", "station-2.png", "written-by-shotplan.txt"]
     subprocess.run(argv, check=True, capture_output=True)
-    # (the PDF's own temporary file is shotplan.fileio's business)
+    # (the PDF's own temporary file is shotplan.files.write's business)
     left = [p.name for p in folder.iterdir() if p.name.startswith(".sheet-stations")]
     assert left == [], left
     assert os.path.getsize(sheet) > 0

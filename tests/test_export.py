@@ -1,4 +1,4 @@
-"""Tests of shotplan.export: scenes to PNG, SVG and PDF files."""
+"""Tests of shotplan.render.export: scenes to PNG, SVG and PDF files."""
 
 from __future__ import annotations
 
@@ -16,8 +16,8 @@ from matplotlib.figure import Figure
 from PIL import Image
 
 from shotplan import InputError, Table, TableSpec
-from shotplan.export import Page, render_png_bytes, write_pages, write_scene
-from shotplan.scene import (
+from shotplan.render.export import Page, render_png_bytes, write_pages, write_scene
+from shotplan.render.scene import (
     CircleShape,
     PolylineShape,
     Scene,
@@ -220,7 +220,7 @@ def test_bad_suffix_raises_before_any_work(nine_foot, tmp_path, monkeypatch):
     def no_drawing(*args, **kwargs):
         raise AssertionError("drew before checking the suffix")
 
-    monkeypatch.setattr("shotplan.export.render_figure", no_drawing)
+    monkeypatch.setattr("shotplan.render.export.render_figure", no_drawing)
     with pytest.raises(InputError, match=r"'\.bmp'.*must end in one of \.png, \.svg, \.pdf"):
         write_scene(nine_foot, tmp_path / "t.bmp")
     with pytest.raises(InputError, match="must end in one of .pdf"):
@@ -290,7 +290,7 @@ def test_print_style_is_light_on_ink():
 
 
 def test_pixel_limit_refuses_before_drawing(nine_foot, tmp_path, monkeypatch):
-    from shotplan.export import DPI_RANGE, MAX_PIXELS
+    from shotplan.render.export import DPI_RANGE, MAX_PIXELS
 
     assert DPI_RANGE[1] == 2400
     # 10 in at 2400 dpi: 24000 px wide, and the 9 ft table with its rails is

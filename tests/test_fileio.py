@@ -1,4 +1,4 @@
-"""Files in and out (shotplan.fileio): links, special files, read-only files,
+"""Files in and out (shotplan.files.write): links, special files, read-only files,
 temporary files, signals, messages.
 
 The outside references: POSIX semantics of rename, symbolic links, FIFOs and
@@ -23,7 +23,7 @@ from pathlib import Path
 import pytest
 
 from shotplan.errors import InputError, LayoutError, Terminated, WriteError, shorten, show_path
-from shotplan.fileio import (
+from shotplan.files.write import (
     LEGACY_STALE_SECONDS,
     atomic_path,
     atomic_write_bytes,
@@ -184,7 +184,7 @@ def _dead_pid() -> int:
 
 @pytest.mark.skipif(not POSIX, reason="process ids")
 def test_stale_temporaries_of_dead_writers_go_on_the_next_write(tmp_path):
-    from shotplan import fileio
+    from shotplan.files import write as fileio
 
     out = tmp_path / "d.png"
     host = fileio._host_tag()

@@ -14,7 +14,7 @@ import pytest
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
-import shotplan.fileio as fileio
+import shotplan.files.write as fileio
 from shotplan import Layout, LayoutError, Problem, Stroke, Table, TableSpec, load_layout
 from shotplan.equipment import PRESETS
 from shotplan.layout import rack, save_layout

@@ -14,6 +14,7 @@ import pytest
 
 from shotplan.aim import cut_angle_deg
 from shotplan.cli import main
+from shotplan.cli.study import ProgressBar, load_table
 from shotplan.equipment import TableSpec
 from shotplan.errors import InputError
 from shotplan.search import find_shots
@@ -27,7 +28,6 @@ from shotplan.study import (
     throw_study,
     window_against_cut,
 )
-from shotplan.study_command import ProgressBar, load_table
 from shotplan.table import Table
 
 SPEC = TableSpec.preset("pool-9ft")

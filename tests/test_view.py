@@ -21,7 +21,7 @@ import pytest
 from shotplan.cli import main
 from shotplan.equipment import TableSpec
 from shotplan.layout import Layout, load_layout
-from shotplan.scene import CircleShape
+from shotplan.render.scene import CircleShape
 from shotplan.table import Table
 from shotplan.view.app import App
 from shotplan.view.draw import dash_segments
@@ -762,7 +762,7 @@ def test_screenshot_of_a_broken_file_is_exit_2(tmp_path, capsys):
 
 def test_the_core_never_imports_pygame():
     code = ("import sys; from shotplan.cli import main, build_parser; build_parser(); "
-            "main(['tables']); import shotplan.search, shotplan.scene, shotplan.export; "
+            "main(['tables']); import shotplan.search, shotplan.render.scene, shotplan.render.export; "
             "sys.exit(1 if 'pygame' in sys.modules else 0)")
     proc = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
     assert proc.returncode == 0, proc.stderr

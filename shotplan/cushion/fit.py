@@ -599,7 +599,7 @@ def rebound_test_check(rows: Sequence[ReboundTestRow], spec: TableSpec,
                     "residuals are the profile's simulated table lengths minus the measured",))
 
 
-def fit_measurements(
+def fit_measurements(  # noqa: C901 (to split)
     measurements: Measurements,
     preset: str = "pool-9ft",
     *,

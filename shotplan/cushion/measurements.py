@@ -12,7 +12,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..errors import InputError
-from ..fileio import read_limited
+from ..files.write import read_limited
 
 __all__ = [
     "SPINS",
@@ -259,7 +259,7 @@ def _number(text: str, column: str, where: str) -> float:
     return value
 
 
-def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:
+def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:  # noqa: C901 (to split)
     """Read one measurement file (kind from its columns, see :mod:`shotplan.cushion`).
 
     Parameters

@@ -14,7 +14,7 @@ import numpy as np
 
 from ..equipment import PRESETS, TableSpec
 from ..errors import InputError, LayoutError
-from ..jsonout import missing_as_null
+from ..files.jsonout import missing_as_null
 from .measurements import SPINS, Measurements, ReboundRow, ReboundTestRow, RolloutRow, Row
 from .models import FIRM_SPEED_NOTE, FIRM_STROKE_MPS, STANDARD_MIN_LENGTHS, ReboundTest
 from .results import MIN_ROWS_FOR_OUTLIERS, OUTLIER_Z, Estimate, KindFit, RowResult
@@ -317,7 +317,7 @@ def write_profile(result: FitResult, path: str | os.PathLike[str]) -> Path:
     """
     import json
 
-    from ..fileio import atomic_write_text, check_output_path
+    from ..files.write import atomic_write_text, check_output_path
 
     p = check_output_path(path, (".json",))
     text = json.dumps(finite_json(result.profile_dict()), indent=2, ensure_ascii=False,
@@ -328,5 +328,5 @@ def write_profile(result: FitResult, path: str | os.PathLike[str]) -> Path:
 
 finite_json = missing_as_null
 """``value`` with every non-finite float replaced by None (JSON has no NaN):
-:func:`shotplan.jsonout.missing_as_null`, under the name the cushion
+:func:`shotplan.files.jsonout.missing_as_null`, under the name the cushion
 commands have used."""

@@ -163,8 +163,9 @@ def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  
     pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
 
 
+# noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
 @jit
-def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,
+def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,  # noqa: C901
                ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b,
                seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om):  # type: ignore[no-untyped-def]
     """Run the simulation from t = 0 (arrays changed in place).

@@ -98,7 +98,7 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
 
 
 @jit
-def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf):  # type: ignore[no-untyped-def]
+def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf):  # type: ignore[no-untyped-def]  # noqa: C901, E501
     """Ball i's next event of its own: (absolute time, kind, element index,
     absolute time of its next change of state). ``t_now`` must equal the
     ball's reference time. Element: line index for cushion/jaw faces (and

@@ -36,9 +36,9 @@ from pygame_gui.windows import UIConfirmationDialog, UIMessageWindow
 from ..aim import direction_deg, overlap_word
 from ..equipment import TableSpec
 from ..errors import ShotplanError
-from ..fileio import atomic_path, check_output_path
+from ..files.write import atomic_path, check_output_path
 from ..layout import Layout, load_layout, new_layout, save_layout
-from ..scene import Scene, Shape, layout_scene, shot_scene, table_scene
+from ..render.scene import Scene, Shape, layout_scene, shot_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
 from .draw import Painter, TableCache, rgb
@@ -412,7 +412,7 @@ class App:
         the window) as PNG, SVG or PDF, by the file's suffix."""
         try:
             out = check_output_path(path, DIAGRAM_SUFFIXES)
-            from ..export import write_scene
+            from ..render.export import write_scene
 
             layout = self.state.layout_to_save()
             pred = self.predictor

@@ -62,7 +62,7 @@ def display_available() -> bool:
 
 def run_view(args: argparse.Namespace) -> int:
     """Run ``shotplan view``; returns the exit code."""
-    from ..fileio import check_output_path
+    from ..files.write import check_output_path
     from ..layout import load_layout, load_table
 
     spec = load_table(args.table) if args.table else None  # LayoutError: one line

@@ -1,4 +1,4 @@
-"""Drawing :mod:`shotplan.scene` shapes with pygame.
+"""Drawing :mod:`shotplan.render.scene` shapes with pygame.
 
 The table view draws exactly the shapes the file export draws (polygons,
 circles, polylines with dashes and arrow heads, wedges, text), through the one
@@ -21,7 +21,7 @@ from typing import Any
 import numpy as np
 import pygame
 
-from ..scene import (
+from ..render.scene import (
     ANCHORS,
     CircleShape,
     Layer,

@@ -1,9 +1,9 @@
-"""The moving part of the picture, as :mod:`shotplan.scene` shapes.
+"""The moving part of the picture, as :mod:`shotplan.render.scene` shapes.
 
-The static table comes from :func:`shotplan.scene.table_scene`; these
+The static table comes from :func:`shotplan.render.scene.table_scene`; these
 functions add what changes: the balls (where they stand, or where the
 animation has them), the predicted paths with their markers
-(:func:`shotplan.scene.outcome_shapes`), the pocketed balls, the aim (ghost
+(:func:`shotplan.render.scene.outcome_shapes`), the pocketed balls, the aim (ghost
 ball, aim line, contact point, cut label), the window wedge, the cue, the
 selection. Pure Python: the same shapes could go to a file.
 """
@@ -17,7 +17,7 @@ import math
 from collections.abc import Iterable, Mapping, Sequence
 from typing import Any
 
-from ..scene import (
+from ..render.scene import (
     BALL_COLOURS,
     STRIPE_IDS,
     CircleShape,

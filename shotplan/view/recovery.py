@@ -10,7 +10,7 @@ for state that should survive a restart)::
 
 A moment after each edit the session writes its layout (with its stroke), the
 stroke settings and the aim to its own file (atomically, through
-:mod:`shotplan.fileio`, so a crash mid-write leaves the previous copy whole),
+:mod:`shotplan.files.write`, so a crash mid-write leaves the previous copy whole),
 and removes the file once the work is saved. It never writes, offers or
 removes another session's file while that session runs: a file is *left
 over* only when no process holds its lock (the view ended without saving,
@@ -49,7 +49,7 @@ from pathlib import Path
 from typing import IO, Any
 
 from ..errors import LayoutError, ShotplanError
-from ..fileio import atomic_write_text, check_output_path
+from ..files.write import atomic_write_text, check_output_path
 from ..layout import Layout, read_json_file
 from ..search import KINDS
 from .state import FreeAim, PocketAim, Snapshot, StrokeSettings, ViewState

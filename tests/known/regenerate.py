@@ -25,7 +25,7 @@ from pathlib import Path
 from typing import Any
 
 from shotplan.equipment import TableSpec
-from shotplan.fileio import atomic_write_text
+from shotplan.files.write import atomic_write_text
 from shotplan.physics import Physics, Simulator
 from shotplan.stroke import Stroke
 from shotplan.table import Table

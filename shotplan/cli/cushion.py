@@ -12,7 +12,7 @@
     PNG/SVG figure.
 
 Figures are matplotlib figures on the Agg canvas (no pyplot state); every
-file goes through :func:`shotplan.fileio.atomic_write_bytes`. Heavy imports happen
+file goes through :func:`shotplan.files.write.atomic_write_bytes`. Heavy imports happen
 inside the run functions so that other commands stay fast.
 """
 
@@ -24,7 +24,7 @@ from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
 
-from .errors import InputError
+from ..errors import InputError
 
 __all__ = ["add_subcommands", "FIGURE_SUFFIXES"]
 
@@ -80,8 +80,8 @@ def _speed(text: str) -> float:
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
     """Add ``cushion`` with its actions ``fit`` and ``report``."""
-    from .cushion import FIRM_STROKE_MPS, RESTITUTION_MODELS
-    from .equipment import PRESETS
+    from ..cushion import FIRM_STROKE_MPS, RESTITUTION_MODELS
+    from ..equipment import PRESETS
 
     p = sub.add_parser("cushion", help="fit cushion and cloth measurements; report a profile",
                        description="Cushion and cloth measurements: fit restitution and "
@@ -140,9 +140,9 @@ def _run_missing(args: argparse.Namespace) -> int:
 
 # ------------------------------------------------------------------- fit
 def _run_fit(args: argparse.Namespace) -> int:
-    from .cli import _emit_json
-    from .cushion import finite_json, fit_measurements, read_measurements, write_profile
-    from .fileio import check_output_path
+    from ..cushion import finite_json, fit_measurements, read_measurements, write_profile
+    from ..files.write import check_output_path
+    from .main import _emit_json
 
     # Every output checked before any work, so a bad name costs nothing.
     out = check_output_path(args.output, _PROFILE_SUFFIXES) if args.output else None
@@ -198,7 +198,7 @@ def _spread_words(fit: Any) -> str:
 
 
 def _fit_lines(result: Any) -> list[str]:
-    from .cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
+    from ..cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
 
     files = ", ".join(f"{f} ({k.replace('_', '-')})" for f, k in result.files)
     lines = [f"fit of {files} on {result.preset}"]
@@ -247,9 +247,9 @@ def _fit_lines(result: Any) -> list[str]:
 
 # ------------------------------------------------------------------- report
 def _run_report(args: argparse.Namespace) -> int:
-    from .cli import _emit_json
-    from .cushion import BANK_SPEED_MPS, finite_json, load_profile, profile_report
-    from .fileio import check_output_path
+    from ..cushion import BANK_SPEED_MPS, finite_json, load_profile, profile_report
+    from ..files.write import check_output_path
+    from .main import _emit_json
 
     out = check_output_path(args.output, FIGURE_SUFFIXES) if args.output else None
     if out is not None and out.resolve() == Path(args.profile).resolve():
@@ -292,7 +292,7 @@ def _write_figures(figures: Sequence[Any], path: Path) -> None:
     """One figure as PNG/SVG/PDF, or several as a multi-page PDF; atomic."""
     import io
 
-    from .fileio import atomic_write_bytes
+    from ..files.write import atomic_write_bytes
 
     fmt = path.suffix.lower().lstrip(".")
     if len(figures) > 1 and fmt != "pdf":
@@ -347,7 +347,7 @@ def _rollout_panel(ax: Any, fit: Any, sliding: float, rolling_res: float, gravit
                    title: str) -> None:
     import numpy as np
 
-    from .cushion import rollout_distance
+    from ..cushion import rollout_distance
 
     rows = fit.rows
     vmax = max(float(dict(r.measured)["launch_speed_mps"]) for r in rows)
@@ -371,7 +371,7 @@ def _rollout_panel(ax: Any, fit: Any, sliding: float, rolling_res: float, gravit
 
 
 def _test_panel(ax: Any, rows: Sequence[Any], title: str, curve: Any = None) -> None:
-    from .cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
+    from ..cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
 
     ax.axhspan(STANDARD_MIN_LENGTHS, STANDARD_MAX_LENGTHS, color=_BAND, zorder=0,
                label="standard: 4 to 4.5 lengths")
@@ -394,7 +394,7 @@ def _test_panel(ax: Any, rows: Sequence[Any], title: str, curve: Any = None) -> 
 
 def _fit_figure(result: Any) -> Any:
     """Measured against model for every kind of rows in a fit."""
-    from .physics import Physics
+    from ..physics import Physics
 
     panels = []
     if result.rebound is not None:
@@ -488,9 +488,9 @@ def _text_figure(title: str, lines: Sequence[str]) -> Any:
 
 
 def _bank_figure(report: Any) -> Any:
-    from .export import render_figure
-    from .physics import simulate
-    from .scene import Layer, PolylineShape, layout_scene, shot_scene
+    from ..physics import simulate
+    from ..render.export import render_figure
+    from ..render.scene import Layer, PolylineShape, layout_scene, shot_scene
 
     b = report.bank
     layout = b.layout
@@ -523,7 +523,7 @@ def _report_pages(report: Any) -> list[Any]:
                                         report.lines())]
     checks = {c.kind: c for c in report.checks}
     if checks:
-        from .physics import Physics
+        from ..physics import Physics
 
         n = len(checks)
         fig = _new_figure((8.27, 3.6 * n + 0.8))

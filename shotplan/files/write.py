@@ -41,7 +41,7 @@ from collections.abc import Iterator
 from pathlib import Path
 from typing import Any
 
-from .errors import InputError, Terminated, WriteError, quoted, show_path
+from ..errors import InputError, Terminated, WriteError, quoted, show_path
 
 __all__ = ["atomic_path", "atomic_write_text", "atomic_write_bytes", "check_output_path",
            "read_limited", "set_force", "force_enabled", "handle_termination",

@@ -8,7 +8,7 @@ text sizes are in millimetres *of table*, so a drawing scales as one piece.
 Colours are ``'#rrggbb'`` strings. ``layer`` is the drawing order (low first);
 shapes of the same layer keep the order they were added in.
 
-Nothing here knows a backend: :mod:`shotplan.export` writes scenes with
+Nothing here knows a backend: :mod:`shotplan.render.export` writes scenes with
 matplotlib, the table view draws them with pygame. A backend draws exactly the
 shapes of the scene and nothing else; the only derived geometry is an arrow's
 head, given by :func:`arrow_head` so that every backend draws the same one.
@@ -39,8 +39,8 @@ from shapely.geometry import LineString, Point, Polygon
 from shapely.geometry.base import BaseGeometry
 from shapely.ops import unary_union
 
-from .errors import InputError
-from .table import Pocket, Table
+from ..errors import InputError
+from ..table import Pocket, Table
 
 __all__ = [
     "Layer",
@@ -1387,7 +1387,7 @@ def shot_caption(shot: Any) -> str:
     what goes where (for a bank or kick, which ball goes off which rail), then
     the cut, the aim, the window in degrees and millimetres, the speed in m/s
     with the trade's word, and the tip: the word and the offsets."""
-    from .stroke import speed_word
+    from ..stroke import speed_word
 
     kind = str(shot.kind)
     balls = tuple(shot.balls)

@@ -29,8 +29,8 @@ from collections.abc import Callable, Mapping, Sequence
 from pathlib import Path
 from typing import IO, Any
 
-from .errors import InputError
-from .jsonout import missing_as_null
+from ..errors import InputError
+from ..files.jsonout import missing_as_null
 
 __all__ = [
     "add_subcommands",
@@ -106,7 +106,7 @@ def load_table(value: str) -> Any:
     """The table of ``--table``: a preset name, a table profile file, a bare
     table object ``{"preset": ..., measured values...}`` or a layout (its
     table); see :func:`shotplan.layout.load_table`."""
-    from .layout import load_table as load
+    from ..layout import load_table as load
 
     return load(value)
 
@@ -114,8 +114,8 @@ def load_table(value: str) -> Any:
 def load_physics(spec: Any, path: str | None, settings: Sequence[str] = ()) -> Any:
     """The physics: the table's, then a physics file's values (an object of
     physics fields, or a layout file's ``physics``), then ``--set KEY=VALUE``."""
-    from .layout import FORMAT, read_json_file
-    from .physics import Physics
+    from ..layout import FORMAT, read_json_file
+    from ..physics import Physics
 
     phys = Physics.for_table(spec)
     if path is not None:
@@ -173,7 +173,7 @@ def _floats(what: str, low: float | None = None) -> Callable[[str], list[float]]
 
 def _speeds(text: str) -> list[float]:
     """An argparse type: speeds in m/s or speed words, comma-separated."""
-    from .study import SPEED_PRESETS
+    from ..study import SPEED_PRESETS
 
     out = []
     for part in text.split(","):
@@ -358,7 +358,7 @@ def _check_sizes(args: argparse.Namespace) -> None:
 
 def _outputs(args: argparse.Namespace) -> tuple[Path | None, Path | None]:
     """Check both output paths and the sizes before any work."""
-    from .fileio import check_output_path
+    from ..files.write import check_output_path
 
     _check_sizes(args)
 
@@ -378,7 +378,7 @@ def _setup(args: argparse.Namespace) -> tuple[Any, Any]:
 
 
 def _angles(args: argparse.Namespace, default_max: float) -> tuple[float, ...]:
-    from .study import sweep_angles
+    from ..study import sweep_angles
 
     return sweep_angles(args.step, args.max if args.max is not None else default_max)
 
@@ -401,7 +401,7 @@ def _finish(args: argparse.Namespace, result: Any, chart: Path | None, table: Pa
         write_csv(result.rows(), table)
         written.append(str(table))
     if args.json:
-        from .cli import _emit_json
+        from .main import _emit_json
 
         _emit_json({**missing_as_null(result.to_dict()), "files": written})
         return 0
@@ -412,7 +412,7 @@ def _finish(args: argparse.Namespace, result: Any, chart: Path | None, table: Pa
 
 
 def _run_window(args: argparse.Namespace) -> int:
-    from . import study
+    from .. import study
 
     chart, table = _outputs(args)
     spec, phys = _setup(args)
@@ -447,7 +447,7 @@ def _run_window(args: argparse.Namespace) -> int:
 
 
 def _run_throw(args: argparse.Namespace) -> int:
-    from . import study
+    from .. import study
 
     chart, table = _outputs(args)
     spec, phys = _setup(args)
@@ -467,7 +467,7 @@ def _run_throw(args: argparse.Namespace) -> int:
 
 
 def _run_deflection(args: argparse.Namespace) -> int:
-    from . import study
+    from .. import study
 
     chart, table = _outputs(args)
     spec, phys = _setup(args)
@@ -487,7 +487,7 @@ def _run_deflection(args: argparse.Namespace) -> int:
 
 
 def _run_aim(args: argparse.Namespace) -> int:
-    from . import study
+    from .. import study
 
     chart, table = _outputs(args)
     spec = load_table(args.table)
@@ -509,7 +509,7 @@ def _run_aim(args: argparse.Namespace) -> int:
 def write_csv(rows: Sequence[Mapping[str, Any]], path: str | os.PathLike[str]) -> None:
     """Write rows (dicts) as CSV atomically: the columns are the keys in the
     order first met; None is an empty cell; numbers at full precision."""
-    from .fileio import atomic_write_text
+    from ..files.write import atomic_write_text
 
     columns: list[str] = []
     for r in rows:
@@ -554,7 +554,7 @@ def _grid(header: Sequence[str], rows: Sequence[Sequence[str]]) -> list[str]:
 
 def format_study(result: Any) -> str:
     """The study as a table for the terminal."""
-    from . import study
+    from .. import study
 
     if isinstance(result, study.WindowStudy):
         return _format_window(result)
@@ -631,7 +631,7 @@ def _format_window(r: Any) -> str:
 
 
 def _format_throw(r: Any) -> str:
-    from .stroke import speed_word
+    from ..stroke import speed_word
 
     speeds = sorted({p.speed_mps for p in r.points})
     spins = list(dict.fromkeys(p.spin for p in r.points))
@@ -719,7 +719,7 @@ def study_figure(result: Any) -> Any:
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
 
-    from . import study
+    from .. import study
 
     fig = Figure(figsize=(10.0, 7.5), facecolor="#ffffff")
     FigureCanvasAgg(fig)
@@ -741,7 +741,7 @@ def study_figure(result: Any) -> Any:
 
 def write_chart(result: Any, path: str | os.PathLike[str], dpi: int = 150) -> Path:
     """Write the study's chart to ``path`` (.png, .svg or .pdf), atomically."""
-    from .fileio import atomic_path, check_output_path
+    from ..files.write import atomic_path, check_output_path
 
     p = check_output_path(path, CHART_SUFFIXES)
     fmt = p.suffix.lower().lstrip(".")
@@ -789,7 +789,7 @@ def _draw_window(fig: Any, r: Any) -> None:
 
 
 def _draw_throw(fig: Any, r: Any) -> None:
-    from .stroke import speed_word
+    from ..stroke import speed_word
 
     ax_t = fig.add_subplot(2, 1, 1)
     ax_a = fig.add_subplot(2, 1, 2, sharex=ax_t)
@@ -836,7 +836,7 @@ def _draw_deflection(fig: Any, r: Any) -> None:
                   marker="o", markersize=3, label=spin)
     cuts = [p.cut_deg for p in r.points if p.spin == r.points[0].spin]
     fine = [c * 0.5 for c in range(0, int(max(cuts) * 2) + 1)] if cuts else []
-    from .study import ninety_degree_rule_deg, thirty_degree_rule_deg
+    from ..study import ninety_degree_rule_deg, thirty_degree_rule_deg
 
     ax.plot(fine, [ninety_degree_rule_deg(c) for c in fine], "--", color="#000000", linewidth=1.0,
             label="90-degree rule (e = 1, no friction)")
@@ -858,7 +858,7 @@ def _draw_aim(fig: Any, r: Any) -> None:
     bands = (("full", 0.875, 1.0), ("three-quarter", 0.625, 0.875), ("half", 0.375, 0.625),
              ("quarter", 0.125, 0.375), ("thin", 0.0, 0.125))
     shades = ("#f4f4f4", "#e6e6e6")
-    from .aim import cut_for_fraction_deg
+    from ..aim import cut_for_fraction_deg
 
     for k, (word, lo, hi) in enumerate(bands):
         ax.axhspan(lo, hi, color=shades[k % 2], zorder=0)

@@ -17,14 +17,13 @@ import sys
 from collections.abc import Callable, Sequence
 from typing import Any, NoReturn
 
-from . import __version__
-from .equipment import PRESETS, TableSpec
-from .errors import InputError, ShotplanError, Terminated, show_path
-from .fileio import FORCE_HELP, check_output_path, handle_termination, set_force
-from .jsonout import NonFiniteError
-from .jsonout import emit as emit_json
-from .layout import load_layout
-from .units import to_diamonds, to_inches, to_mm, where_words
+from ..equipment import PRESETS, TableSpec
+from ..errors import InputError, ShotplanError, Terminated, show_path
+from ..files.jsonout import NonFiniteError
+from ..files.jsonout import emit as emit_json
+from ..files.write import FORCE_HELP, check_output_path, handle_termination, set_force
+from ..layout import load_layout
+from ..units import to_diamonds, to_inches, to_mm, where_words
 
 __all__ = ["main", "build_parser", "DIAGRAM_SUFFIXES"]
 
@@ -179,8 +178,8 @@ def _add_search_options(p: argparse.ArgumentParser) -> None:
 
 
 def _search(args: argparse.Namespace, layout: Any) -> Any:
-    from .players import PlayerErrors
-    from .search import find_shots
+    from ..players import PlayerErrors
+    from ..search import find_shots
 
     kinds = [k.strip() for k in args.kinds.split(",") if k.strip()]
     player = PlayerErrors.level(args.level) if args.level is not None else None
@@ -229,13 +228,13 @@ def _run_draw(args: argparse.Namespace) -> int:
     layout = load_layout(args.layout)
     try:
         # Imported here so that the commands that do not draw stay fast.
-        from .export import write_scene
-        from .scene import layout_scene, shot_caption, shot_scene
+        from ..render.export import write_scene
+        from ..render.scene import layout_scene, shot_caption, shot_scene
     except ImportError as e:
         raise InputError(f"drawing is not available: {e}") from e
     if args.shot is not None:
         _playable(layout, args.layout)
-        from .physics import simulate
+        from ..physics import simulate
 
         result = _search(args, layout)
         if args.shot > len(result.shots):
@@ -249,7 +248,7 @@ def _run_draw(args: argparse.Namespace) -> int:
         scene = shot_scene(layout, outcome, shot, title=args.title, note=note, style=args.style)
     elif args.paths:
         _playable(layout, args.layout)
-        from .physics import simulate
+        from ..physics import simulate
 
         if layout.stroke is None:
             raise InputError(f"{args.layout}: stroke: --paths needs a stroke in the layout")
@@ -281,8 +280,8 @@ def _add_simulate(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_simulate(args: argparse.Namespace) -> int:
-    from .physics import simulate
-    from .stroke import Stroke
+    from ..physics import simulate
+    from ..stroke import Stroke
 
     layout = load_layout(args.layout)
     base = layout.stroke
@@ -333,7 +332,7 @@ def _add_plan(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_plan(args: argparse.Namespace) -> int:
-    from .stroke import speed_word
+    from ..stroke import speed_word
 
     layout = load_layout(args.layout)
     _playable(layout, args.layout)
@@ -383,9 +382,9 @@ _SUBCOMMANDS: tuple[Callable[[argparse._SubParsersAction], None], ...] = (
 
 _COMMAND_MODULES: tuple[str, ...] = (
     "shotplan.view.command",
-    "shotplan.drills_command",
-    "shotplan.cushion_command",
-    "shotplan.study_command",
+    "shotplan.cli.drills",
+    "shotplan.cli.cushion",
+    "shotplan.cli.study",
 )
 """Modules that add more subcommands: each has ``add_subcommands(sub)``,
 whose parsers set ``run`` like the ones above. Each capability keeps its
@@ -406,13 +405,23 @@ def _add_module_commands(sub: argparse._SubParsersAction) -> None:
 
 
 # ----------------------------------------------------------------------- main
+def _version() -> str:
+    """The installed version (written once, in pyproject.toml)."""
+    from importlib import metadata
+
+    try:
+        return metadata.version("shotplan")
+    except metadata.PackageNotFoundError:  # a source tree never installed
+        return "0+unknown"
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The ``shotplan`` argument parser with every subcommand."""
     parser = _Parser(
         prog="shotplan",
         description="Plan shots on billiard tables: to-scale layouts, physics, shot search.",
     )
-    parser.add_argument("--version", action="version", version=f"shotplan {__version__}")
+    parser.add_argument("--version", action="version", version=f"shotplan {_version()}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     for add in _SUBCOMMANDS:
         add(sub)
@@ -423,7 +432,7 @@ def build_parser() -> argparse.ArgumentParser:
 
 _OUTPUT_OPTIONS = frozenset({"-o", "--output", "--csv", "--plot", "--screenshot"})
 """Options that name a file a command writes: every parser with one of them
-gets ``--force`` (see :func:`shotplan.fileio.set_force`)."""
+gets ``--force`` (see :func:`shotplan.files.write.set_force`)."""
 
 
 def _add_force_options(parser: argparse.ArgumentParser) -> None:

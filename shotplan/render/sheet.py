@@ -1,7 +1,7 @@
 """The drill sheet a coach hands out: one A4 page per station, and its files.
 
 A page (:func:`page_figure`) holds, top to bottom: the station's heading;
-the table drawn to scale in the ``print`` style (:func:`shotplan.scene.shot_scene`,
+the table drawn to scale in the ``print`` style (:func:`shotplan.render.scene.shot_scene`,
 with the zone and where trial cue balls finished); three small panels, the
 aim as the player sees the object ball (ball-hit fraction, contact point,
 aim point; for a bank or kick the diamond the ball is sent at), the cue-ball
@@ -48,13 +48,13 @@ from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 
-from .errors import InputError
-from .fileio import atomic_write_bytes, check_output_path
-from .players import MISCUE_FLAG_RATE, PlayerErrors, tip_room
-from .stroke import speed_word
+from ..errors import InputError
+from ..files.write import atomic_write_bytes, check_output_path
+from ..players import MISCUE_FLAG_RATE, PlayerErrors, tip_room
+from ..stroke import speed_word
 
 if TYPE_CHECKING:
-    from .drills import DrillResult, StationResult
+    from ..drills import DrillResult, StationResult
 
 __all__ = [
     "MARKER",
@@ -151,7 +151,7 @@ class AimPicture:
 
 def _rail_words(table: Any, point: tuple[float, float]) -> tuple[str, float, str]:
     """(rail, diamond, counted from) for a point at the cushion."""
-    from .units import to_diamonds
+    from ..units import to_diamonds
 
     along, across = to_diamonds(point[0], point[1], table.length, table.width)
     x, y = point
@@ -205,7 +205,7 @@ def aim_picture(plan: Any) -> AimPicture:
 
 def aim_words(pic: AimPicture) -> list[str]:
     """The aim in a player's terms, one or two sentences."""
-    from .aim import overlap_word
+    from ..aim import overlap_word
 
     mm = 1000.0 * abs(pic.offset_m)
     side = "right" if pic.offset_m > 0 else "left"
@@ -438,7 +438,7 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
                 levels: Sequence[tuple[PlayerErrors, StationResult]], attempts: int,
                 size_in: tuple[float, float] = A4_IN) -> Figure:
     """Station ``k`` (from 1) of ``n`` as one page."""
-    from .drills import station_lines, station_scene
+    from ..drills import station_lines, station_scene
     from .export import _draw_scene
 
     w, h = size_in

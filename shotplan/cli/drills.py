@@ -21,9 +21,9 @@ import math
 import re
 from typing import Any
 
-from .cli import DIAGRAM_SUFFIXES, _emit_json, _int_in, _playable
-from .errors import InputError
-from .fileio import check_output_path
+from ..errors import InputError
+from ..files.write import check_output_path
+from .main import DIAGRAM_SUFFIXES, _emit_json, _int_in, _playable
 
 __all__ = ["add_subcommands"]
 
@@ -116,8 +116,8 @@ def _numbers(text: str | None, option: str, allow_stun: bool = False) -> list[An
 
 
 def _run_position(args: argparse.Namespace) -> int:
-    from .layout import load_layout
-    from .position import parse_zone, position_map, position_scene
+    from ..layout import load_layout
+    from ..position import parse_zone, position_map, position_scene
 
     out = check_output_path(args.output, DIAGRAM_SUFFIXES) if args.output else None
     speeds = _numbers(args.speeds, "--speeds")
@@ -126,7 +126,7 @@ def _run_position(args: argparse.Namespace) -> int:
     zone = parse_zone(args.zone) if args.zone is not None else None
     errors = None
     if args.level is not None:
-        from .players import PlayerErrors
+        from ..players import PlayerErrors
 
         errors = PlayerErrors.level(args.level)
     layout = load_layout(args.layout)
@@ -141,7 +141,7 @@ def _run_position(args: argparse.Namespace) -> int:
     pm = position_map(layout, args.ball, args.pocket, zone=zone, speeds=speeds,
                       heights=heights, sides=sides, errors=errors)
     if out is not None:
-        from .export import write_scene
+        from ..render.export import write_scene
 
         write_scene(position_scene(pm), out, dpi=args.dpi)
     if args.json:
@@ -166,7 +166,7 @@ def _cell(f: Any) -> str:
 
 
 def _print_position(pm: Any, args: argparse.Namespace) -> None:
-    from .position import RESULTS
+    from ..position import RESULTS
 
     counts = ", ".join(f"{pm.count(r)} {r}" for r in RESULTS if pm.count(r))
     print(f"{args.layout}: {pm.ball} into {pm.pocket}, {len(pm.finishes)} settings "
@@ -203,7 +203,7 @@ def _print_position(pm: Any, args: argparse.Namespace) -> None:
 
 # ------------------------------------------------------------------ drill
 def _add_drill(sub: argparse._SubParsersAction) -> None:
-    from .drills import DEFAULT_LEVEL, LEVELS
+    from ..drills import DEFAULT_LEVEL, LEVELS
 
     levels = "; ".join(f"{e.name}: aim {e.aim_sd_deg:g} deg, speed {e.speed_sd_pct:g} %, "
                        f"tip {e.tip_sd:g} R" for e in LEVELS.values())
@@ -238,7 +238,7 @@ def _add_drill(sub: argparse._SubParsersAction) -> None:
 
 
 def _errors(args: argparse.Namespace) -> Any:
-    from .drills import DEFAULT_LEVEL, PlayerErrors
+    from ..drills import DEFAULT_LEVEL, PlayerErrors
 
     custom = {"aim_sd_deg": args.aim_sd, "speed_sd_pct": args.speed_sd, "tip_sd": args.tip_sd}
     given = {k: v for k, v in custom.items() if v is not None}
@@ -263,8 +263,8 @@ the sheet's three levels, fit (6 million); a mistyped --trials does not."""
 def _run_drill(args: argparse.Namespace) -> int:
     from pathlib import Path
 
-    from .drills import LEVELS, SHEET_LEVELS, ProgressBar, load_drill, run_drill, write_sheet
-    from .sheet import _check_folder, stations_folder
+    from ..drills import LEVELS, SHEET_LEVELS, ProgressBar, load_drill, run_drill, write_sheet
+    from ..render.sheet import _check_folder, stations_folder
 
     errors = _errors(args)
     out = None

@@ -6,14 +6,15 @@ threads. Exactly the shapes of the scene are drawn, in layer order, with equal
 aspect and no axes; the title goes above the table and the note below it, and
 every size given in mm of table is turned into points by the figure's scale.
 
-Files are rendered in memory and written through :func:`shotplan.fileio.atomic_write_bytes`: a failed write
+Files are rendered in memory and written through
+:func:`shotplan.files.write.atomic_write_bytes`: a failed write
 leaves an old file untouched. SVG and PDF carry no creation date, so the same
 scene gives the same bytes.
 
 Examples
 --------
 >>> from shotplan import Table, TableSpec
->>> from shotplan.scene import table_scene
+>>> from shotplan.render.scene import table_scene
 >>> write_scene(table_scene(Table(TableSpec.preset("carom"))), "/tmp/carom.svg")  # doctest: +SKIP
 """
 
@@ -38,8 +39,8 @@ from matplotlib.lines import Line2D
 from matplotlib.path import Path as MplPath
 from matplotlib.textpath import TextToPath
 
-from .errors import InputError
-from .fileio import atomic_write_bytes, check_output_path
+from ..errors import InputError
+from ..files.write import atomic_write_bytes, check_output_path
 from .scene import (
     ANCHORS,
     CircleShape,
@@ -221,7 +222,7 @@ def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None,
     """A figure of ``scene`` alone: the title band, the table, the note band.
 
     The table's axes are exactly as wide as the figure and keep the bounds'
-    aspect ratio to the pixel (see :func:`shotplan.scene.figure_size`); with no
+    aspect ratio to the pixel (see :func:`shotplan.render.scene.figure_size`); with no
     title and no note the figure is the table and nothing else. Title and
     note are wrapped to the figure's width. With ``max_pixels_for`` (the name
     of the PNG to be written), a raster larger than :data:`MAX_PIXELS` is
