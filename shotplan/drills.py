@@ -70,8 +70,9 @@ from typing import Any, TextIO
 import numpy as np
 
 from .errors import InputError, LayoutError
+from .files.read import check_format, check_version, read_json_file, show_value, value_kind
 from .files.write import atomic_write_text, check_output_path
-from .layout import Layout, _kind, _show, check_format, check_version, read_json_file
+from .layout import Layout
 from .players import (
     DEFAULT_LEVEL,
     LEVELS,
@@ -272,7 +273,7 @@ class Drill:
         relative to ``base_dir``."""
         if not isinstance(data, Mapping):
             raise LayoutError(f"{where}: the top level must be a JSON object "
-                              f"{{\"format\": \"{FORMAT}\", ...}}, not {_kind(data)}")
+                              f"{{\"format\": \"{FORMAT}\", ...}}, not {value_kind(data)}")
         for key in data:
             if key not in DRILL_KEYS:
                 raise LayoutError(f"{where}: unknown field {key!r}, must be one of "
@@ -289,7 +290,7 @@ class Drill:
                               "(name, layout, ball, pocket...)")
         items = data["stations"]
         if not isinstance(items, list):
-            raise LayoutError(f"{where}: stations: must be a list of stations, not {_kind(items)}")
+            raise LayoutError(f"{where}: stations: must be a list of stations, not {value_kind(items)}")
         if not items:
             raise LayoutError(f"{where}: stations: the list is empty, a drill needs at least "
                               "one station")
@@ -320,7 +321,7 @@ class Drill:
 def _station(data: Any, where: str, base: Path) -> Station:  # noqa: C901 (to split)
     if not isinstance(data, Mapping):
         raise LayoutError(f"{where}: must be a station object (name, layout, ball, pocket), "
-                          f"not {_kind(data)}")
+                          f"not {value_kind(data)}")
     for key in data:
         if key not in STATION_KEYS:
             raise LayoutError(f"{where}: unknown field {key!r}, must be one of "
@@ -345,7 +346,7 @@ def _station(data: Any, where: str, base: Path) -> Station:  # noqa: C901 (to sp
         layout = Layout.from_dict(raw, where=f"{where}: layout", header=False)
         lay_name = None
     else:
-        raise LayoutError(f"{where}: layout: {_show(raw)} is not a layout, must be a layout "
+        raise LayoutError(f"{where}: layout: {show_value(raw)} is not a layout, must be a layout "
                           "file's path (relative to the drill file) or a layout object")
     problems = layout.problems()
     if problems:
@@ -356,7 +357,7 @@ def _station(data: Any, where: str, base: Path) -> Station:  # noqa: C901 (to sp
     objects = [b for b in ids if b != "cue"]
     ball = data["ball"]
     if not isinstance(ball, str):
-        raise LayoutError(f"{where}: ball: {_show(ball)} is not a ball id, must be one of "
+        raise LayoutError(f"{where}: ball: {show_value(ball)} is not a ball id, must be one of "
                           f"{', '.join(objects) or '(none)'} (a string)")
     if ball == "cue":
         raise LayoutError(f"{where}: ball: 'cue' is the cue ball, the ball to pocket must be "
@@ -371,7 +372,7 @@ def _station(data: Any, where: str, base: Path) -> Station:  # noqa: C901 (to sp
         raise LayoutError(f"{where}: pocket: the {layout.table.name} table has no pockets, "
                           "a drill station pockets a ball")
     if not isinstance(pocket, str) or pocket not in names:
-        raise LayoutError(f"{where}: pocket: {_show(pocket)} is not a pocket of the "
+        raise LayoutError(f"{where}: pocket: {show_value(pocket)} is not a pocket of the "
                           f"{layout.table.name} table, must be one of {', '.join(names)}")
     zone = None
     if data.get("zone") is not None:
@@ -970,7 +971,7 @@ def _attempts(value: Any, where: str) -> int | None:
     if value is None:
         return None
     if isinstance(value, bool) or not isinstance(value, int) or not 1 <= value <= MAX_ATTEMPTS:
-        raise LayoutError(f"{where}: {_show(value)} is not a number of attempts, must be a "
+        raise LayoutError(f"{where}: {show_value(value)} is not a number of attempts, must be a "
                           f"whole number from 1 to {MAX_ATTEMPTS}")
     return value
 
@@ -979,7 +980,7 @@ def _text(value: Any, where: str, required: bool = False) -> str:
     if value is None and not required:
         return ""
     if not isinstance(value, str):
-        raise LayoutError(f"{where}: {_show(value)} is not text, must be a string")
+        raise LayoutError(f"{where}: {show_value(value)} is not text, must be a string")
     if required and not value.strip():
         raise LayoutError(f"{where}: is empty, must be a non-empty string")
     return value

@@ -52,16 +52,20 @@ import numpy as np
 import shapely
 
 from .equipment import PRESETS, TableSpec
-from .errors import (
-    SHOWN_CHARS,
-    LayoutError,
-    PhysicsError,
-    StrokeError,
-    quoted,
-    shorten,
-    show_path,
+from .errors import LayoutError, PhysicsError, StrokeError, quoted, show_path
+from .files.read import (
+    LAYOUT_FORMAT,
+    MAX_JSON_BYTES,
+    check_format,
+    check_numbers,
+    check_version,
+    field_path,
+    parse_json,
+    read_json_file,
+    show_value,
+    value_kind,
 )
-from .files.write import atomic_write_text, check_output_path, read_limited
+from .files.write import atomic_write_text, check_output_path
 from .physics.params import Physics
 from .stroke import Stroke
 from .table import LINE_RAIL, Table
@@ -80,20 +84,18 @@ __all__ = [
     "Layout",
     "load_layout",
     "save_layout",
-    "read_json_file",
-    "parse_json",
     "rack",
     "load_table",
     "table_from_file",
 ]
 
-FORMAT = "shotplan-layout"
+FORMAT = LAYOUT_FORMAT
 """The value of a layout file's ``format`` field."""
 
 VERSION = 1
 """The layout file version this module reads and writes."""
 
-MAX_FILE_BYTES = 10 * 1024 * 1024
+MAX_FILE_BYTES = MAX_JSON_BYTES
 """Largest layout file accepted (10 MB): a layout is a few hundred bytes, so
 anything near this is not a layout, and reading it whole would only cost memory."""
 
@@ -113,10 +115,6 @@ LAYOUT_KEYS: tuple[str, ...] = (
 
 RACKS: tuple[str, ...] = ("8-ball", "9-ball")
 """Rack shapes :func:`rack` builds."""
-
-_MAX_ABS = 1e9
-"""Largest magnitude of any number in a layout file. No field means anything
-near it, and it keeps ``float(int)`` from overflowing further in."""
 
 _OVERLAP_TOL = 1e-9
 """Balls may touch: centres closer than 2R by more than this overlap (m)."""
@@ -238,14 +236,14 @@ class Layout:
         ids = self.ball_ids
         for b in ids:
             if b not in valid_ids:
-                out.append(Problem(_field("balls", b), f"{quoted(b)} is not a ball of the {spec.name} "
+                out.append(Problem(field_path("balls", b), f"{quoted(b)} is not a ball of the {spec.name} "
                                    f"table, must be one of {', '.join(valid_ids)}", b))
         if ids:
             pts = np.array([xy for _, xy in self.balls], dtype=float)
             legal = geo.is_legal(pts)
             for k in np.flatnonzero(~legal):
                 b = ids[k]
-                out.append(Problem(_field("balls", b), _placement_message(geo, pts[k]), b))
+                out.append(Problem(field_path("balls", b), _placement_message(geo, pts[k]), b))
             two_r = 2.0 * spec.ball.radius_m
             diff = pts[:, None, :] - pts[None, :, :]
             dist = np.hypot(diff[..., 0], diff[..., 1])
@@ -253,7 +251,7 @@ class Layout:
                 for i in range(j):
                     if dist[i, j] < two_r - _OVERLAP_TOL:
                         out.append(Problem(
-                            _field("balls", ids[j]),
+                            field_path("balls", ids[j]),
                             f"{_pos(pts[j])} overlaps ball {quoted(ids[i])} by "
                             f"{_mm(two_r - dist[i, j])} mm (centres {_mm(dist[i, j])} mm "
                             f"apart, balls need at least {two_r * 1000:.2f} mm)",
@@ -348,18 +346,18 @@ class Layout:
         (the layout file's folder; default: the current folder).
         Geometric problems are not raised here: see :meth:`problems`.
         """
-        _check_numbers(data, where)
+        check_numbers(data, where)
         if not isinstance(data, Mapping):
             raise LayoutError(f"{where}: the top level must be a JSON object "
-                              f"{{\"format\": {FORMAT!r}, ...}}, not {_kind(data)}")
+                              f"{{\"format\": {FORMAT!r}, ...}}, not {value_kind(data)}")
         for key in data:
             if key not in LAYOUT_KEYS:
                 raise LayoutError(f"{where}: unknown field {quoted(key)}, must be one of "
                                   f"{', '.join(LAYOUT_KEYS)}")
         if header or "format" in data:
-            check_format(data, where)
+            check_format(data, where, FORMAT, "layout")
         if header or "version" in data:
-            check_version(data, where)
+            check_version(data, where, VERSION, "layout")
         table = _table_from_json(data.get("table", _MISSING), where, base)
         if "balls" not in data:
             raise LayoutError(f"{where}: balls: missing, must be an object of ball id: [x, y] "
@@ -384,7 +382,7 @@ class Layout:
             if value is None:
                 value = ""
             if not isinstance(value, str):
-                raise LayoutError(f"{where}: {key}: {_show(value)} is not text, must be a string")
+                raise LayoutError(f"{where}: {key}: {show_value(value)} is not text, must be a string")
             texts[key] = value
         return cls(table=table, balls=balls, stroke=stroke, physics_overrides=physics, **texts)
 
@@ -441,42 +439,6 @@ def save_layout(layout: Layout, path: str | os.PathLike[str]) -> None:
     """
     check_output_path(path)
     atomic_write_text(path, layout.to_json())
-
-
-def read_json_file(path: str | os.PathLike[str], max_bytes: int = MAX_FILE_BYTES) -> Any:
-    """Read and parse a JSON file, turning every way it can fail into one
-    :class:`LayoutError` line that starts with the file name."""
-    name = show_path(path)
-    data = read_limited(path, max_bytes, LayoutError)
-    try:
-        text = data.decode("utf-8-sig")
-    except UnicodeDecodeError as e:
-        raise LayoutError(f"{name}: not UTF-8 text (byte 0x{data[e.start]:02x} at offset "
-                          f"{e.start}); save the file as UTF-8") from None
-    return parse_json(text, name)
-
-
-def parse_json(text: str, where: str) -> Any:
-    """Parse JSON text strictly: NaN, Infinity, numbers beyond 1e9 in size and
-    repeated keys are refused, with the field they are in."""
-    if not text.strip():
-        raise LayoutError(f"{where}: the file is empty, expected a JSON object "
-                          f"{{\"format\": {FORMAT!r}, ...}}")
-    try:
-        data = json.loads(
-            text,
-            parse_constant=_BadNumber,
-            parse_float=_parse_float,
-            parse_int=_parse_int,
-            object_pairs_hook=_object,
-        )
-    except json.JSONDecodeError as e:
-        raise LayoutError(f"{where}: line {e.lineno}, column {e.colno}: "
-                          f"not valid JSON ({e.msg})") from None
-    except RecursionError:
-        raise LayoutError(f"{where}: nested too deeply to be a layout") from None
-    _check_numbers(data, where)
-    return data
 
 
 # --------------------------------------------------------------- new tables
@@ -558,108 +520,6 @@ class _Missing:
 _MISSING: Any = _Missing()
 
 
-class _BadNumber:
-    """Stands for a number the file should not hold (NaN, Infinity, 1e999);
-    kept as its text so the message can quote it with its field."""
-
-    __slots__ = ("text",)
-
-    def __init__(self, text: str):
-        self.text = text
-
-    def __repr__(self) -> str:
-        return self.text
-
-
-class _Object(dict):
-    """A parsed JSON object that had a key twice (``duplicate`` is the key)."""
-
-    duplicate: str = ""
-
-
-def _parse_float(text: str) -> float | _BadNumber:
-    value = float(text)
-    return value if math.isfinite(value) and abs(value) <= _MAX_ABS else _BadNumber(text)
-
-
-def _parse_int(text: str) -> int | _BadNumber:
-    # Long digit strings never reach int(): Python refuses > 4300 digits with
-    # a ValueError, and anything past 1e9 is refused anyway.
-    if len(text.lstrip("-")) > 12:
-        return _BadNumber(text if len(text) <= 20 else text[:12] + "...")
-    value = int(text)
-    return value if abs(value) <= _MAX_ABS else _BadNumber(text)
-
-
-def _object(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out: dict[str, Any] = {}
-    for key, value in pairs:
-        if key in out:
-            dup = _Object(out)
-            dup.duplicate = key
-            out = dup
-        out[key] = value
-    return out
-
-
-def _check_numbers(data: Any, where: str) -> None:
-    """Refuse repeated keys and numbers no field can mean (NaN, Infinity,
-    beyond 1e9), naming the field. Iterative, so any depth the JSON parser
-    accepted can be walked."""
-    stack: list[tuple[Any, str]] = [(data, "")]
-    while stack:
-        value, path = stack.pop()
-        label = f"{where}: {path}" if path else where
-        if isinstance(value, _Object) and value.duplicate:
-            raise LayoutError(f"{label}: the field {quoted(value.duplicate)} appears twice")
-        if isinstance(value, _BadNumber):
-            what = ("is not a number" if value.text.lstrip("-") in ("NaN", "Infinity")
-                    else "is too large")
-            raise LayoutError(f"{label}: {value.text} {what}, numbers must be finite and "
-                              "at most 1e9 in size")
-        if isinstance(value, float) and (not math.isfinite(value) or abs(value) > _MAX_ABS):
-            raise LayoutError(f"{label}: {value!r} is not a usable number, numbers must be "
-                              "finite and at most 1e9 in size")
-        if isinstance(value, int) and not isinstance(value, bool) and abs(value) > _MAX_ABS:
-            # str() of a huge int is slow, and refused past 4300 digits
-            text = (str(value) if abs(value) < 10**20
-                    else f"an integer near 1e{int(abs(value).bit_length() * math.log10(2))}")
-            raise LayoutError(f"{label}: {text} is too large, numbers must be at most "
-                              "1e9 in size")
-        if isinstance(value, Mapping):
-            for k, v in value.items():
-                stack.append((v, _field(path, k)))
-        elif isinstance(value, list | tuple):
-            for i, v in enumerate(value):
-                stack.append((v, f"{path}[{i}]"))
-
-
-def check_format(data: Mapping[str, Any], where: str, fmt: str = FORMAT,
-                 kind: str = "layout") -> None:
-    """Check a file's ``format`` field (``kind`` names the kind of file in
-    messages: layout, drill...)."""
-    if "format" not in data:
-        raise LayoutError(f"{where}: format: missing, a {kind} file has "
-                          f"\"format\": \"{fmt}\"")
-    if data["format"] != fmt:
-        raise LayoutError(f"{where}: format: {_show(data['format'])} is not a {kind} file "
-                          f"format, must be \"{fmt}\"")
-
-
-def check_version(data: Mapping[str, Any], where: str, version: int = VERSION,
-                  kind: str = "layout") -> None:
-    """Check a file's ``version`` field."""
-    if "version" not in data:
-        raise LayoutError(f"{where}: version: missing, must be {version}")
-    v = data["version"]
-    if isinstance(v, bool) or not isinstance(v, int):
-        raise LayoutError(f"{where}: version: {_show(v)} is not a version number, "
-                          f"must be {version}")
-    if v != version:
-        raise LayoutError(f"{where}: version: {v} is not supported, this shotplan reads "
-                          f"{kind} version {version}")
-
-
 def _table_from_json(value: Any, where: str,
                      base: str | os.PathLike[str] | None = None) -> TableSpec:
     presets = ", ".join(PRESETS)
@@ -668,7 +528,7 @@ def _table_from_json(value: Any, where: str,
                           "an object with \"preset\" and measured values, or "
                           "{\"profile\": \"FILE.json\"}")
     if isinstance(value, Mapping) and "profile" in value:
-        return _table_from_profile_field(value, where, base)
+        return _table_from_profilefield_path(value, where, base)
     if isinstance(value, str):
         try:
             return TableSpec.preset(value)
@@ -676,12 +536,12 @@ def _table_from_json(value: Any, where: str,
             raise LayoutError(f"{where}: table: {e}") from None
     if isinstance(value, Mapping):
         return _preset_with_overrides(value, f"{where}: table")
-    raise LayoutError(f"{where}: table: {_show(value)} is not a table, must be a preset name "
+    raise LayoutError(f"{where}: table: {show_value(value)} is not a table, must be a preset name "
                       f"({presets}), an object with \"preset\" and measured values, or "
                       "{\"profile\": \"FILE.json\"}")
 
 
-def _table_from_profile_field(value: Mapping[str, Any], where: str,
+def _table_from_profilefield_path(value: Mapping[str, Any], where: str,
                               base: str | os.PathLike[str] | None) -> TableSpec:
     """``{"profile": PATH, ...more measured values}`` in a layout's table."""
     ref = value["profile"]
@@ -689,7 +549,7 @@ def _table_from_profile_field(value: Mapping[str, Any], where: str,
         raise LayoutError(f"{where}: table: give \"profile\" or \"preset\", not both (the "
                           "profile names its preset)")
     if not isinstance(ref, str) or not ref.strip():
-        raise LayoutError(f"{where}: table.profile: {_show(ref)} is not a file name, must be "
+        raise LayoutError(f"{where}: table.profile: {show_value(ref)} is not a file name, must be "
                           "the path of a table profile (.json), relative to the layout")
     path = Path(ref)
     if not path.is_absolute() and base is not None:
@@ -731,7 +591,7 @@ def table_from_file(path: str | os.PathLike[str], where: str = "", *,
         check_version(data, label, _PROFILE_VERSION, "table profile")
         table = data.get("table", _MISSING)
         if not isinstance(table, Mapping):
-            raise LayoutError(f"{label}: table: {'missing' if table is _MISSING else _kind(table)}"
+            raise LayoutError(f"{label}: table: {'missing' if table is _MISSING else value_kind(table)}"
                               ", a table profile holds {\"preset\": ..., measured values...}")
         return _preset_with_overrides(table, f"{label}: table")
     if isinstance(data, Mapping) and "preset" in data:
@@ -750,7 +610,7 @@ def _preset_with_overrides(value: Mapping[str, Any], where: str) -> TableSpec:
     if name is _MISSING:
         raise LayoutError(f"{where}.preset: missing, must be one of {presets}")
     if not isinstance(name, str):
-        raise LayoutError(f"{where}.preset: {_show(name)} is not a preset name, must be one "
+        raise LayoutError(f"{where}.preset: {show_value(name)} is not a preset name, must be one "
                           f"of {presets}")
     try:
         spec = TableSpec.preset(name)
@@ -765,7 +625,7 @@ def load_table(value: str, where: str = "--table") -> TableSpec:
     if value in PRESETS:
         return TableSpec.preset(value)
     if not value.lower().endswith(".json") and not Path(value).exists():
-        raise LayoutError(f"{where}: {_show(value)} is not a table preset "
+        raise LayoutError(f"{where}: {show_value(value)} is not a table preset "
                           f"({', '.join(PRESETS)}) nor a table profile file (.json)")
     return table_from_file(value, where)
 
@@ -776,7 +636,7 @@ def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
     overrides = dict(spec.overrides)
     base = PRESETS.get(spec.name)
     rebuilt = base.with_overrides(overrides) if base is not None else None
-    if rebuilt is None or rebuilt != _with_overrides_field(spec, rebuilt.overrides):
+    if rebuilt is None or rebuilt != _with_overridesfield_path(spec, rebuilt.overrides):
         raise LayoutError(f"table {spec.name!r} cannot be written: it is not a preset with "
                           "measured overrides (build it with TableSpec.preset(...)."
                           "with_overrides(...))")
@@ -785,27 +645,27 @@ def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
     return {"preset": spec.name, **overrides}
 
 
-def _with_overrides_field(spec: TableSpec, overrides: tuple[tuple[str, Any], ...]) -> TableSpec:
+def _with_overridesfield_path(spec: TableSpec, overrides: tuple[tuple[str, Any], ...]) -> TableSpec:
     return dataclasses.replace(spec, overrides=overrides)
 
 
 def _balls_from_json(value: Any, where: str) -> tuple[tuple[str, tuple[float, float]], ...]:
     if not isinstance(value, Mapping):
         raise LayoutError(f"{where}: balls: must be an object of ball id: [x, y] "
-                          f"(metres from the cushion noses), not {_kind(value)}")
+                          f"(metres from the cushion noses), not {value_kind(value)}")
     if len(value) > MAX_BALLS:
         raise LayoutError(f"{where}: balls: {len(value)} balls is too many, a layout holds at "
                           f"most {MAX_BALLS}")
     out = []
     for ball, xy in value.items():
         if not isinstance(ball, str) or not ball:
-            raise LayoutError(f"{where}: balls: {_show(ball)} is not a ball id")
+            raise LayoutError(f"{where}: balls: {show_value(ball)} is not a ball id")
         if (
             not isinstance(xy, list | tuple)
             or len(xy) != 2
             or any(isinstance(c, bool) or not isinstance(c, int | float) for c in xy)
         ):
-            raise LayoutError(f"{where}: {_field('balls', ball)}: {_show(xy)} is not a position, "
+            raise LayoutError(f"{where}: {field_path('balls', ball)}: {show_value(xy)} is not a position, "
                               "must be [x, y], two numbers in metres from the cushion noses")
         out.append((ball, (float(xy[0]), float(xy[1]))))
     return tuple(out)
@@ -828,11 +688,11 @@ def _normalise_balls(balls: Any) -> tuple[tuple[str, tuple[float, float]], ...]:
         seen.add(ball)
         for c in (x, y):
             if isinstance(c, bool) or not isinstance(c, int | float | np.integer | np.floating):
-                raise LayoutError(f"layout: {_field('balls', ball)}: {quoted(xy)} is not a position, must be "
-                                  "two numbers (m)")
+                raise LayoutError(f"layout: {field_path('balls', ball)}: {quoted(xy)} is not a "
+                                  "position, must be two numbers (m)")
         fx, fy = float(x), float(y)
         if not (math.isfinite(fx) and math.isfinite(fy)):
-            raise LayoutError(f"layout: {_field('balls', ball)}: {quoted(xy)} is not a finite position")
+            raise LayoutError(f"layout: {field_path('balls', ball)}: {quoted(xy)} is not a finite position")
         out.append((ball, (fx, fy)))
     return tuple(out)
 
@@ -878,18 +738,6 @@ def _segment_distance(px: float, py: float, x0: float, y0: float, x1: float, y1:
     return math.hypot(px - (x0 + t * dx), py - (y0 + t * dy))
 
 
-_PLAIN_KEY = re.compile(r"[A-Za-z0-9_+-]+")
-
-
-def _field(path: str, key: Any) -> str:
-    """``path.key``, or ``path["odd key"]`` when the key would not read plainly
-    (a space, a dot, a newline...), so a message stays one unambiguous line."""
-    key = str(key)
-    if _PLAIN_KEY.fullmatch(key) and len(key) <= SHOWN_CHARS:
-        return f"{path}.{key}" if path else key
-    return f"{path}[{shorten(json.dumps(key))}]"
-
-
 def _pos(p: Any) -> str:
     return f"[{round(float(p[0]), 4)!r}, {round(float(p[1]), 4)!r}]"
 
@@ -897,31 +745,3 @@ def _pos(p: Any) -> str:
 def _mm(value_m: float) -> str:
     v = value_m * 1000.0
     return f"{v:.1f}" if abs(v) >= 0.1 else f"{v:.2g}"
-
-
-def _kind(value: Any) -> str:
-    if isinstance(value, bool):
-        return "true/false"
-    if value is None:
-        return "null"
-    if isinstance(value, Mapping):
-        return "an object"
-    if isinstance(value, list | tuple):
-        return "a list"
-    if isinstance(value, str):
-        return "a string"
-    if isinstance(value, int | float):
-        return "a number"
-    return type(value).__name__
-
-
-def _show(value: Any, limit: int | None = None) -> str:
-    """A value as it looks in the file, cut short (see :func:`shotplan.errors.shorten`)."""
-    if isinstance(value, list | tuple | Mapping) and len(value) > 100:
-        value = type(value)(list(value)[:100]) if not isinstance(value, Mapping) \
-            else dict(list(value.items())[:100])
-    try:
-        text = json.dumps(value, ensure_ascii=False, allow_nan=True, default=repr)
-    except (TypeError, ValueError):
-        text = repr(value)
-    return shorten(text) if limit is None else shorten(text, limit)

@@ -23,13 +23,13 @@ from pathlib import Path
 import pytest
 
 from shotplan.errors import InputError, LayoutError, Terminated, WriteError, shorten, show_path
+from shotplan.files.read import read_limited
 from shotplan.files.write import (
     LEGACY_STALE_SECONDS,
     atomic_path,
     atomic_write_bytes,
     check_output_path,
     handle_termination,
-    read_limited,
     stale_temporaries,
 )
 

@@ -48,13 +48,13 @@ house is in order."""
 KNOWN_PRIVATE: set[tuple[str, str]] = {
     ("cli.cushion", "_emit_json"), ("cli.drills", "_emit_json"), ("cli.drills", "_int_in"),
     ("cli.drills", "_playable"), ("cli.drills", "_check_folder"), ("cli.study", "_emit_json"),
-    ("drills", "_kind"), ("drills", "_show"), ("drills", "_Player"), ("drills", "_pocket_target"),
+    ("drills", "_Player"), ("drills", "_pocket_target"),
     ("render.sheet", "_draw_scene"), ("render.sheet", "_wrap"), ("render.sheet", "_METADATA"),
 }
 """Private names still imported across modules (module, name)."""
 
 KNOWN_LONG: set[str] = {
-    "cli.study", "drills", "layout", "position", "render.scene", "study", "view.app",
+    "cli.study", "drills", "position", "render.scene", "study", "view.app",
 }
 """Modules still above :data:`MAX_LINES`."""
 

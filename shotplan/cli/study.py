@@ -114,7 +114,8 @@ def load_table(value: str) -> Any:
 def load_physics(spec: Any, path: str | None, settings: Sequence[str] = ()) -> Any:
     """The physics: the table's, then a physics file's values (an object of
     physics fields, or a layout file's ``physics``), then ``--set KEY=VALUE``."""
-    from ..layout import FORMAT, read_json_file
+    from ..files.read import read_json_file
+    from ..layout import FORMAT
     from ..physics import Physics
 
     phys = Physics.for_table(spec)

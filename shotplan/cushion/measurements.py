@@ -12,7 +12,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..errors import InputError
-from ..files.write import read_limited
+from ..files.read import read_limited
 
 __all__ = [
     "SPINS",

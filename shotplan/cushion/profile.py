@@ -295,7 +295,7 @@ def load_profile(path: str | os.PathLike[str]) -> Profile:
     Profile
         As :func:`profile_from_dict`.
     """
-    from ..layout import read_json_file
+    from ..files.read import read_json_file
 
     return profile_from_dict(read_json_file(path), str(path))
 

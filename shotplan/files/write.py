@@ -20,9 +20,7 @@ FIFO, a device, a socket) is refused; a read-only file is refused unless
 user typed, never the temporary file, and says what went wrong (a full disk
 names the file too).
 
-Reading. :func:`read_limited` is the one reader of input files: it reads only
-regular files (a FIFO or a device is refused without being opened, so it
-cannot block), up to a size limit and, if asked, a line limit.
+Reading is :mod:`shotplan.files.read`.
 """
 
 from __future__ import annotations
@@ -42,9 +40,10 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import InputError, Terminated, WriteError, quoted, show_path
+from .read import file_kind
 
 __all__ = ["atomic_path", "atomic_write_text", "atomic_write_bytes", "check_output_path",
-           "read_limited", "set_force", "force_enabled", "handle_termination",
+           "set_force", "force_enabled", "handle_termination",
            "stale_temporaries", "FORCE_HELP", "LEGACY_STALE_SECONDS"]
 
 FORCE_HELP = "replace an output file even if it is read-only"
@@ -74,18 +73,6 @@ def force_enabled() -> bool:
 
 
 # ------------------------------------------------------------------ targets
-def _kind(mode: int) -> str:
-    if stat.S_ISDIR(mode):
-        return "a folder"
-    if stat.S_ISFIFO(mode):
-        return "a FIFO (named pipe)"
-    if stat.S_ISCHR(mode) or stat.S_ISBLK(mode):
-        return "a device"
-    if stat.S_ISSOCK(mode):
-        return "a socket"
-    return "not a regular file"
-
-
 def _write_target(p: Path, shown: str) -> Path:
     """The file a write to ``p`` must replace: ``p`` itself, or, for a symbolic
     link, the file it points to (which may not exist yet)."""
@@ -118,7 +105,7 @@ def _check_target(target: Path, shown: str, force: bool | None) -> None:
         if stat.S_ISDIR(st.st_mode):
             raise InputError(f"{shown}: is a folder, not a file")
         if not stat.S_ISREG(st.st_mode):
-            raise InputError(f"{shown}: is {_kind(st.st_mode)}; shotplan replaces only "
+            raise InputError(f"{shown}: is {file_kind(st.st_mode)}; shotplan replaces only "
                              "regular files")
         read_only = not st.st_mode & 0o222 or not os.access(target, os.W_OK)
         if read_only and not (_force if force is None else force):
@@ -325,55 +312,3 @@ def handle_termination() -> Iterator[None]:
         for sig, handler in old.items():
             with contextlib.suppress(OSError, ValueError, TypeError):
                 signal.signal(sig, handler)
-
-
-# ---------------------------------------------------------------- reading
-def read_limited(path: str | os.PathLike[str], max_bytes: int, error: type[Exception],
-                 noun: str = "file", plural: str = "files", *,
-                 max_lines: int | None = None) -> bytes:
-    """The bytes of an input file, every way that can fail turned into one
-    ``error`` line starting with the file name: missing, unreadable, a folder
-    (``is a folder, not a <noun>``), not a regular file (a FIFO or a device:
-    refused without being opened, so nothing blocks), larger than
-    ``max_bytes``, or (if given) more than ``max_lines`` lines."""
-    shown = show_path(path)
-    p = Path(path)
-    size_mb = f"{max_bytes / (1024 * 1024):g} MB"
-    try:
-        st = p.stat()
-    except (FileNotFoundError, NotADirectoryError):
-        raise error(f"{shown}: no such file") from None
-    except OSError as e:
-        raise error(f"{shown}: cannot read: {e.strerror or e}") from None
-    except ValueError as e:  # a NUL byte in the name
-        raise error(f"{shown}: not a usable file name ({e})") from None
-    if stat.S_ISDIR(st.st_mode):
-        raise error(f"{shown}: is a folder, not a {noun}")
-    if not stat.S_ISREG(st.st_mode):
-        raise error(f"{shown}: is {_kind(st.st_mode)}, not a {noun}; only regular files "
-                    "are read")
-    if st.st_size > max_bytes:
-        raise error(f"{shown}: the file is too large ({st.st_size / 1e6:.1f} MB), "
-                    f"{plural} are at most {size_mb}")
-    try:
-        # O_NONBLOCK: if the name was swapped for a FIFO since the stat, the
-        # open returns at once instead of waiting for a writer.
-        fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_BINARY", 0))
-    except OSError as e:
-        raise error(f"{shown}: cannot read: {e.strerror or e}") from None
-    with open(fd, "rb") as fh:
-        if not stat.S_ISREG(os.fstat(fd).st_mode):
-            raise error(f"{shown}: is {_kind(os.fstat(fd).st_mode)}, not a {noun}; only "
-                        "regular files are read")
-        try:
-            data = fh.read(max_bytes + 1)
-        except OSError as e:
-            raise error(f"{shown}: cannot read: {e.strerror or e}") from None
-    if len(data) > max_bytes:
-        raise error(f"{shown}: the file is too large, {plural} are at most {size_mb}")
-    if max_lines is not None:
-        lines = data.count(b"\n") + (1 if data and not data.endswith(b"\n") else 0)
-        if lines > max_lines:
-            raise error(f"{shown}: {lines} lines is too many, {plural} hold at most "
-                        f"{max_lines} lines")
-    return data

@@ -49,8 +49,9 @@ from pathlib import Path
 from typing import IO, Any
 
 from ..errors import LayoutError, ShotplanError
+from ..files.read import read_json_file
 from ..files.write import atomic_write_text, check_output_path
-from ..layout import Layout, read_json_file
+from ..layout import Layout
 from ..search import KINDS
 from .state import FreeAim, PocketAim, Snapshot, StrokeSettings, ViewState
 
