@@ -381,34 +381,24 @@ def test_bank_layout_is_playable_on_every_preset():
         assert lay.problems() == []
 
 
-def test_progress_bar_only_on_a_terminal(monkeypatch, capsys):
-    from shotplan.cli import cushion as cushion_command
+def test_fit_and_report_count_progress_up_to_the_total():
+    # The one progress shape of shotplan (our own rule): progress(done, total),
+    # never going back, ending at done == total.
+    for run in ("fit", "report"):
+        calls: list[tuple[int, int]] = []
 
-    class Tty:
-        def __init__(self, tty):
-            self.tty = tty
-            self.text = ""
+        def progress(done: int, total: int, calls=calls) -> None:
+            calls.append((done, total))
 
-        def isatty(self):
-            return self.tty
-
-        def write(self, s):
-            self.text += s
-
-        def flush(self):
-            pass
-
-    for tty in (True, False):
-        fake = Tty(tty)
-        monkeypatch.setattr(cushion_command.sys, "stderr", fake)
-        bar = cushion_command._Progress("fitting")
-        cf.fit_measurements(measurements(rebound_rows(6)), progress=bar)
-        bar.close()
-        if tty:
-            assert "\rfitting [" in fake.text and "100%" in fake.text
-            assert fake.text.endswith("\r")  # the line is cleared at the end
-        else:
-            assert fake.text == ""
+        fit = cf.fit_measurements(measurements(rebound_rows(6)),
+                                  progress=progress if run == "fit" else None)
+        if run == "report":
+            cf.profile_report(cf.profile_from_dict(fit.profile_dict()), progress=progress)
+        assert calls, run
+        done = [d for d, _t in calls]
+        assert all(0 <= d <= t for d, t in calls), run
+        assert done == sorted(done), run
+        assert calls[-1][0] == calls[-1][1], run
 
 
 # ------------------------------------------------------------ degenerate fits

@@ -51,12 +51,13 @@ class _Progress:
         self.active = sys.stderr.isatty()
         self.shown = False
 
-    def __call__(self, fraction: float, what: str) -> None:
+    def __call__(self, done: int, total: int) -> None:
         if not self.active:
             return
+        fraction = done / max(total, 1)
         n = int(round(20 * min(max(fraction, 0.0), 1.0)))
         sys.stderr.write(f"\r{self.label} [{'#' * n}{'.' * (20 - n)}] "
-                         f"{100 * fraction:3.0f}% {what:<24}")
+                         f"{100 * fraction:3.0f}%")
         sys.stderr.flush()
         self.shown = True
 

@@ -21,6 +21,7 @@ from .models import (
     Progress,
     law_params,
     rebound_predictions,
+    report_fraction,
     rollout_distance,
     standard_rebound_test,
     table_geometry,
@@ -599,7 +600,18 @@ def rebound_test_check(rows: Sequence[ReboundTestRow], spec: TableSpec,
                     "residuals are the profile's simulated table lengths minus the measured",))
 
 
-def fit_measurements(  # noqa: C901 (to split)
+def _check_fit_options(restitution: str, preset: str, firm_speed_mps: float) -> None:
+    if restitution not in RESTITUTION_MODELS:
+        raise InputError(f"{restitution!r} is not a restitution model, must be one of "
+                         f"{', '.join(RESTITUTION_MODELS)}")
+    if preset not in PRESETS:
+        raise InputError(f"{preset!r} is not a table preset, must be one of {', '.join(PRESETS)}")
+    if not 0.0 < firm_speed_mps <= 15.0:
+        raise InputError(f"firm speed {firm_speed_mps!r} m/s is out of range, must be above 0 "
+                         "and at most 15")
+
+
+def fit_measurements(
     measurements: Measurements,
     preset: str = "pool-9ft",
     *,
@@ -624,7 +636,7 @@ def fit_measurements(  # noqa: C901 (to split)
     firm_speed_mps
         Speed of the simulated standard rebound test.
     progress
-        Progress callback (fraction, words).
+        Called as ``progress(done, total)`` (thousandths of the work).
 
     Returns
     -------
@@ -638,28 +650,20 @@ def fit_measurements(  # noqa: C901 (to split)
         Too few rows of a kind, rows that do not determine a value, or values
         the rows imply that no cushion or cloth can have.
     """
-    if restitution not in RESTITUTION_MODELS:
-        raise InputError(f"{restitution!r} is not a restitution model, must be one of "
-                         f"{', '.join(RESTITUTION_MODELS)}")
-    if preset not in PRESETS:
-        raise InputError(f"{preset!r} is not a table preset, must be one of {', '.join(PRESETS)}")
-    if not 0.0 < firm_speed_mps <= 15.0:
-        raise InputError(f"firm speed {firm_speed_mps!r} m/s is out of range, must be above 0 "
-                         "and at most 15")
+    _check_fit_options(restitution, preset, firm_speed_mps)
     base = TableSpec.preset(preset)
     defaults = Physics.for_table(base)
     m = measurements
     if m.n_rows == 0:
         raise InputError("no measurement rows to fit")
 
-    def step(frac: float, what: str) -> None:
-        if progress is not None:
-            progress(frac, what)
+    def step(frac: float) -> None:
+        report_fraction(progress, frac)
 
     rollout = None
     spec = base
     if m.rollouts:
-        step(0.0, "roll-outs")
+        step(0.0)
         rollout = _fit_kind("rollout", m.rollouts,
                             lambda rows: _rollout_fit(rows, defaults),  # type: ignore[arg-type]
                             drop_outliers,
@@ -668,7 +672,7 @@ def fit_measurements(  # noqa: C901 (to split)
                                    where="roll-out fit")
     rebound = None
     if m.rebounds:
-        step(0.2, "rebounds")
+        step(0.2)
 
         def fit_rebounds(rows: Sequence[Row]) -> Any:
             data = ReboundData(rows, base)  # type: ignore[arg-type]
@@ -685,8 +689,8 @@ def fit_measurements(  # noqa: C901 (to split)
     if m.rebound_tests:
         phys = Physics.for_table(spec)
         if rebound is None:
-            def sub(frac: float, what: str) -> None:
-                step(0.4 + 0.5 * frac, "table lengths")
+            def sub(done: int, total: int) -> None:
+                step(0.4 + 0.5 * done / max(total, 1))
 
             test = _fit_kind("rebound_test", m.rebound_tests,
                              lambda rows: _rebound_test_fit(rows, spec, phys,  # type: ignore[arg-type]
@@ -695,20 +699,17 @@ def fit_measurements(  # noqa: C901 (to split)
             e0 = test.chosen.estimates[0].value
             spec = spec.with_overrides({"cushion_restitution": e0}, where="rebound-test fit")
         else:
-            step(0.6, "rebound-test check")
+            step(0.6)
             test = rebound_test_check(m.rebound_tests, spec, phys)
     result = FitResult(preset, m.files, rebound, rollout, test, m)
     try:
         final = result.spec()
     except LayoutError as e:  # a value outside the table's valid ranges
         raise InputError(f"{_where_all(m)}: the fitted values are not a valid table ({e})") from None
-    step(0.9, "standard rebound test")
+    step(0.9)
     simulated = standard_rebound_test(final, Physics.for_table(final), firm_speed_mps)
-    notes: list[str] = []
-    for kf in (rollout, rebound, test):
-        if kf is not None:
-            notes.extend(kf.notes)
-    step(1.0, "done")
+    notes = [n for kf in (rollout, rebound, test) if kf is not None for n in kf.notes]
+    step(1.0)
     return FitResult(preset, m.files, rebound, rollout, test, m, firm_speed_mps, simulated,
                      tuple(notes))
 

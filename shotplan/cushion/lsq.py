@@ -127,7 +127,7 @@ def least_squares_fit(
     upper: Sequence[float] | None = None,
     scale: Sequence[float] | None = None,
     max_evaluations: int | None = None,
-    progress: Callable[[float, str], None] | None = None,
+    progress: Callable[[int, int], None] | None = None,
 ) -> LeastSquaresResult:
     """Minimise ``0.5 * |fun(x)|^2`` within bounds.
 
@@ -148,8 +148,8 @@ def least_squares_fit(
         Largest number of residual evaluations outside the Jacobian's
         (scipy's ``max_nfev``; default scipy's own, 100 per parameter).
     progress
-        Called with the fraction of ``max_evaluations`` used (a rough guide)
-        and ``"fitting"``.
+        Called as ``progress(done, total)``: evaluations used of
+        ``max_evaluations`` (a rough guide; the fit usually stops sooner).
 
     Returns
     -------
@@ -181,14 +181,14 @@ def least_squares_fit(
 
     def jac(p: np.ndarray) -> np.ndarray:
         if progress is not None:
-            progress(min(evals / max(limit, 1), 1.0), "fitting")
+            progress(min(evals, limit), max(limit, 1))
         return numerical_jacobian(f, p, sc, lo, hi)
 
     x_scale = "jac" if scale is None else sc
     out = least_squares(f, x, jac=jac, bounds=(lo, hi), method="trf", x_scale=x_scale,
                         ftol=FTOL, xtol=XTOL, gtol=GTOL, max_nfev=max_evaluations)
     if progress is not None:
-        progress(1.0, "fitting")
+        progress(max(limit, 1), max(limit, 1))
     return LeastSquaresResult(np.asarray(out.x, dtype=float), np.asarray(out.fun, dtype=float),
                               np.asarray(out.jac, dtype=float), float(out.cost),
                               max(int(out.njev or 1) - 1, 0), evals, bool(out.status > 0),

@@ -259,7 +259,45 @@ def _number(text: str, column: str, where: str) -> float:
     return value
 
 
-def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:  # noqa: C901 (to split)
+def _read_header(line: str, where: str) -> tuple[list[str], str]:
+    """The column names of a header line and the kind of file they make."""
+    cells = _split(line)
+    if len(cells) == 1 and (";" in cells[0] or "\t" in cells[0]):
+        raise InputError(f"{where}: columns must be separated by commas, not "
+                         f"{'semicolons' if ';' in cells[0] else 'tabs'}")
+    header = [_check_column(c, where) for c in cells]
+    seen: set[str] = set()
+    for c in header:
+        if c in seen:
+            raise InputError(f"{where}: column {c!r} appears twice")
+        seen.add(c)
+    return header, _kind_of(header, where)
+
+
+def _read_row(line: str, header: list[str], kind: str, where: str, name: str,
+              lineno: int) -> Row:
+    """One data line as a row of its file's kind."""
+    cells = _split(line)
+    if len(cells) != len(header):
+        raise InputError(f"{where}: {len(cells)} value{'s' if len(cells) != 1 else ''}, "
+                         f"the header has {len(header)} columns ({','.join(header)})")
+    values = dict(zip(header, cells, strict=True))
+    spin = DEFAULT_SPIN
+    if "spin" in values:
+        spin = values["spin"].lower()
+        if spin not in SPINS:
+            raise InputError(f"{where}, column 'spin': {values['spin']!r} is not a spin, "
+                             f"must be one of {', '.join(SPINS)}")
+    nums = {c: _number(values[c], c, where) for c in header if c in _RANGES}
+    if kind == "rebound":
+        return ReboundRow(nums["speed_in_mps"], nums["angle_in_deg"], nums["speed_out_mps"],
+                          nums["angle_out_deg"], spin, name, lineno)
+    if kind == "rollout":
+        return RolloutRow(nums["launch_speed_mps"], nums["distance_m"], spin, name, lineno)
+    return ReboundTestRow(nums["launch_speed_mps"], nums["table_lengths"], name, lineno)
+
+
+def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:
     """Read one measurement file (kind from its columns, see :mod:`shotplan.cushion`).
 
     Parameters
@@ -291,18 +329,7 @@ def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:  # noqa
         if not line or line.startswith("#"):
             continue
         if header is None:
-            where = f"{name}: line {lineno} (header)"
-            cells = _split(line)
-            if len(cells) == 1 and (";" in cells[0] or "\t" in cells[0]):
-                raise InputError(f"{where}: columns must be separated by commas, not "
-                                 f"{'semicolons' if ';' in cells[0] else 'tabs'}")
-            header = [_check_column(c, where) for c in cells]
-            seen: set[str] = set()
-            for c in header:
-                if c in seen:
-                    raise InputError(f"{where}: column {c!r} appears twice")
-                seen.add(c)
-            kind = _kind_of(header, where)
+            header, kind = _read_header(line, f"{name}: line {lineno} (header)")
             header_line = lineno
             continue
         n_row = len(rows) + 1
@@ -310,28 +337,7 @@ def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:  # noqa
         if n_row > MAX_ROWS:
             raise InputError(f"{where}: more than {MAX_ROWS:,} data rows; a fit takes at most "
                              f"{MAX_ROWS:,} (split the file, or keep a sample of the rows)")
-        cells = _split(line)
-        if len(cells) != len(header):
-            raise InputError(f"{where}: {len(cells)} value{'s' if len(cells) != 1 else ''}, "
-                             f"the header has {len(header)} columns ({','.join(header)})")
-        values = dict(zip(header, cells, strict=True))
-        spin = DEFAULT_SPIN
-        if "spin" in values:
-            spin = values["spin"].lower()
-            if spin not in SPINS:
-                raise InputError(f"{where}, column 'spin': {values['spin']!r} is not a spin, "
-                                 f"must be one of {', '.join(SPINS)}")
-        nums = {c: _number(values[c], c, where) for c in header if c in _RANGES}
-        if kind == "rebound":
-            rows.append(ReboundRow(nums["speed_in_mps"], nums["angle_in_deg"],
-                                   nums["speed_out_mps"], nums["angle_out_deg"], spin,
-                                   name, lineno))
-        elif kind == "rollout":
-            rows.append(RolloutRow(nums["launch_speed_mps"], nums["distance_m"], spin,
-                                   name, lineno))
-        else:
-            rows.append(ReboundTestRow(nums["launch_speed_mps"], nums["table_lengths"],
-                                       name, lineno))
+        rows.append(_read_row(line, header, kind, where, name, lineno))
     if header is None:
         raise InputError(f"{name}: the file is empty, expected a header line of column names "
                          f"({_valid_columns_text()}) and a line per measurement")

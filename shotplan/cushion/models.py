@@ -21,6 +21,8 @@ if TYPE_CHECKING:
 
 __all__ = [
     "Progress",
+    "PROGRESS_STEPS",
+    "report_fraction",
     "STANDARD_MIN_LENGTHS",
     "STANDARD_MAX_LENGTHS",
     "FIRM_STROKE_MPS",
@@ -35,8 +37,28 @@ __all__ = [
     "speed_for_lengths",
 ]
 
-Progress = Callable[[float, str], None]
-"""A progress callback: fraction done (0 to 1) and what is being done."""
+Progress = Callable[[int, int], None]
+"""A progress callback, ``progress(done, total)``: the one shape every long
+computation in shotplan reports through (here ``total`` is
+:data:`PROGRESS_STEPS`)."""
+
+PROGRESS_STEPS = 1000
+"""The cushion fits and reports count their progress in thousandths."""
+
+
+def report_fraction(progress: Progress | None, fraction: float) -> None:
+    """Call ``progress`` with ``fraction`` (0 to 1) of the work done.
+
+    Parameters
+    ----------
+    progress
+        The callback, or None for no progress.
+    fraction
+        Share of the work done, clipped to [0, 1].
+    """
+    if progress is not None:
+        done = int(round(PROGRESS_STEPS * min(max(fraction, 0.0), 1.0)))
+        progress(done, PROGRESS_STEPS)
 
 STANDARD_MIN_LENGTHS = 4.0
 """The standard's rebound test: a firm centre-ball stroke from the head spot

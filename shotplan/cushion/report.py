@@ -26,6 +26,7 @@ from .models import (
     ReboundTest,
     law_params,
     rebound_predictions,
+    report_fraction,
     rolled_velocity,
     rollout_distance,
     speed_for_lengths,
@@ -504,7 +505,7 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
     bank_speed_mps
         Speed of the compared one-rail bank, m/s.
     progress
-        Progress callback (fraction, words).
+        Called as ``progress(done, total)`` (thousandths of the work).
 
     Returns
     -------
@@ -520,15 +521,14 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
         raise InputError(f"firm speed {firm_speed_mps!r} m/s is out of range, must be above 0 "
                          "and at most 15")
 
-    def step(frac: float, what: str) -> None:
-        if progress is not None:
-            progress(frac, what)
+    def step(frac: float) -> None:
+        report_fraction(progress, frac)
 
     spec = profile.spec
     base = profile.preset
     phys = Physics.for_table(spec)
     phys0 = Physics.for_table(base)
-    step(0.0, "rebound curves")
+    step(0.0)  # rebound curves
     curves = []
     angles = np.array(REPORT_ANGLES_DEG)
     prm = law_params(spec)
@@ -553,19 +553,19 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
                 np.degrees(np.arctan2(vel0[:, 1], vel0[:, 0])),
                 np.degrees(np.arctan2(r1[:, 1], r1[:, 0])),
                 np.degrees(np.arctan2(r0[:, 1], r0[:, 0]))))
-    step(0.1, "measured rows")
+    step(0.1)  # measured rows
     checks = _checks(profile)
-    step(0.2, "standard rebound test")
+    step(0.2)  # standard rebound test
     top = measured_up_to(profile)
     table = table_geometry(spec)
     table0 = table_geometry(base)
     speeds = np.array(REPORT_TEST_SPEEDS_MPS)
     prof_l = np.array([standard_rebound_test(spec, phys, float(v), table).table_lengths
                        for v in speeds])
-    step(0.35, "standard rebound test")
+    step(0.35)  # standard rebound test
     pre_l = np.array([standard_rebound_test(base, phys0, float(v), table0).table_lengths
                       for v in speeds])
-    step(0.5, "standard rebound test")
+    step(0.5)  # standard rebound test
     comparison = ReboundTestComparison(
         firm_speed_mps,
         standard_rebound_test(spec, phys, firm_speed_mps, table),
@@ -574,13 +574,13 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
         speed_for_lengths(spec, phys, table=table),
         speed_for_lengths(base, phys0, table=table0),
         top)
-    step(0.7, "one-rail bank")
+    step(0.7)  # one-rail bank
     bank = bank_comparison(profile, bank_speed_mps)
     if bank is not None:
         bank = dataclasses.replace(bank, extrapolated=comparison.beyond(bank.speed_mps))
     curves = [dataclasses.replace(c, extrapolated=comparison.beyond(c.speed_mps))
               for c in curves]
-    step(1.0, "done")
+    step(1.0)  # done
     return ProfileReport(profile, tuple(curves), bank, comparison, checks)
 
 
