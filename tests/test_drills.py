@@ -5,7 +5,6 @@ from __future__ import annotations
 
 import copy
 import hashlib
-import io
 import json
 import math
 import re
@@ -22,10 +21,10 @@ from shotplan.drills import (
     LEVELS,
     Drill,
     PlayerErrors,
-    ProgressBar,
     Station,
     load_drill,
     plan_station,
+    run_drill,
     save_drill,
     simulate_station,
 )
@@ -277,20 +276,20 @@ def test_no_errors_repeat_the_planned_shot():
     assert res.position.successes == 20  # ... and, found for a zone, reach it
 
 
-def test_progress_bar_only_on_a_terminal():
-    class Tty(io.StringIO):
-        def isatty(self):
-            return True
-
-    tty, pipe = Tty(), io.StringIO()
-    for stream in (tty, pipe):
-        bar = ProgressBar(100, "station 1/1", stream=stream)
-        for k in range(0, 101, 10):
-            bar(k)
-        bar.close()
-    assert pipe.getvalue() == ""
-    text = tty.getvalue()
-    assert text.count("\r") == 11 and text.endswith("100.0 %\n") and "station 1/1 [" in text
+def test_progress_counts_every_trial_once(folder):
+    # One callback shape, progress(done, total), over every station and
+    # level: 30 trials x 2 stations x 2 levels = 120 (counted by hand).
+    drill = load_drill(write(folder, BASE))
+    calls: list[tuple[int, int]] = []
+    result = run_drill(drill, LEVELS["club"], trials=30, seed=2,
+                       progress=lambda done, total: calls.append((done, total)),
+                       compare=[LEVELS["club"], LEVELS["starter"]])
+    assert calls[0] == (0, 120) and calls[-1] == (120, 120)
+    assert {t for _, t in calls} == {120}
+    assert all(a <= b for (a, _), (b, _) in zip(calls, calls[1:], strict=False))
+    # each station reports its own end: 30, 60 (club), 90, 120 (starter)
+    assert {30, 60, 90} <= {d for d, _ in calls}
+    assert len(result.stations) == 2 and len(result.compared) == 1
 
 
 # ---------------------------------------------------------- the command

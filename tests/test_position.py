@@ -10,6 +10,7 @@ import numpy as np
 import pytest
 
 from shotplan.cli import main
+from shotplan.cli.zones import parse_zone
 from shotplan.equipment import TableSpec
 from shotplan.errors import InputError, LayoutError
 from shotplan.layout import Layout, save_layout
@@ -21,12 +22,11 @@ from shotplan.position import (
     ROBUST_TIP_STEP,
     Zone,
     default_grid,
-    parse_zone,
     position_map,
-    position_scene,
     setting_words,
     tip_words,
 )
+from shotplan.render.position_map import position_scene
 from shotplan.stroke import Stroke
 
 SPEC = TableSpec.preset("pool-9ft")

@@ -117,7 +117,9 @@ def _numbers(text: str | None, option: str, allow_stun: bool = False) -> list[An
 
 def _run_position(args: argparse.Namespace) -> int:
     from ..layout import load_layout
-    from ..position import parse_zone, position_map, position_scene
+    from ..position import position_map
+    from ..render.position_map import position_scene
+    from .zones import parse_zone
 
     out = check_output_path(args.output, DIAGRAM_SUFFIXES) if args.output else None
     speeds = _numbers(args.speeds, "--speeds")
@@ -263,8 +265,10 @@ the sheet's three levels, fit (6 million); a mistyped --trials does not."""
 def _run_drill(args: argparse.Namespace) -> int:
     from pathlib import Path
 
-    from ..drills import LEVELS, SHEET_LEVELS, ProgressBar, load_drill, run_drill, write_sheet
+    from ..drills import LEVELS, SHEET_LEVELS, load_drill, run_drill
     from ..render.sheet import _check_folder, stations_folder
+    from ..render.stations import write_sheet
+    from .study import ProgressBar
 
     errors = _errors(args)
     out = None
@@ -279,10 +283,10 @@ def _run_drill(args: argparse.Namespace) -> int:
                          f"stations{' for ' + str(1 + len(compare)) + ' levels' if compare else ''}"
                          f" make {total:,} simulations, at most {MAX_TOTAL_TRIALS:,} are run; "
                          "give fewer --trials")
-    bar = ProgressBar(total, "planning")
-    bar(0)
+    bar = ProgressBar("drill")
     result = run_drill(drill, errors, args.trials, args.seed, progress=bar, source=args.drill,
                        compare=compare)
+    bar.close()
     written = write_sheet(result, out, dpi=args.dpi) if out is not None else []
     if args.json:
         doc = result.to_dict()

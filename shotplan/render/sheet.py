@@ -438,8 +438,8 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
                 levels: Sequence[tuple[PlayerErrors, StationResult]], attempts: int,
                 size_in: tuple[float, float] = A4_IN) -> Figure:
     """Station ``k`` (from 1) of ``n`` as one page."""
-    from ..drills import station_lines, station_scene
     from .export import _draw_scene
+    from .stations import station_lines, station_scene
 
     w, h = size_in
     plan = result.plan

@@ -34,6 +34,3 @@ from .shots import KINDS, MAX_CUT_DEG, MIN_WINDOW_DEG, WINDOW_STEP_DEG, Rejected
 __all__ = ["Shot", "Rejected", "SearchResult", "find_shots", "KINDS", "TIPS", "tip_height",
            "default_speed", "aim_direct", "pocket_target", "MAX_CUT_DEG", "MIN_WINDOW_DEG",
            "WINDOW_STEP_DEG"]
-
-_pocket_target = pocket_target
-"""Old private spelling, still imported by :mod:`shotplan.drills`; use :func:`pocket_target`."""

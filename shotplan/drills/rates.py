@@ -1,0 +1,500 @@
+"""Success rates: a station's settings planned once, then played many times
+with a player's errors (Monte Carlo), each rate with its Wilson interval
+(see :mod:`shotplan.drills`)."""
+
+from __future__ import annotations
+
+import math
+import time
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from ..errors import InputError
+from ..players import (
+    DEFAULT_LEVEL,
+    LEVELS,
+    MISCUE_FLAG_RATE,
+    PlayerErrors,
+    level_tip_room,
+    miscue_probability,
+    safe_height,
+)
+from ..position import PotPlayer, setting_words
+from ..stroke import Stroke
+from ..study import Progress
+from .drill_file import Drill, Station
+
+__all__ = [
+    "SHEET_LEVELS",
+    "Z95",
+    "Rate",
+    "StationPlan",
+    "StationResult",
+    "DrillResult",
+    "wilson_interval",
+    "plan_station",
+    "simulate_station",
+    "run_drill",
+]
+
+SHEET_LEVELS: tuple[str, ...] = ("starter", "club", "strong")
+"""The levels whose rates a drill sheet shows side by side (with the one asked for)."""
+
+Z95 = 1.959963984540054
+"""The standard normal's 97.5 % quantile, ``scipy.stats.norm.ppf(0.975)``."""
+
+_MIN_SPEED = 0.05
+"""A drawn speed error never takes the launch below this (m/s): a stroke, however
+feeble, moves the cue ball."""
+
+_MAX_SPEED = 15.0
+"""Nor above the fastest stroke the package accepts (m/s)."""
+
+
+# ---------------------------------------------------------------- rates
+def wilson_interval(successes: int, trials: int, z: float = Z95) -> tuple[float, float]:
+    """The Wilson score interval of a binomial proportion (Wilson 1927):
+    ``(p + z^2/2n -+ z sqrt(p(1-p)/n + z^2/4n^2)) / (1 + z^2/n)``."""
+    if trials <= 0:
+        raise InputError("wilson_interval: trials must be at least 1")
+    if not 0 <= successes <= trials:
+        raise InputError(f"wilson_interval: {successes} successes out of {trials} trials")
+    n = float(trials)
+    p = successes / n
+    z2 = z * z
+    centre = p + z2 / (2.0 * n)
+    half = z * math.sqrt(p * (1.0 - p) / n + z2 / (4.0 * n * n))
+    den = 1.0 + z2 / n
+    return (max((centre - half) / den, 0.0), min((centre + half) / den, 1.0))
+
+
+@dataclass(frozen=True, slots=True)
+class Rate:
+    """Successes out of trials, with the 95 % Wilson interval."""
+
+    successes: int
+    """Trials that succeeded."""
+    trials: int
+    """Trials run."""
+
+    @property
+    def rate(self) -> float:
+        """The share of successes."""
+        return self.successes / self.trials
+
+    @property
+    def ci95(self) -> tuple[float, float]:
+        """95 % Wilson score interval (low, high)."""
+        return wilson_interval(self.successes, self.trials)
+
+    def to_dict(self) -> dict[str, Any]:
+        """``{"rate", "ci95": [low, high], "successes", "trials"}``."""
+        lo, hi = self.ci95
+        return {"rate": self.rate, "ci95": [lo, hi], "successes": self.successes,
+                "trials": self.trials}
+
+    def percent(self) -> str:
+        """``83.1 % (82.4-83.8)``."""
+        lo, hi = self.ci95
+        return f"{100 * self.rate:.1f} % ({100 * lo:.1f}-{100 * hi:.1f})"
+
+
+# ---------------------------------------------------------------- plans
+@dataclass(frozen=True, eq=False)
+class StationPlan:
+    """What a station plays: its settings (found once), the shot's first ball,
+    and the unperturbed run."""
+
+    station: Station
+    """The station."""
+    stroke: Stroke
+    """The settings to play."""
+    first: str
+    """The ball the cue ball must meet first."""
+    source: str
+    """Where the settings came from: ``file``, ``shot search`` or ``position search``."""
+    tip: str = ""
+    """``stun`` when the height came from the stun rule, else ``""``."""
+    shot: Any = None
+    """The :class:`shotplan.search.Shot` the settings came from, if any."""
+    zone_setting: Any = None
+    """The :class:`shotplan.position.ZoneSetting` the settings came from, if any."""
+    outcome: Any = None
+    """The :class:`shotplan.physics.Outcome` of the unperturbed stroke."""
+    remark: str = ""
+    """What the planner wants the coach to know (``no setting reaches the zone``...)."""
+    physics: Any = None
+    """The :class:`shotplan.physics.Physics` planned with (the trials use it too)."""
+
+    def words(self) -> str:
+        """The settings in a player's words."""
+        return setting_words(self.stroke.speed_mps, self.stroke.side, self.stroke.height,
+                             self.tip)
+
+
+def plan_station(station: Station, physics: Any = None, errors: PlayerErrors | None = None
+                 ) -> StationPlan:
+    """The settings of a station: the file's stroke, or found (see the module
+    docstring). Found settings keep the tip inside the tip room of
+    ``errors`` (:func:`shotplan.players.tip_room`; default the ``club``
+    level): a shot whose stun or draw would need more is played at the
+    room's edge instead, and the plan's remark says so. A file's stroke is
+    played as given; the remark says when it lies outside the room. Raises
+    :class:`InputError` if no shot pockets the ball, or if the player's tip
+    error leaves no room at all."""
+    from ..position import position_map
+    from ..search import find_shots
+
+    lay = station.layout
+    phys = physics if physics is not None else lay.physics()
+    room = level_tip_room(phys.miscue_limit, errors)
+    who = (errors if errors is not None else LEVELS[DEFAULT_LEVEL])
+    if room < 0.0:
+        raise InputError(f"station {station.name!r}: no tip setting keeps a miscue rare for a "
+                         f"tip error of {who.tip_sd:g} R with a miscue limit of "
+                         f"{phys.miscue_limit:g} R (even centre ball miscues more than 1 % of "
+                         "the time)")
+    stroke = station.stroke
+    first = station.ball
+    source, tip, shot, zs, remark = "file", "", None, None, ""
+    if stroke is None:
+        if station.zone is not None:
+            pm = position_map(lay, station.ball, station.pocket, zone=station.zone, physics=phys,
+                              errors=errors)
+            if pm.ranked:
+                zs = pm.ranked[0]
+                stroke = zs.finish.stroke()
+                tip = zs.finish.tip
+                source = "position search"
+            else:
+                remark = "no setting on the position grid leaves the cue ball in the zone"
+        if stroke is None:
+            res = find_shots(lay, balls=[station.ball], pockets=[station.pocket], physics=phys)
+            shots = [s for s in res.shots if s.balls[-1] == station.ball]
+            if not shots:
+                why = res.rejected[0].reason if res.rejected else "no candidate"
+                raise InputError(f"station {station.name!r}: no shot pockets ball "
+                                 f"{station.ball!r} in {station.pocket} ({why})")
+            shot = shots[0]
+            stroke = shot.stroke()
+            tip = shot.tip if shot.tip == "stun" else ""
+            if math.hypot(stroke.side, stroke.height) > room + 1e-9:
+                h = safe_height(stroke.height, stroke.side, room)
+                again = [] if h is None else [
+                    s for s in find_shots(lay, balls=[station.ball], pockets=[station.pocket],
+                                          side=stroke.side, height=h, physics=phys).shots
+                    if s.balls[-1] == station.ball]
+                said = f"{tip} " if tip else ""
+                why = (f"the search's {said}tip ({stroke.height:+.3f} R) is nearer the miscue "
+                       f"limit than a {who.name} player's tip room ({room:.3g} R)")
+                if again:
+                    why += f"; played at {h:+.3f} R"
+                    shot, tip = again[0], ""
+                    stroke = shot.stroke()
+                else:
+                    why += ", and no shot pockets the ball from inside it"
+                remark = f"{remark}; {why}" if remark else why
+            first = shot.balls[0]
+            source = "shot search"
+    else:
+        offset = math.hypot(stroke.side, stroke.height)
+        chance = miscue_probability(offset, phys.miscue_limit, who.tip_sd)
+        if offset > room + 1e-9:
+            remark = (f"the file's tip ({offset:.3g} R from centre) is nearer the miscue limit "
+                      f"than a {who.name} player's tip room ({room:.3g} R): expect miscues "
+                      f"in about {100 * chance:.0f} % of attempts")
+    from ..physics import simulator_for
+
+    sim = simulator_for(lay.table, phys)
+    positions = lay.positions()
+    ids = list(positions)
+    outcome = sim.run(ids, [positions[i] for i in ids], stroke)
+    if station.stroke is not None:
+        hit = outcome.first_contact("cue")
+        if hit is not None and hit != "cue":
+            first = hit
+    return StationPlan(station, stroke, first, source, tip, shot, zs, outcome, remark, phys)
+
+
+# ------------------------------------------------------------ Monte Carlo
+@dataclass(frozen=True, eq=False)
+class StationResult:
+    """Success rates of one station for one error model."""
+
+    plan: StationPlan
+    """What was played."""
+    errors: PlayerErrors
+    """The error model."""
+    seed: int
+    """The seed."""
+    pocket: Rate
+    """Trials that pocketed the ball (cue ball up)."""
+    position: Rate
+    """Trials whose cue ball finished in the zone (no zone: stayed up)."""
+    both: Rate
+    """Trials that did both."""
+    miscues: int
+    """Trials whose tip landed beyond the miscue limit (failed, not played)."""
+    scratches: int
+    """Trials in which the cue ball fell."""
+    finishes: np.ndarray = field(repr=False)
+    """(trials, 2) cue-ball finishes, NaN after a miscue or a scratch."""
+    seconds: float = 0.0
+    """Wall time of the trials."""
+
+    @property
+    def trials(self) -> int:
+        """Trials run."""
+        return self.pocket.trials
+
+    @property
+    def miscue_rate(self) -> float:
+        """The share of trials that miscued."""
+        return self.miscues / self.trials
+
+    @property
+    def miscue_flag(self) -> bool:
+        """More than :data:`shotplan.players.MISCUE_FLAG_RATE` of the trials
+        miscued: the settings are too near the miscue limit for this player."""
+        return self.miscue_rate > MISCUE_FLAG_RATE
+
+    @property
+    def miscue_chance(self) -> float:
+        """The exact chance of a miscue for the planned tip and this player
+        (:func:`shotplan.players.miscue_probability`)."""
+        s = self.plan.stroke
+        return miscue_probability(math.hypot(s.side, s.height), self.plan.physics.miscue_limit,
+                                  self.errors.tip_sd)
+
+    def miscue_words(self) -> str:
+        """``TOO NEAR THE MISCUE LIMIT: 46 % of trials miscued`` or ``""``."""
+        if not self.miscue_flag:
+            return ""
+        return (f"TOO NEAR THE MISCUE LIMIT: {100 * self.miscue_rate:.0f} % of trials miscued "
+                f"(more than {100 * MISCUE_FLAG_RATE:g} %); move the tip towards the centre")
+
+    def to_dict(self) -> dict[str, Any]:
+        """The station's object in ``shotplan drill --json``."""
+        st = self.plan.station
+        s = self.plan.stroke
+        return {
+            "station": st.name,
+            "ball": st.ball,
+            "pocket": st.pocket,
+            "zone": st.zone.to_dict() if st.zone is not None else None,
+            "position_means": ("cue ball's centre at rest in the zone" if st.zone is not None
+                               else "cue ball stays on the table (no zone)"),
+            "settings": {**s.to_dict(), "words": self.plan.words(), "source": self.plan.source,
+                         "first_ball": self.plan.first, "remark": self.plan.remark or None},
+            "trials": self.trials,
+            "seed": self.seed,
+            "pocket_rate": self.pocket.to_dict(),
+            "position_rate": self.position.to_dict(),
+            "both_rate": self.both.to_dict(),
+            "miscues": self.miscues,
+            "scratches": self.scratches,
+            "seconds": self.seconds,
+            "miscue_rate": self.miscue_rate,
+            "miscue_chance": self.miscue_chance,
+            "miscue_flag": self.miscue_flag,
+        }
+
+
+def simulate_station(plan: StationPlan, errors: PlayerErrors, trials: int = 10000,
+                     seed: int = 1, index: int = 0,
+                     progress: Progress | None = None) -> StationResult:
+    """Monte Carlo success rates of a planned station.
+
+    Parameters
+    ----------
+    plan
+        From :func:`plan_station` (the aim is found once, there).
+    errors
+        The player's error model.
+    trials
+        Trials to run (at least 1).
+    seed, index
+        The generator is ``numpy.random.default_rng([seed, index])``: the
+        same seed and station index give the same numbers.
+    progress
+        Called as ``progress(done, trials)`` with the trials played so far,
+        about every 1 %, and once at the end.
+
+    Returns
+    -------
+    StationResult
+        The pocket, position and both rates with their Wilson intervals,
+        the miscues, the scratches and every trial's cue-ball finish.
+
+    Raises
+    ------
+    InputError
+        ``trials`` or ``seed`` is not a whole number in range.
+    """
+    if isinstance(trials, bool) or not isinstance(trials, int) or not 1 <= trials <= 10_000_000:
+        raise InputError(f"trials {trials!r} must be a whole number from 1 to 10000000")
+    if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
+        raise InputError(f"seed {seed!r} must be a whole number, 0 or more")
+    t0 = time.perf_counter()
+    st = plan.station
+    lay = st.layout
+    player = PotPlayer(lay, st.ball, st.pocket, plan.physics, first=plan.first)
+    rng = np.random.default_rng([seed, index])
+    z = rng.standard_normal((trials, 4))
+    s = plan.stroke
+    aims = s.direction_deg + errors.aim_sd_deg * z[:, 0]
+    speeds = np.clip(s.speed_mps * (1.0 + errors.speed_sd_pct / 100.0 * z[:, 1]),
+                     _MIN_SPEED, _MAX_SPEED)
+    sides = s.side + errors.tip_sd * z[:, 2]
+    heights = s.height + errors.tip_sd * z[:, 3]
+    miscue = np.hypot(sides, heights) > player.limit + 1e-12
+    potted = np.zeros(trials, dtype=bool)
+    scratch = np.zeros(trials, dtype=bool)
+    finishes = np.full((trials, 2), np.nan)
+    step = max(trials // 100, 1)
+    elev = s.elevation_deg
+    play = player.play
+    for i in range(trials):
+        if progress is not None and i % step == 0:
+            progress(i, trials)
+        if miscue[i]:
+            continue
+        result, fin = play(float(aims[i]), float(speeds[i]), float(sides[i]),
+                           float(heights[i]), elev)
+        if result == "pocketed":
+            potted[i] = True
+        elif result == "scratch" or fin is None:
+            scratch[i] = True
+        if fin is not None:
+            finishes[i] = fin
+    if progress is not None:
+        progress(trials, trials)
+    up = ~miscue & ~scratch
+    if st.zone is not None:
+        safe = np.where(up[:, None], finishes, 0.0)
+        position = up & st.zone.contains(safe)
+    else:
+        position = up
+    both = potted & position
+    return StationResult(plan, errors, seed, Rate(int(potted.sum()), trials),
+                         Rate(int(position.sum()), trials), Rate(int(both.sum()), trials),
+                         int(miscue.sum()), int(scratch.sum()), finishes,
+                         time.perf_counter() - t0)
+
+
+@dataclass(frozen=True, eq=False)
+class DrillResult:
+    """Every station's rates for one error model."""
+
+    drill: Drill
+    """The drill."""
+    errors: PlayerErrors
+    """The error model."""
+    trials: int
+    """Trials per station."""
+    seed: int
+    """The seed."""
+    stations: tuple[StationResult, ...]
+    """One result per station, in order."""
+    source: str = ""
+    """The drill file's name, if it came from one."""
+    compared: tuple[tuple[PlayerErrors, tuple[StationResult, ...]], ...] = ()
+    """Other levels run on the same plans and seed, for the sheet's side-by-side
+    rates: ``(level, one result per station)``."""
+
+    def levels(self) -> list[tuple[PlayerErrors, tuple[StationResult, ...]]]:
+        """Every level run, weakest (largest tip error) first, this result's
+        own among them."""
+        out = {e.name if e.name != "custom" else "custom": (e, rs) for e, rs in self.compared}
+        own = self.errors.name
+        out[own] = (self.errors, self.stations)
+        return sorted(out.values(), key=lambda er: (-er[0].tip_sd, -er[0].aim_sd_deg))
+
+    def to_dict(self) -> dict[str, Any]:
+        """The ``shotplan drill --json`` document."""
+        stations = []
+        for r in self.stations:
+            d = r.to_dict()
+            d["attempts"] = self.drill.attempts_at(r.plan.station)
+            stations.append(d)
+        out: dict[str, Any] = {
+            "drill": self.drill.title,
+            "file": self.source or None,
+            "level": self.errors.to_dict(),
+            "trials": self.trials,
+            "seed": self.seed,
+            "confidence": "95 % Wilson score interval",
+            "stations": stations,
+        }
+        if self.compared:
+            out["compared"] = [
+                {"level": e.to_dict(),
+                 "stations": [{"station": r.plan.station.name,
+                               "pocket_rate": r.pocket.to_dict(),
+                               "position_rate": r.position.to_dict(),
+                               "both_rate": r.both.to_dict(),
+                               "miscues": r.miscues, "miscue_rate": r.miscue_rate,
+                               "miscue_flag": r.miscue_flag} for r in rs]}
+                for e, rs in self.compared]
+        return out
+
+
+def run_drill(drill: Drill, errors: PlayerErrors, trials: int = 10000, seed: int = 1,
+              progress: Progress | None = None, source: str = "",
+              compare: Sequence[PlayerErrors] = ()) -> DrillResult:
+    """Plan every station, then run its Monte Carlo trials.
+
+    Parameters
+    ----------
+    drill
+        The drill (:func:`load_drill`).
+    errors
+        The player's error model; the settings found keep inside its tip
+        room (:func:`plan_station`).
+    trials
+        Trials at each station.
+    seed
+        Station ``k`` uses ``numpy.random.default_rng([seed, k])``.
+    progress
+        Called as ``progress(done, total)`` with the trials played so far
+        over every station and level (``0`` before the planning).
+    source
+        The drill file's name, for the result.
+    compare
+        Other levels (``errors`` itself is skipped), run on the same plans
+        with the same seed (common random numbers), for the sheet.
+
+    Returns
+    -------
+    DrillResult
+        One :class:`StationResult` per station for ``errors``, and the
+        compared levels' in :attr:`DrillResult.compared`.
+    """
+    others = [e for e in compare if e != errors]
+    total = trials * len(drill.stations) * (1 + len(others))
+    if progress is not None:
+        progress(0, total)
+    plans = [plan_station(st, errors=errors) for st in drill.stations]
+    done = 0
+
+    def play(e: PlayerErrors) -> tuple[StationResult, ...]:
+        nonlocal done
+        results = []
+        for k, plan in enumerate(plans):
+            tick: Progress | None = None
+            if progress is not None:
+                def tick(i: int, _n: int, before: int = done) -> None:
+                    progress(before + i, total)
+
+            results.append(simulate_station(plan, e, trials, seed, k, tick))
+            done += trials
+        return tuple(results)
+
+    own = play(errors)
+    compared = tuple((e, play(e)) for e in others)
+    return DrillResult(drill, errors, trials, seed, own, source, compared)
+
+
