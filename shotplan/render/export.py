@@ -60,6 +60,8 @@ __all__ = [
     "write_pages",
     "render_png_bytes",
     "render_figure",
+    "new_figure",
+    "write_figures",
     "DEFAULT_WIDTH_IN",
     "A4_PORTRAIT_IN",
     "DPI_RANGE",
@@ -426,6 +428,67 @@ def write_scene(
     # bytes are ready, so a kill while drawing leaves nothing behind.
     buf = io.BytesIO()
     fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=_PAPER)
+    atomic_write_bytes(p, buf.getvalue())
+    return p
+
+
+def new_figure(size_in: tuple[float, float]) -> Figure:
+    """An empty white figure on the Agg canvas (never pyplot), for a chart.
+
+    Parameters
+    ----------
+    size_in : (float, float)
+        Width and height, inches.
+
+    Returns
+    -------
+    Figure
+        Ready for ``add_subplot``; write it with :func:`write_figures`.
+    """
+    fig = Figure(figsize=size_in, facecolor=_PAPER)
+    FigureCanvasAgg(fig)
+    return fig
+
+
+def write_figures(figures: Sequence[Figure], path: str | os.PathLike[str],
+                  dpi: float = 150) -> Path:
+    """Write one figure as PNG, SVG or PDF, or several as the pages of one PDF.
+
+    Rendered in memory, then written atomically, without dates, like
+    :func:`write_scene` (the charts of ``study`` and ``cushion``).
+
+    Parameters
+    ----------
+    figures : sequence of Figure
+        The figure, or the pages (then ``path`` must end in ``.pdf``).
+    path : str or path-like
+        Ends in ``.png``, ``.svg`` or ``.pdf`` (any case); its folder must exist.
+    dpi : float
+        Pixels per inch of a PNG.
+
+    Returns
+    -------
+    Path
+        The file written.
+
+    Raises
+    ------
+    InputError
+        A bad suffix or folder, no figure, or several figures for a PNG or SVG.
+    """
+    p, fmt = _format_of(path)
+    if not figures:
+        raise InputError(f"{str(p)!r}: no figure to write")
+    if len(figures) > 1 and fmt != "pdf":
+        raise InputError(f"{str(p)!r}: several pages need a .pdf file")
+    buf = io.BytesIO()  # the bytes first, then the file: nothing half-made on disk
+    if len(figures) > 1:
+        with PdfPages(buf, metadata=_METADATA["pdf"]) as pdf:
+            for fig in figures:
+                pdf.savefig(fig, facecolor=_PAPER)
+    else:
+        figures[0].savefig(buf, format=fmt, dpi=_check_dpi(dpi), metadata=_METADATA[fmt],
+                           facecolor=_PAPER)
     atomic_write_bytes(p, buf.getvalue())
     return p
 
