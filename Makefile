@@ -5,6 +5,10 @@ PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
 TSTAMP := $(VENV)/.installed-test
 DEMO   := assets/layouts/club-night-1-straight-in.json
+# The model and the engine are held to mypy --strict.
+STRICT := shotplan/errors.py shotplan/units.py shotplan/equipment.py shotplan/table.py \
+          shotplan/stroke.py shotplan/aim.py shotplan/layout.py shotplan/players.py \
+          shotplan/files shotplan/physics
 
 .PHONY: run test bench check clean screenshots
 
@@ -32,6 +36,7 @@ bench: $(STAMP)
 check: $(TSTAMP)
 	$(VENV)/bin/ruff check shotplan tests benchmarks tools
 	$(VENV)/bin/mypy shotplan
+	$(VENV)/bin/mypy --strict $(STRICT)
 
 screenshots: $(STAMP)
 	$(PY) tools/make_diagrams.py

@@ -28,10 +28,13 @@ import dataclasses
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass, field
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .errors import LayoutError, quoted
 from .units import inches, mm
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .files.read import JSONValue
 
 __all__ = [
     "Range",
@@ -237,7 +240,7 @@ class TableSpec:
                 f"{quoted(name)} is not a table preset, must be one of {', '.join(PRESETS)}"
             ) from None
 
-    def with_overrides(self, values: Mapping[str, Any], where: str = "table") -> TableSpec:
+    def with_overrides(self, values: Mapping[str, JSONValue], where: str = "table") -> TableSpec:
         """A copy with measured values replacing the preset's.
 
         ``values`` maps keys of :data:`OVERRIDE_KEYS` to numbers; ``where``
@@ -415,7 +418,7 @@ class TableSpec:
         dh = self.cushion.nose_height_m - R
         return math.sqrt(max(R * R - dh * dh, 0.0))
 
-    def to_dict(self) -> dict[str, Any]:
+    def to_dict(self) -> dict[str, JSONValue]:
         """The summary ``shotplan tables --json`` prints for this table."""
         return {
             "name": self.name,

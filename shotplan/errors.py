@@ -66,7 +66,7 @@ class WriteError(ShotplanError, OSError):
 
     def __init__(self, message: str, errno: int | None = None):
         super().__init__(message)
-        self.errno = errno  # type: ignore[misc]
+        self.errno = errno
 
     def __str__(self) -> str:
         return str(self.args[0]) if self.args else ""

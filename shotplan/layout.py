@@ -56,6 +56,7 @@ from .errors import LayoutError, PhysicsError, StrokeError, quoted, show_path
 from .files.read import (
     LAYOUT_FORMAT,
     MAX_JSON_BYTES,
+    JSONValue,
     check_format,
     check_numbers,
     check_version,
@@ -294,7 +295,7 @@ class Layout:
         """A copy with a new title and, if given, a new note."""
         return self._replace(title=title, note=self.note if note is None else note)
 
-    def with_physics(self, overrides: Mapping[str, Any]) -> Layout:
+    def with_physics(self, overrides: Mapping[str, JSONValue]) -> Layout:
         """A copy whose ``physics`` object is ``overrides`` (replacing the old one)."""
         return self._replace(physics_overrides=tuple(overrides.items()))
 
@@ -308,7 +309,7 @@ class Layout:
         return Layout(**values)
 
     # ---------------------------------------------------------------- files
-    def to_dict(self) -> dict[str, Any]:
+    def to_dict(self) -> dict[str, JSONValue]:
         """The layout file's object (keys in :data:`LAYOUT_KEYS` order; empty
         optional fields left out)."""
         out: dict[str, Any] = {"format": FORMAT, "version": VERSION}
@@ -335,7 +336,7 @@ class Layout:
         return text + "\n"
 
     @classmethod
-    def from_dict(cls, data: Any, where: str = "layout", *, header: bool = True,
+    def from_dict(cls, data: JSONValue, where: str = "layout", *, header: bool = True,
                   base: str | os.PathLike[str] | None = None) -> Layout:
         """Build from a parsed layout object, checking its structure.
 

@@ -46,11 +46,14 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from .errors import InputError
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .files.read import JSONValue
 
 __all__ = [
     "PlayerErrors",
@@ -123,7 +126,7 @@ class PlayerErrors:
         """:func:`tip_room` for this player's tip error."""
         return tip_room(miscue_limit, self.tip_sd)
 
-    def to_dict(self) -> dict[str, Any]:
+    def to_dict(self) -> dict[str, JSONValue]:
         """The ``level`` object of ``shotplan drill --json``."""
         return {"name": self.name, "aim_sd_deg": self.aim_sd_deg,
                 "speed_sd_pct": self.speed_sd_pct, "tip_sd": self.tip_sd}

@@ -20,6 +20,7 @@ from typing import TYPE_CHECKING, Any
 from .errors import InputError, StrokeError
 
 if TYPE_CHECKING:  # pragma: no cover
+    from .files.read import JSONValue
     from .physics.params import Physics
 
 __all__ = ["Stroke", "STROKE_KEYS", "speed_word", "TIPS", "tip_height", "default_speed"]
@@ -53,7 +54,7 @@ class Stroke:
     """Cue elevation above horizontal, degrees."""
 
     @classmethod
-    def from_dict(cls, data: Any, where: str = "stroke") -> Stroke:
+    def from_dict(cls, data: JSONValue, where: str = "stroke") -> Stroke:
         """Build from a stroke object, checking every field; ``where`` names
         the place for messages (``'drill.json: stations[2].stroke'``)."""
         if not isinstance(data, Mapping):
@@ -111,12 +112,12 @@ def _number(value: Any, where: str) -> float:
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise StrokeError(f"{where}: {value!r} is not a number")
     try:
-        value = float(value)
+        number = float(value)
     except OverflowError:
         raise StrokeError(f"{where}: {value!r} is too large") from None
-    if not math.isfinite(value):
-        raise StrokeError(f"{where}: {value!r} is not a finite number")
-    return value
+    if not math.isfinite(number):
+        raise StrokeError(f"{where}: {number!r} is not a finite number")
+    return number
 
 
 # Speed words of the trade, with the launch speeds we take them to mean

@@ -207,6 +207,11 @@ def _jaw(
     )
 
 
+_JawPlan = tuple[tuple[float, float], tuple[int, int], tuple[int, int]]
+"""A jaw as :func:`_build_pockets` lays it out: (jaw point, rail direction,
+inward normal)."""
+
+
 def _build_pockets(spec: TableSpec) -> tuple[Pocket, ...]:
     if spec.corner is None:
         return ()
@@ -214,7 +219,7 @@ def _build_pockets(spec: TableSpec) -> tuple[Pocket, ...]:
     c, s = spec.corner, spec.side
     j = c.mouth_m / math.sqrt(2.0)
     # (name, kind, corner, [(jaw point, rail dir, inward normal), ...])
-    layout: list[tuple[str, str, tuple[float, float], list[tuple]]] = [
+    layout: list[tuple[str, str, tuple[float, float], list[_JawPlan]]] = [
         ("head-right", "corner", (0.0, 0.0), [((j, 0.0), (1, 0), (0, 1)), ((0.0, j), (0, 1), (1, 0))]),
         ("head-left", "corner", (0.0, W), [((0.0, W - j), (0, -1), (1, 0)), ((j, W), (1, 0), (0, -1))]),
     ]
@@ -484,7 +489,8 @@ class Table:
         safe = np.where(finite[:, None], pts, 0.0)
         on_bed = shapely.contains_xy(self._centre_area, safe[:, 0], safe[:, 1])
         clear = self.cushion_clearance(safe) >= -tol
-        return finite & on_bed & clear
+        legal: np.ndarray = finite & on_bed & clear
+        return legal
 
     @cached_property
     def _centre_area(self) -> Polygon:

@@ -18,7 +18,9 @@ import json
 import math
 import sys
 from collections.abc import Mapping
-from typing import Any, TextIO
+from typing import TextIO
+
+from .read import JSONValue
 
 __all__ = ["NonFiniteError", "strict", "dumps", "emit", "missing_as_null"]
 
@@ -31,7 +33,7 @@ def _key(path: str, key: object) -> str:
     return f"{path}.{key}" if path else str(key)
 
 
-def strict(value: Any, path: str = "") -> Any:
+def strict(value: object, path: str = "") -> JSONValue:
     """``value`` as plain JSON types (numpy scalars and arrays, tuples and
     sets become numbers and lists); raise :class:`NonFiniteError` naming the
     path of the first NaN or infinity."""
@@ -55,12 +57,12 @@ def strict(value: Any, path: str = "") -> Any:
     raise TypeError(f"{type(value).__name__} at {path or 'the top level'} is not JSON")
 
 
-def dumps(value: Any, indent: int | None = 2) -> str:
+def dumps(value: object, indent: int | None = 2) -> str:
     """Strict JSON text of ``value`` (see :func:`strict`)."""
     return json.dumps(strict(value), indent=indent, ensure_ascii=False, allow_nan=False)
 
 
-def emit(value: Any, stream: TextIO | None = None) -> None:
+def emit(value: object, stream: TextIO | None = None) -> None:
     """Print ``value`` as strict JSON on ``stream`` (stdout by default).
 
     The whole text is built before anything is printed, so a refused value
@@ -69,7 +71,7 @@ def emit(value: Any, stream: TextIO | None = None) -> None:
     print(text, file=stream if stream is not None else sys.stdout)
 
 
-def missing_as_null(value: Any) -> Any:
+def missing_as_null(value: object) -> JSONValue:
     """``value`` with every NaN or infinity replaced by ``None``.
 
     Only for tabulated results where a gap has a stated meaning (a window

@@ -112,8 +112,8 @@ def _settle(i, hx, hy, vn_in, e, vel, om, prm):  # type: ignore[no-untyped-def]
 
 
 @jit
-def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state, seg_pos, seg_vel,
-                    seg_om, n_seg):  # type: ignore[no-untyped-def]
+def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball,  # type: ignore[no-untyped-def]
+                    seg_state, seg_pos, seg_vel, seg_om, n_seg):
     if n_seg >= seg_t.shape[0]:
         return n_seg
     seg_t[n_seg] = t
@@ -130,8 +130,8 @@ def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state, seg_pos,
 
 
 @jit
-def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                  own_t, own_kind, own_elem, trans_t):  # type: ignore[no-untyped-def]
+def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-untyped-def]
+                  circles, drops, buf, own_t, own_kind, own_elem, trans_t):
     if st[i] == POCKETED:
         own_t[i] = math.inf
         own_kind[i] = 0
@@ -165,9 +165,9 @@ def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  
 
 # noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
 @jit
-def run_events(pos, vel, om, st, prm, lines, circles, drops, max_events,  # noqa: C901
-               ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b,
-               seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om):  # type: ignore[no-untyped-def]
+def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-untyped-def]  # noqa: C901
+               max_events, ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b,
+               seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om):
     """Run the simulation from t = 0 (arrays changed in place).
 
     Returns (number of events, number of segments, status). ``st`` must hold

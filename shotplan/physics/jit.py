@@ -21,11 +21,17 @@ import hashlib
 import os
 from collections.abc import Callable
 from pathlib import Path
-from typing import Any, TypeVar
+from typing import Any, TypeAlias
 
-__all__ = ["jit", "JIT_ENABLED", "cache_dir"]
+__all__ = ["jit", "JIT_ENABLED", "Kernel", "cache_dir"]
 
-F = TypeVar("F", bound=Callable[..., Any])
+Kernel: TypeAlias = Callable[..., Any]
+"""The type of a kernel as the rest of the code sees it. numba infers a
+kernel's argument types when it compiles it, from the arrays and numbers it
+is called with, so kernels carry no annotations (they would be unchecked
+documentation, and the ``def`` lines carry a narrow ``# type:
+ignore[no-untyped-def]`` for that reason); their arguments and results are
+described in their docstrings."""
 
 JIT_ENABLED = os.environ.get("SHOTPLAN_NO_JIT", "") not in ("1", "true", "yes")
 
@@ -56,12 +62,35 @@ if JIT_ENABLED:
         except OSError:  # pragma: no cover - no writable home: numba's default
             pass
 
-    def jit(func: F) -> F:
-        """Compile ``func`` with numba (no Python mode, cached on disk)."""
-        return numba.njit(cache=True, nogil=True)(func)  # type: ignore[return-value]
+    def jit(func: Callable[..., Any]) -> Kernel:
+        """Compile ``func`` with numba (no Python mode, cached on disk).
+
+        Parameters
+        ----------
+        func : callable
+            A kernel in numba's subset of Python.
+
+        Returns
+        -------
+        Kernel
+            The compiled dispatcher (compiles on its first call).
+        """
+        kernel: Kernel = numba.njit(cache=True, nogil=True)(func)
+        return kernel
 
 else:
 
-    def jit(func: F) -> F:
-        """Plain Python: numba is disabled."""
+    def jit(func: Callable[..., Any]) -> Kernel:
+        """Plain Python: numba is disabled.
+
+        Parameters
+        ----------
+        func : callable
+            A kernel.
+
+        Returns
+        -------
+        Kernel
+            ``func`` itself.
+        """
         return func

@@ -18,6 +18,7 @@ from ..errors import PhysicsError
 
 if TYPE_CHECKING:  # pragma: no cover
     from ..equipment import TableSpec
+    from ..files.read import JSONValue
 
 __all__ = ["Physics", "PHYSICS_KEYS", "ball_friction_fit"]
 
@@ -89,7 +90,8 @@ class Physics:
 
     # ---------------------------------------------------------- constructors
     @classmethod
-    def from_dict(cls, data: Any, where: str = "physics", base: Physics | None = None) -> Physics:
+    def from_dict(cls, data: JSONValue, where: str = "physics",
+                  base: Physics | None = None) -> Physics:
         """``base`` (or the defaults) with the fields of ``data`` replaced.
 
         Unknown keys, non-numbers and values out of range raise
@@ -138,7 +140,7 @@ class Physics:
         changes: dict[str, Any] = {k: v for k, v in measured.items() if v is not None}
         return dataclasses.replace(p, **changes)
 
-    def to_dict(self) -> dict[str, Any]:
+    def to_dict(self) -> dict[str, JSONValue]:
         """Every field by name."""
         return {f.name: getattr(self, f.name) for f in fields(self)}
 

@@ -11,7 +11,7 @@ the shot search and the position maps and drills all play through it.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Protocol
 
 import numpy as np
 
@@ -20,10 +20,33 @@ from ..stroke import Stroke
 from .state import EV_COLLISION, EV_CUSHION, EV_POCKET
 
 if TYPE_CHECKING:  # pragma: no cover
+    from ..equipment import TableSpec
     from .params import Physics
     from .simulator import Simulator
 
-__all__ = ["Run", "StrokePlayer"]
+__all__ = ["Run", "StrokePlayer", "BallSetup"]
+
+
+class BallSetup(Protocol):
+    """What the engine needs of a layout: its table, balls, stroke and physics.
+
+    :class:`shotplan.layout.Layout` is one; the engine sits below the layout
+    module and names only this protocol.
+    """
+
+    @property
+    def table(self) -> TableSpec:
+        """The table spec."""
+
+    @property
+    def stroke(self) -> Stroke | None:
+        """The stroke to play, or ``None``."""
+
+    def positions(self) -> dict[str, tuple[float, float]]:
+        """Ball id -> (x, y) in m, in the order the balls are set up."""
+
+    def physics(self) -> Physics:
+        """The physics values to play with."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -153,7 +176,7 @@ class StrokePlayer:
         """Engine runs so far."""
 
     @classmethod
-    def for_layout(cls, layout: Any, physics: Physics | None = None,
+    def for_layout(cls, layout: BallSetup, physics: Physics | None = None,
                    elevation: float = 0.0) -> StrokePlayer:
         """A player for a :class:`shotplan.layout.Layout`'s balls and table."""
         from .simulator import simulator_for  # the compiled engine loads on first use

@@ -15,15 +15,17 @@ from functools import lru_cache
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from ..errors import LayoutError, StrokeError
+from ..files.read import JSONValue
 from ..stroke import Stroke
 from ..table import Table
 from .engine import STATUS_DONE, run_events
 from .jit import jit
 from .motion import state_at
 from .params import Physics
-from .run import Run
+from .run import BallSetup, Run
 from .state import (
     N_PARAMS,
     P_E_B,
@@ -98,7 +100,7 @@ class Event:
     states: tuple[BallState, ...]
     """State right after the event of each ball in ``balls``."""
 
-    def to_dict(self) -> dict[str, Any]:
+    def to_dict(self) -> dict[str, JSONValue]:
         """The event object of the JSON output."""
         d: dict[str, Any] = {
             "t": self.t,
@@ -213,7 +215,8 @@ class Simulator:
                    ev_sa[:n_ev], ev_sb[:n_ev], seg_t[:n_seg], seg_ball[:n_seg],
                    seg_state[:n_seg], seg_pos[:n_seg], seg_vel[:n_seg], seg_om[:n_seg], pos, st)
 
-    def run(self, ids: Sequence[str], positions: Any, stroke: Stroke, cue: str = "cue") -> Outcome:
+    def run(self, ids: Sequence[str], positions: ArrayLike, stroke: Stroke,
+            cue: str = "cue") -> Outcome:
         """Play ``stroke`` on the cue ball with the balls at ``positions``."""
         ids = tuple(ids)
         if cue not in ids:
@@ -229,7 +232,7 @@ def simulator_for(spec: TableSpec, physics: Physics) -> Simulator:
     return Simulator(Table(spec), physics)
 
 
-def simulate(layout: Any, stroke: Stroke | Mapping[str, Any] | None = None,
+def simulate(layout: BallSetup, stroke: Stroke | Mapping[str, JSONValue] | None = None,
              physics: Physics | None = None) -> Outcome:
     """Simulate one stroke on a layout.
 
@@ -347,7 +350,7 @@ class Outcome:
         t, kind, a, b, *_ = self._ev
         for k in range(len(t)):
             if kind[k] == EventKind.COLLISION and i in (a[k], b[k]):
-                return self.ids[b[k] if a[k] == i else a[k]]
+                return self.ids[int(b[k] if a[k] == i else a[k])]
         return None
 
     # ------------------------------------------------------------ states
@@ -359,7 +362,7 @@ class Outcome:
                 for k in range(len(t)) if kind[k] == EventKind.POCKET}
 
     @property
-    def final(self) -> dict[str, dict[str, Any]]:
+    def final(self) -> dict[str, dict[str, JSONValue]]:
         """Where each ball ended: ``{id: {"x", "y", "state", "pocket"}}``;
         ``state`` is ``rest``, ``pocketed``, or (in a run that is not
         complete) ``moving`` for a ball still moving when the run stopped."""
@@ -488,7 +491,7 @@ class Outcome:
         return out
 
     # ---------------------------------------------------------- output
-    def to_dict(self) -> dict[str, Any]:
+    def to_dict(self) -> dict[str, JSONValue]:
         """The ``--json`` output: events and where each ball ended."""
         return {
             "events": [e.to_dict() for e in self.events],
