@@ -51,7 +51,7 @@ KNOWN_PRIVATE: set[tuple[str, str]] = {
 """Private names still imported across modules (module, name)."""
 
 KNOWN_LONG: set[str] = {
-    "cli.study", "render.scene", "study", "view.app",
+    "cli.study", "render.scene", "view.app",
 }
 """Modules still above :data:`MAX_LINES`."""
 
