@@ -5,7 +5,7 @@ of random cases (common practice, no source, unless named):
 
 * contacts: the engine never misses a contact nor reports one that is not
   there, against a brute-force dense scan of the exact trajectories written
-  out here in closed form (solid-sphere sliding then rolling, DESIGN.md;
+  out here in closed form (solid-sphere sliding then rolling, Marlow 1995;
   these closed forms are themselves checked against scipy's ODE integrator in
   tests/reference/test_motion_ode.py);
 * the kinetic energy (translation and spin, I = 2/5 m R^2) never increases
@@ -267,7 +267,7 @@ def test_ball_ball_kernel_energy_and_momentum(v1, v2, w1, w2, ang, e, mu):
 
 # ---------------------------------------------------------------- contacts
 def free_positions(x0, v0, w0, phys: Physics, R: float, t: np.ndarray) -> np.ndarray:
-    """Closed-form centre positions of a lone ball (DESIGN.md): slide with
+    """Closed-form centre positions of a lone ball (Marlow 1995): slide with
     friction mu_s g against the initial slip for 2|u0|/(7 mu_s g), then roll
     with deceleration mu_r g until it stops."""
     g = phys.gravity

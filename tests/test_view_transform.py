@@ -86,7 +86,7 @@ def test_hand_worked_fit():
 
 
 def test_head_end_left_and_the_left_rail_up():
-    # Seen from the head end (DESIGN.md's frame), +x runs toward the foot and
+    # Seen from the head end (the frame of shotplan/table.py's docstring), +x runs toward the foot and
     # +y toward the left: on screen the foot is to the right and the left rail
     # at the top.
     t = Transform.fit((0.0, 0.0, 2.54, 1.27), (0, 0, 1000, 600))

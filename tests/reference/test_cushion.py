@@ -3,8 +3,9 @@
 Sources, beside each check:
 
 * mirror reflection of a smooth, perfectly elastic ball from a wall whose
-  contact is at the ball's centre height (DESIGN.md's requirement; common
-  practice, no source);
+  contact is at the ball's centre height (a smooth wall at the centre height
+  exerts no torque and only reverses the normal speed; common practice, no
+  source);
 * restitution as the ratio of normal speeds (the definition of the
   coefficient; Han 2005 and Mathavan, Jackson & Parkin 2010 use it so);
 * Coulomb friction at the contact during the impact, opposing the slip of the
@@ -94,7 +95,7 @@ def angle_from_normal(vx: float, vy: float) -> float:
 @given(alpha=st.floats(0.0, 89.0), v=st.floats(0.05, 8.0),
        w=st.tuples(st.floats(-200, 200), st.floats(-200, 200), st.floats(-200, 200)))
 def test_mirror_reflection_elastic_smooth_centre_height(alpha, v, w):
-    # DESIGN.md: e = 1, no friction, nose at the centre height -> a mirror,
+    # e = 1, no friction, nose at the centre height -> a mirror (common practice, no source),
     # whatever the spin (a smooth wall exerts no torque).
     vin = incoming(alpha, v)
     vout, wout = kernel(CENTRE_NOSE, vin, w, e=1.0, mu=0.0)

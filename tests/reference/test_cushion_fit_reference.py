@@ -14,7 +14,8 @@ Sources, beside each check:
   Jacobian), and the textbook closed forms of straight-line regression for
   its standard errors;
 * the solid-sphere closed forms of sliding and rolling on the cloth
-  (DESIGN.md: a centre-ball launch slides ``12 v^2 / (49 mu_s g)`` and leaves
+  (Marlow 1995; by hand: the slip falls at 7/2 mu_s g, so a centre-ball launch
+  slides ``2 v / (7 mu_s g)`` s, covers ``12 v^2 / (49 mu_s g)`` and leaves
   at ``5/7 v``; rolling decelerates at ``mu_r g``) for the roll-out model and
   a hand-worked rebound test;
 * the world pool governing body's table specification (WPA): a firm
@@ -264,7 +265,7 @@ def test_standard_errors_match_straight_line_regression():
 @pytest.mark.parametrize("spin,height", [("rolling", 0.4), ("stun", 0.0)])
 @pytest.mark.parametrize("speed", [0.4, 0.9])
 def test_rollout_model_is_the_simulators_motion(spin, height, speed):
-    # The closed forms (DESIGN.md, solid sphere) against a full run along a
+    # The solid-sphere closed forms (Marlow 1995, as in the docstring) against a full run along a
     # long table (6 m, the override's limit) where the ball stops short of
     # the far cushion.
     spec = POOL.with_overrides({"length_m": 6.0, "cloth_rolling_resistance": 0.012,

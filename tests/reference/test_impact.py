@@ -239,7 +239,7 @@ def test_thirty_degree_rule_at_a_half_ball_hit():
 # ------------------------------------------------------------------- throw
 def throw_from_impulse_model(v, phi, e, w_side=0.0, w_roll=0.0):
     """Throw angle (rad) of the object ball, derived from the impulse model
-    (DESIGN.md; the published throw analysis, 2007, has the e = 1 form):
+    (derived by hand below; the published throw analysis, 2007, has the e = 1 form):
 
     normal impulse P = (1 + e)/2 m v cos(phi); slip at the contact: across the
     line of centres, horizontally, v sin(phi) - R w_side (side spin w_z), and

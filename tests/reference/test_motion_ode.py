@@ -1,8 +1,8 @@
 """Ball motion on the cloth against scipy's ODE integrator and closed forms.
 
-Reference 1, closed forms for a solid sphere launched without spin (DESIGN.md
-"Reference values and formulas"; solid-sphere mechanics as in Marlow 1995 and
-Leckie & Greenspan 2005): sliding lasts ``2 |u0| / (7 mu_s g)``, covers
+Reference 1, closed forms for a solid sphere launched without spin
+(solid-sphere mechanics as in Marlow 1995 and Leckie & Greenspan 2005; by
+hand: the slip u falls at 7/2 mu_s g, the speed at mu_s g): sliding lasts ``2 |u0| / (7 mu_s g)``, covers
 ``12 v0^2 / (49 mu_s g)`` and ends at ``5/7 v0``; rolling with constant
 resistance stops after ``v / (mu_r g)`` over ``v^2 / (2 mu_r g)`` (constant
 deceleration kinematics, common practice, no source).
@@ -16,7 +16,7 @@ engine's closed forms:
   acts there, so ``dv/dt = F / m`` and ``dw/dt = (r x F) / I`` with
   ``I = 2/5 m R^2`` (the torque of a force at the contact point);
 * once ``u = 0`` the ball rolls: ``dv/dt = -mu_r g v/|v|`` (rolling
-  resistance as a force on the centre, the model of DESIGN.md) and the
+  resistance as a force on the centre, as Leckie & Greenspan 2005 model it) and the
   rolling constraint ``u = 0`` fixes the horizontal spin;
 * the spin about the vertical feels the spinning-friction torque
   ``mu_sp m g R`` (the meaning of ``Physics.cloth_spin_friction``), i.e.
@@ -228,7 +228,7 @@ def test_swerve_path_is_curved():
 @pytest.mark.parametrize("v0", [0.5, 1.0, 2.0, 3.0])
 @pytest.mark.parametrize("mu_s", [0.15, 0.2, 0.25])
 def test_centre_ball_sliding_closed_forms(v0, mu_s):
-    # DESIGN.md reference values (solid sphere): a centre-ball launch slides
+    # Solid-sphere closed forms (Marlow 1995; by hand, see the docstring): a centre-ball launch slides
     # for 2 v0 / (7 mu_s g), covers 12 v0^2 / (49 mu_s g) and leaves at 5/7 v0.
     phys = Physics(cloth_sliding_friction=mu_s, cloth_rolling_resistance=0.1)
     g = phys.gravity
@@ -244,7 +244,7 @@ def test_centre_ball_sliding_closed_forms(v0, mu_s):
 
 @pytest.mark.parametrize("height", [-0.5, -0.2, 0.1, 0.3])
 def test_sliding_time_with_spin(height):
-    # DESIGN.md: sliding ends after 2 |u0| / (7 mu_s g) for any initial slip;
+    # Sliding ends after 2 |u0| / (7 mu_s g) for any initial slip (by hand: du/dt = -7/2 mu_s g);
     # u0 = v0 - R w_y for a ball launched along +x (slip of the contact point).
     phys = Physics(cloth_rolling_resistance=0.05)  # a short roll-out: no cushion
     out = run_one(Stroke(0.0, 1.5, height=height), phys)

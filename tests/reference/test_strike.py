@@ -1,7 +1,7 @@
 """The cue strike against hand-worked examples and the published model.
 
 Sources: the cue-strike model of Leckie & Greenspan 2005 after Marlow 1995
-(DESIGN.md "Reference values and formulas"): impulse F through the tip
+(as written out here): impulse F through the tip
 contact point Q = (a, -c, b), spin w = Q x F d / I with I = 2/5 m R^2,
 natural roll at b = 2R/5; the cue speed from
 F = (1 + e_tip) m V0 / (1 + m/M + 5/(2R^2)(a^2 + b^2 cos^2 + c^2 sin^2 -
@@ -146,7 +146,7 @@ def test_squirt_hand_worked():
 
 
 def test_squirt_size_at_half_a_tip():
-    # DESIGN.md: a few grams of end mass give 1-3 deg at half a tip of side
+    # A few grams of end mass give 1-3 deg at half a tip of side
     # (published squirt analyses; half a tip taken as 0.2-0.3 R, from memory).
     for side in (0.2, 0.25, 0.3):
         squirt = SIM.launch(Stroke(0.0, 2.0, side=side)).squirt_deg
