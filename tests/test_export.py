@@ -17,14 +17,8 @@ from PIL import Image
 
 from shotplan import InputError, Table, TableSpec
 from shotplan.render.export import Page, render_png_bytes, write_pages, write_scene
-from shotplan.render.scene import (
-    CircleShape,
-    PolylineShape,
-    Scene,
-    TextShape,
-    layout_scene,
-    table_scene,
-)
+from shotplan.render.scene import CircleShape, PolylineShape, Scene, TextShape
+from shotplan.render.table_shapes import layout_scene, table_scene
 
 # PNG signature and IHDR layout: the PNG specification (W3C / ISO 15948), 5.2 and 11.2.2.
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"

@@ -45,13 +45,12 @@ house is in order."""
 
 KNOWN_PRIVATE: set[tuple[str, str]] = {
     ("cli.cushion", "_emit_json"), ("cli.drills", "_emit_json"), ("cli.drills", "_int_in"),
-    ("cli.drills", "_playable"), ("cli.drills", "_check_folder"), ("cli.study", "_emit_json"),
-    ("render.sheet", "_draw_scene"), ("render.sheet", "_wrap"), ("render.sheet", "_METADATA"),
+    ("cli.drills", "_playable"), ("cli.study", "_emit_json"),
 }
 """Private names still imported across modules (module, name)."""
 
 KNOWN_LONG: set[str] = {
-    "cli.study", "render.scene", "view.app",
+    "cli.study", "view.app",
 }
 """Modules still above :data:`MAX_LINES`."""
 

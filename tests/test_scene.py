@@ -1,4 +1,5 @@
-"""Tests of shotplan.render.scene: the table and the balls as backend-free shapes."""
+"""Tests of the scene modules of shotplan.render (scene, palette, table_shapes, overlays,
+captions): the table and the balls as backend-free shapes."""
 
 from __future__ import annotations
 
@@ -12,8 +13,9 @@ from numpy.testing import assert_allclose
 from shapely.geometry import Polygon
 
 from shotplan import InputError, Table, TableSpec
+from shotplan.render.overlays import ghost_ball_shape, marker_shape, path_shapes, window_shape
+from shotplan.render.palette import BALL_COLOURS
 from shotplan.render.scene import (
-    BALL_COLOURS,
     CircleShape,
     Layer,
     PolygonShape,
@@ -23,13 +25,8 @@ from shotplan.render.scene import (
     WedgeShape,
     arrow_head,
     figure_size,
-    ghost_ball_shape,
-    layout_scene,
-    marker_shape,
-    path_shapes,
-    table_scene,
-    window_shape,
 )
+from shotplan.render.table_shapes import layout_scene, table_scene
 from shotplan.units import inches, mm
 
 PRESETS = ("pool-9ft", "pool-8ft", "pool-7ft", "snooker", "carom")
@@ -399,7 +396,8 @@ def test_scene_imports_no_backend():
     import subprocess
     import sys
 
-    code = ("import sys, shotplan.render.scene; "
+    code = ("import sys, shotplan.render.scene, shotplan.render.palette, "
+            "shotplan.render.table_shapes, shotplan.render.overlays, shotplan.render.captions; "
             "print(sorted(m for m in ('matplotlib', 'pygame') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "[]"
@@ -413,7 +411,7 @@ DEMO_LAYOUTS = sorted((__import__("pathlib").Path(__file__).resolve().parent.par
 
 def _wcag_luminance(colour: str) -> float:
     # WCAG 2.1, definition of relative luminance (sRGB), written out here
-    # independently of shotplan.render.scene.
+    # independently of shotplan.render.palette.
     def lin(c: int) -> float:
         v = c / 255
         return v / 12.92 if v <= 0.04045 else ((v + 0.055) / 1.055) ** 2.4
@@ -427,7 +425,7 @@ def _wcag_contrast(a: str, b: str) -> float:
 
 
 def test_contrast_ratio_against_wcag_values():
-    from shotplan.render.scene import contrast_ratio
+    from shotplan.render.palette import contrast_ratio
 
     # WCAG 2.1: black on white is 21:1, a colour on itself 1:1 (by the definition);
     # #767676 on white is the palest grey that passes 4.5:1 (from memory: 4.54).
@@ -440,7 +438,7 @@ def test_contrast_ratio_against_wcag_values():
 @pytest.mark.parametrize("style", ["print", "colour"])
 def test_combination_paths_differ_in_colour_and_pattern(style):
     # Issue 11: the 1 and the 9 (the same yellow) got the same path.
-    from shotplan.render.scene import path_looks
+    from shotplan.render.palette import path_looks
 
     lines = path_shapes({"cue": [(0.5, 0.5), (1.0, 0.5)], "1": [(1.1, 0.5), (1.6, 0.5)],
                          "9": [(1.7, 0.5), (2.2, 0.6)]}, style=style)
@@ -461,7 +459,7 @@ def test_combination_paths_differ_in_colour_and_pattern(style):
 def test_every_path_shows_on_the_cloth(game, style):
     # WCAG 2.1 success criterion 1.4.11: graphics need 3:1 against what is
     # next to them. Issue 11: the black's path vanished on the snooker green.
-    from shotplan.render.scene import CLOTH_COLOURS, PRINT_CLOTH, path_looks
+    from shotplan.render.palette import CLOTH_COLOURS, PRINT_CLOTH, path_looks
 
     cloth = PRINT_CLOTH if style == "print" else CLOTH_COLOURS[game]
     ids = ["cue", *(b for b in BALL_COLOURS if b != "cue")]
@@ -477,7 +475,7 @@ def test_every_path_shows_on_the_cloth(game, style):
 
 
 def test_print_palette_is_the_published_colour_blind_set():
-    from shotplan.render.scene import PRINT_PATH_COLOURS
+    from shotplan.render.palette import PRINT_PATH_COLOURS
 
     # Okabe and Ito, "Color Universal Design" (2002, 2008), the seven colours
     # besides black (values from memory): vermillion, blue, bluish green,
@@ -495,7 +493,7 @@ def test_pattern_values_are_checked():
 
 
 def test_clip_polyline_by_hand():
-    from shotplan.render.scene import clip_polyline, play_region
+    from shotplan.render.overlays import clip_polyline, play_region
 
     table = Table(TableSpec.preset("pool-9ft"))
     line = PolylineShape([(0.5, 0.5), (3.0, 0.5)], arrow=True)
@@ -547,7 +545,7 @@ def test_every_demo_shot_stays_on_the_table(demo_shots, style):
     # rubber and the rail widths). Paths and windows: the cloth inside the
     # noses plus each pocket's throat and hole (the table's own shapes), 1 mm
     # allowed for polygonal arcs.
-    from shotplan.render.scene import shot_scene
+    from shotplan.render.overlays import shot_scene
 
     for name, layout, shot, outcome in demo_shots:
         table = layout.geometry
@@ -568,7 +566,7 @@ def test_every_demo_shot_stays_on_the_table(demo_shots, style):
 
 def test_kick_window_ends_at_the_first_cushion(demo_shots):
     # The repro of issue 11: club night 2, --shot 3, a kick off the left rail.
-    from shotplan.render.scene import shot_scene
+    from shotplan.render.overlays import shot_scene
 
     kicks = [(lay, shot, out) for name, lay, shot, out in demo_shots
              if name == "club-night-2-cut-to-corner.json" and shot.kind == "kick"]
@@ -591,7 +589,7 @@ def test_kick_window_ends_at_the_first_cushion(demo_shots):
 
 
 def test_print_table_is_a_drawing_to_scale():
-    from shotplan.render.scene import PRINT_CLOTH, contrast_ratio
+    from shotplan.render.palette import PRINT_CLOTH, contrast_ratio
 
     table = Table(TableSpec.preset("pool-9ft"))
     scene = table_scene(table, style="print")
@@ -662,7 +660,7 @@ class StandInShot:
 
 
 def test_shot_caption_says_speed_tip_and_rail():
-    from shotplan.render.scene import shot_caption
+    from shotplan.render.captions import shot_caption
 
     # Speed word: 2.95 m/s lies in the 'fast' band (2.2 to 3.6 m/s, shotplan's
     # reading of the trade's words, common practice, no source).

@@ -16,7 +16,8 @@ from test_view import display, drag, pump  # noqa: F401 - display: the same head
 
 from shotplan.equipment import TableSpec
 from shotplan.layout import Layout, load_layout
-from shotplan.render.scene import BALL_COLOURS, STRIPE_IDS, TextShape
+from shotplan.render.palette import BALL_COLOURS, STRIPE_IDS
+from shotplan.render.scene import TextShape
 from shotplan.search import find_shots
 from shotplan.view.app import App
 from shotplan.view.layers import _HALO, path_styles, shown_positions

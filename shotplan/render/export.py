@@ -1,20 +1,25 @@
-"""Scenes to files: PNG, SVG and PDF with matplotlib, plus multi-page PDF sheets.
+"""The one figure writer: scenes and charts to PNG, SVG and PDF with matplotlib.
 
-Every figure is a :class:`matplotlib.figure.Figure` on the Agg canvas, never
-pyplot's global state, so rendering is headless and safe from several
-threads. Exactly the shapes of the scene are drawn, in layer order, with equal
-aspect and no axes; the title goes above the table and the note below it, and
-every size given in mm of table is turned into points by the figure's scale.
+Every figure of shotplan is made here (:func:`new_figure`): a
+:class:`matplotlib.figure.Figure` on the Agg canvas, never pyplot's global
+state, so rendering is headless and safe from several threads. Scenes are
+drawn by :func:`render_figure` (one scene), :func:`write_pages` (a scene a
+page) or :func:`draw_scene` (into an axes of a page laid out elsewhere, the
+drill sheet); charts draw on a :func:`new_figure` themselves. Exactly the
+shapes of the scene are drawn, in layer order, with equal aspect and no
+axes; the title goes above the table and the note below it, and every size
+given in mm of table is turned into points by the figure's scale.
 
-Files are rendered in memory and written through
-:func:`shotplan.files.write.atomic_write_bytes`: a failed write
-leaves an old file untouched. SVG and PDF carry no creation date, so the same
-scene gives the same bytes.
+Files are rendered in memory (:func:`figure_bytes`, :func:`pdf_bytes`) and
+written through :func:`shotplan.files.write.atomic_write_bytes`
+(:func:`write_scene`, :func:`write_figures`, :func:`write_pages`): a failed
+write leaves an old file untouched. SVG and PDF carry no creation date, so
+the same scene gives the same bytes.
 
 Examples
 --------
 >>> from shotplan import Table, TableSpec
->>> from shotplan.render.scene import table_scene
+>>> from shotplan.render.table_shapes import table_scene
 >>> write_scene(table_scene(Table(TableSpec.preset("carom"))), "/tmp/carom.svg")  # doctest: +SKIP
 """
 
@@ -41,6 +46,7 @@ from matplotlib.textpath import TextToPath
 
 from ..errors import InputError
 from ..files.write import atomic_write_bytes, check_output_path
+from .palette import INK, PAPER
 from .scene import (
     ANCHORS,
     CircleShape,
@@ -61,6 +67,10 @@ __all__ = [
     "render_png_bytes",
     "render_figure",
     "new_figure",
+    "draw_scene",
+    "wrap_text",
+    "figure_bytes",
+    "pdf_bytes",
     "write_figures",
     "DEFAULT_WIDTH_IN",
     "A4_PORTRAIT_IN",
@@ -85,13 +95,11 @@ MAX_PIXELS = 100_000_000
 while it is drawn. A 10 inch print-style drawing of a 9 ft table with a
 two-line caption stays under it up to about 1180 dpi."""
 
-_INK = "#1b1b1b"
-_PAPER = "#ffffff"
 _POINTS_PER_INCH = 72.0
 _PAGE_MARGIN_IN = 0.6
 _PAGE_LINE_PT = 10.0
 
-# Metadata without dates or versions, so that a scene always gives the same bytes.
+# Metadata without dates or versions, so that a figure always gives the same bytes.
 _METADATA: dict[str, dict[str, Any]] = {
     "png": {"Software": "shotplan"},
     "svg": {"Date": None, "Creator": "shotplan"},
@@ -154,10 +162,29 @@ _NOTE_SPACING = 1.4
 _LINE_SPACING = 1.5
 
 
-def _wrap(text: str, size_pt: float, width_pt: float, bold: bool = False) -> list[str]:
-    """``text`` broken into lines no wider than ``width_pt`` (at word breaks;
-    a single word wider than that stays whole). Widths come from the font's
-    own metrics, so the layout does not depend on a renderer."""
+def wrap_text(text: str, size_pt: float, width_pt: float, bold: bool = False) -> list[str]:
+    """``text`` broken into lines no wider than ``width_pt``.
+
+    Lines break at spaces and at each newline; a single word wider than the
+    width stays whole. Widths come from the font's own metrics (matplotlib's
+    default face), so the layout does not depend on a renderer.
+
+    Parameters
+    ----------
+    text : str
+        The text; empty gives no lines.
+    size_pt : float
+        Font size, points.
+    width_pt : float
+        The widest a line may be, points.
+    bold : bool
+        Measure the bold face.
+
+    Returns
+    -------
+    list of str
+        The lines, in order.
+    """
     if not text:
         return []
     prop = FontProperties(size=size_pt, weight="bold" if bold else "normal")
@@ -190,8 +217,8 @@ class _Texts:
         title_pt = scene.title_mm() / 1000.0 * pt_per_m
         note_pt = scene.note_mm() / 1000.0 * pt_per_m
         width_pt = 0.94 * width_in * _POINTS_PER_INCH
-        return cls(title_pt, note_pt, _wrap(scene.title, title_pt, width_pt, bold=True),
-                   _wrap(scene.note, note_pt, width_pt))
+        return cls(title_pt, note_pt, wrap_text(scene.title, title_pt, width_pt, bold=True),
+                   wrap_text(scene.note, note_pt, width_pt))
 
     @property
     def title_in(self) -> float:
@@ -210,13 +237,13 @@ class _Texts:
     def draw_title(self, fig: Figure, x: float, y_mid: float) -> None:
         if self.title:
             fig.text(x, y_mid, "\n".join(self.title), ha="center", va="center",
-                     fontsize=self.title_pt, fontweight="bold", color=_INK,
+                     fontsize=self.title_pt, fontweight="bold", color=INK,
                      linespacing=_TITLE_SPACING)
 
     def draw_note(self, fig: Figure, x: float, y_top: float) -> None:
         if self.note:
             fig.text(x, y_top, "\n".join(self.note), ha="center", va="top",
-                     fontsize=self.note_pt, color=_INK, linespacing=_NOTE_SPACING)
+                     fontsize=self.note_pt, color=INK, linespacing=_NOTE_SPACING)
 
 
 def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None, *,
@@ -242,10 +269,9 @@ def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None,
     w_px = round(w_in * dpi)
     if max_pixels_for is not None:
         _check_pixels(w_px, total_px, dpi, max_pixels_for)
-    fig = Figure(figsize=(w_px / dpi, total_px / dpi), dpi=dpi, facecolor=_PAPER)
-    FigureCanvasAgg(fig)
+    fig = new_figure((w_px / dpi, total_px / dpi), dpi)
     ax = fig.add_axes((0.0, note_px / total_px, 1.0, axes_px / total_px))
-    _draw_scene(ax, scene, pt_per_m)
+    draw_scene(ax, scene, pt_per_m)
     texts.draw_title(fig, 0.5, 1.0 - 0.5 * title_px / total_px)
     texts.draw_note(fig, 0.5, (note_px - 0.4 * texts.note_pt / _POINTS_PER_INCH * dpi) / total_px)
     return fig
@@ -261,7 +287,7 @@ def _page_figure(page: Page, size_in: tuple[float, float]) -> Figure:
 
     def lines_at(size_pt: float) -> tuple[list[str], float]:
         wrapped = [s for line in page.lines
-                   for s in (_wrap(line, size_pt, usable_w * _POINTS_PER_INCH) or [""])]
+                   for s in (wrap_text(line, size_pt, usable_w * _POINTS_PER_INCH) or [""])]
         height = (_LINE_SPACING * len(wrapped) + 0.5) * size_pt / _POINTS_PER_INCH
         return wrapped, (height if wrapped else 0.0)
 
@@ -280,26 +306,41 @@ def _page_figure(page: Page, size_in: tuple[float, float]) -> Figure:
             line_pt = float(size)
             if lines_in <= spare:
                 break
-    fig = Figure(figsize=size_in, facecolor=_PAPER)
-    FigureCanvasAgg(fig)
+    fig = new_figure(size_in)
     top = page_h - _PAGE_MARGIN_IN
     texts.draw_title(fig, 0.5, (top - 0.5 * texts.title_in) / page_h)
     top -= texts.title_in
     left = (page_w - width) / 2
     ax = fig.add_axes((left / page_w, (top - diagram_in) / page_h, width / page_w,
                        diagram_in / page_h))
-    _draw_scene(ax, scene, pt_per_m)
+    draw_scene(ax, scene, pt_per_m)
     top -= diagram_in
     texts.draw_note(fig, 0.5, (top - 0.4 * texts.note_pt / _POINTS_PER_INCH) / page_h)
     top -= texts.note_in
     if lines:
         fig.text(_PAGE_MARGIN_IN / page_w, (top - 0.5 * line_pt / _POINTS_PER_INCH) / page_h,
-                 "\n".join(lines), ha="left", va="top", fontsize=line_pt, color=_INK,
+                 "\n".join(lines), ha="left", va="top", fontsize=line_pt, color=INK,
                  linespacing=_LINE_SPACING)
     return fig
 
 
-def _draw_scene(ax: Axes, scene: Scene, pt_per_m: float) -> None:
+def draw_scene(ax: Axes, scene: Scene, pt_per_m: float) -> None:
+    """Draw exactly the shapes of ``scene`` into ``ax``, in layer order.
+
+    The axes are set to the scene's bounds with equal aspect and no axis
+    lines; the scene's title and note are not drawn (the figure around the
+    axes places them, see :func:`render_figure`).
+
+    Parameters
+    ----------
+    ax : Axes
+        The axes to draw into, sized by the caller to the bounds' aspect.
+    scene : Scene
+        What to draw.
+    pt_per_m : float
+        Points of paper per metre of table: turns the shapes' sizes in mm of
+        table into line widths and font sizes.
+    """
     xmin, ymin, xmax, ymax = scene.bounds
     ax.set_xlim(xmin, xmax)
     ax.set_ylim(ymin, ymax)
@@ -426,28 +467,76 @@ def write_scene(
                         max_pixels_for=str(path) if fmt == "png" else None)
     # Rendered in memory first: the temporary file appears only when the
     # bytes are ready, so a kill while drawing leaves nothing behind.
-    buf = io.BytesIO()
-    fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=_PAPER)
-    atomic_write_bytes(p, buf.getvalue())
+    atomic_write_bytes(p, figure_bytes(fig, fmt, dpi))
     return p
 
 
-def new_figure(size_in: tuple[float, float]) -> Figure:
-    """An empty white figure on the Agg canvas (never pyplot), for a chart.
+def new_figure(size_in: tuple[float, float], dpi: float | None = None) -> Figure:
+    """An empty white figure on the Agg canvas (never pyplot): every figure
+    of shotplan starts here, charts and drill pages as well as scenes.
 
     Parameters
     ----------
     size_in : (float, float)
         Width and height, inches.
+    dpi : float, optional
+        The figure's own pixels per inch (matplotlib's default when not
+        given); a file's dpi is given when it is written.
 
     Returns
     -------
     Figure
-        Ready for ``add_subplot``; write it with :func:`write_figures`.
+        Ready for ``add_subplot`` or ``add_axes``; write it with
+        :func:`write_figures` or turn it into bytes with :func:`figure_bytes`.
     """
-    fig = Figure(figsize=size_in, facecolor=_PAPER)
+    fig = Figure(figsize=size_in, facecolor=PAPER) if dpi is None else \
+        Figure(figsize=size_in, dpi=dpi, facecolor=PAPER)
     FigureCanvasAgg(fig)
     return fig
+
+
+def figure_bytes(fig: Figure, fmt: str, dpi: float = 150) -> bytes:
+    """One figure as the bytes of a PNG, SVG or PDF file, without dates.
+
+    Parameters
+    ----------
+    fig : Figure
+        Made by :func:`new_figure`.
+    fmt : str
+        ``png``, ``svg`` or ``pdf`` (the values of :data:`FORMATS`).
+    dpi : float
+        Pixels per inch of a PNG (and of raster parts of the others).
+
+    Returns
+    -------
+    bytes
+        The same figure gives the same bytes.
+    """
+    if fmt not in _METADATA:
+        raise InputError(f"format {fmt!r} is not one of {', '.join(_METADATA)}")
+    buf = io.BytesIO()
+    fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=PAPER)
+    return buf.getvalue()
+
+
+def pdf_bytes(figures: Iterable[Figure]) -> bytes:
+    """Figures as the pages of one PDF, in order, without dates.
+
+    Parameters
+    ----------
+    figures : iterable of Figure
+        The pages; each keeps its own size.
+
+    Returns
+    -------
+    bytes
+        The PDF file's bytes.
+    """
+    buf = io.BytesIO()
+    with PdfPages(buf, metadata=_METADATA["pdf"]) as pdf:
+        for fig in figures:
+            pdf.savefig(fig, facecolor=PAPER)
+    return buf.getvalue()
 
 
 def write_figures(figures: Sequence[Figure], path: str | os.PathLike[str],
@@ -481,24 +570,17 @@ def write_figures(figures: Sequence[Figure], path: str | os.PathLike[str],
         raise InputError(f"{str(p)!r}: no figure to write")
     if len(figures) > 1 and fmt != "pdf":
         raise InputError(f"{str(p)!r}: several pages need a .pdf file")
-    buf = io.BytesIO()  # the bytes first, then the file: nothing half-made on disk
-    if len(figures) > 1:
-        with PdfPages(buf, metadata=_METADATA["pdf"]) as pdf:
-            for fig in figures:
-                pdf.savefig(fig, facecolor=_PAPER)
-    else:
-        figures[0].savefig(buf, format=fmt, dpi=_check_dpi(dpi), metadata=_METADATA[fmt],
-                           facecolor=_PAPER)
-    atomic_write_bytes(p, buf.getvalue())
+    # The bytes first, then the file: nothing half-made on disk.
+    data = pdf_bytes(figures) if len(figures) > 1 else figure_bytes(figures[0], fmt,
+                                                                       _check_dpi(dpi))
+    atomic_write_bytes(p, data)
     return p
 
 
 def render_png_bytes(scene: Scene, dpi: float = 100, width_in: float | None = None) -> bytes:
     """The PNG of ``scene`` as bytes (for tests and the table view)."""
     fig = render_figure(scene, dpi=dpi, width_in=width_in, max_pixels_for="PNG")
-    buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=dpi, metadata=_METADATA["png"], facecolor=_PAPER)
-    return buf.getvalue()
+    return figure_bytes(fig, "png", dpi)
 
 
 def write_pages(
@@ -529,10 +611,5 @@ def write_pages(
     w, h = (float(v) for v in page_size_in)
     if not (math.isfinite(w) and math.isfinite(h) and 2.0 <= w <= 100 and 2.0 <= h <= 100):
         raise InputError(f"page_size_in: {page_size_in!r} must be two sizes from 2 to 100 in")
-    figures = [_page_figure(item, (w, h)) for item in items]
-    buf = io.BytesIO()
-    with PdfPages(buf, metadata=_METADATA["pdf"]) as pdf:
-        for fig in figures:
-            pdf.savefig(fig, facecolor=_PAPER)
-    atomic_write_bytes(p, buf.getvalue())
+    atomic_write_bytes(p, pdf_bytes(_page_figure(item, (w, h)) for item in items))
     return p

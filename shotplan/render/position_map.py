@@ -12,17 +12,8 @@ import math
 
 from ..position import RESULTS, PositionMap, Zone
 from ..search import pocket_target
-from .scene import (
-    CircleShape,
-    Layer,
-    PolygonShape,
-    PolylineShape,
-    Scene,
-    Shape,
-    TextShape,
-    layout_scene,
-    polygon_shapes,
-)
+from .scene import CircleShape, Layer, PolygonShape, PolylineShape, Scene, Shape, TextShape, polygon_shapes
+from .table_shapes import layout_scene
 
 __all__ = ["height_colour", "zone_shapes", "position_scene"]
 
@@ -35,7 +26,20 @@ _STUN = "#7fe0d8"  # the stun row: a pale teal, apart from the scale
 
 def height_colour(height: float, limit: float) -> str:
     """The colour of a tip height on the position map: blue (draw) through
-    gold (centre) to red (follow), by the height's share of the miscue limit."""
+    gold (centre) to red (follow), by the height's share of the miscue limit.
+
+    Parameters
+    ----------
+    height
+        Tip height, ball radii.
+    limit
+        The miscue limit, ball radii.
+
+    Returns
+    -------
+    str
+        ``#rrggbb``.
+    """
     t = max(-1.0, min(1.0, height / limit if limit > 0 else 0.0))
     a, b = (_MID, _DRAW) if t < 0 else (_MID, _FOLLOW)
     u = abs(t)
@@ -58,9 +62,22 @@ def _marker(centre: tuple[float, float], r: float, side: float, fill: str, layer
 
 
 def zone_shapes(zone: Zone, style: str = "colour") -> list[Shape]:
-    """The zone as scene shapes: a translucent gold area with a solid edge
-    (``print`` style: a pale amber area with a dark dashed edge, which reads
-    on white paper and in greyscale)."""
+    """The zone as scene shapes.
+
+    Parameters
+    ----------
+    zone
+        The zone.
+    style
+        ``colour``: a translucent gold area with a solid edge; ``print``: a
+        pale amber area with a dark dashed edge, which reads on white paper
+        and in greyscale.
+
+    Returns
+    -------
+    list of Shape
+        The area and its edge.
+    """
     geom = zone.geometry
     out: list[Shape] = []
     if style == "print":
@@ -77,14 +94,30 @@ def zone_shapes(zone: Zone, style: str = "colour") -> list[Shape]:
 
 def position_scene(pmap: PositionMap, title: str | None = None, note: str | None = None,
                    style: str = "print") -> Scene:
-    """The position map as a :class:`shotplan.render.scene.Scene`: the layout, the
-    object ball's line to the pocket, the zone, and every finish of a setting
-    that pocketed the ball as a mark coloured by tip height (see
-    :func:`height_colour`; the stun row in teal), bigger for faster speeds,
-    a circle without side, a square with left and a diamond with right
-    english; the finishes of one height and side are joined in speed order,
-    so the draw, stun and follow lines show. Settings that reached the zone
-    are ringed. A legend strip is added under the table."""
+    """The position map as a scene.
+
+    The layout, the object ball's line to the pocket, the zone, and every
+    finish of a setting that pocketed the ball as a mark coloured by tip
+    height (see :func:`height_colour`; the stun row in teal), bigger for
+    faster speeds, a circle without side, a square with left and a diamond
+    with right english; the finishes of one height and side are joined in
+    speed order, so the draw, stun and follow lines show. Settings that
+    reached the zone are ringed. A legend strip is added under the table.
+
+    Parameters
+    ----------
+    pmap
+        From :func:`shotplan.position.position_map`.
+    title, note
+        The scene's title and note; by default the shot and the counts.
+    style
+        ``print`` (default) or ``colour``.
+
+    Returns
+    -------
+    Scene
+        Ready for :func:`shotplan.render.export.write_scene`.
+    """
     lay = pmap.layout
     table = lay.geometry
     R = table.ball_radius

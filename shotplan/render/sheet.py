@@ -33,7 +33,6 @@ from __future__ import annotations
 
 import contextlib
 import hashlib
-import io
 import math
 import os
 import secrets
@@ -44,17 +43,17 @@ from typing import TYPE_CHECKING, Any
 
 from matplotlib import patches
 from matplotlib.axes import Axes
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 
 from ..errors import InputError
 from ..files.write import atomic_write_bytes, check_output_path
 from ..players import MISCUE_FLAG_RATE, PlayerErrors, tip_room
 from ..stroke import speed_word
+from .export import draw_scene, figure_bytes, new_figure, pdf_bytes, wrap_text
 
 if TYPE_CHECKING:
-    from ..drills import DrillResult, StationResult
+    from ..drills import DrillResult, StationPlan, StationResult
+    from ..physics import Physics
 
 __all__ = [
     "MARKER",
@@ -66,7 +65,9 @@ __all__ = [
     "speed_words",
     "page_figure",
     "stations_folder",
+    "check_stations_folder",
     "write_sheet_files",
+    "sheet_figures",
 ]
 
 MARKER = "written-by-shotplan.txt"
@@ -83,13 +84,30 @@ _FONT = 8.5
 
 
 # ------------------------------------------------------------------ speed
-def roll_distance(speed_mps: float, height: float, physics: Any, elevation_deg: float = 0.0
-                  ) -> float:
-    """How far a cue ball struck alone at ``speed_mps`` with the tip at
-    ``height`` (ball radii, + follow) travels before it stops, m, on an
-    endless cloth (see the module docstring). The strike gives the ball a
-    spin ``w0 = 5 v0 h / (2 R)`` about the horizontal (the same law as
-    :func:`shotplan.stroke.tip_height`); a raised cue is treated as level."""
+def roll_distance(speed_mps: float, height: float, physics: Physics,
+                  elevation_deg: float = 0.0) -> float:
+    """How far a cue ball struck alone travels before it stops, on an endless
+    cloth (see the module docstring).
+
+    The strike gives the ball a spin ``w0 = 5 v0 h / (2 R)`` about the
+    horizontal (the same law as :func:`shotplan.stroke.tip_height`).
+
+    Parameters
+    ----------
+    speed_mps : float
+        Launch speed, m/s, 0 or more.
+    height : float
+        Tip height, ball radii, + follow, - draw.
+    physics : Physics
+        Gravity and the cloth's sliding friction and rolling resistance.
+    elevation_deg : float
+        The cue's elevation; a raised cue is treated as level.
+
+    Returns
+    -------
+    float
+        Distance, m.
+    """
     v0 = float(speed_mps)
     if not math.isfinite(v0) or v0 < 0.0:
         raise InputError(f"speed {speed_mps!r} must be a number, 0 or more m/s")
@@ -106,8 +124,22 @@ def roll_distance(speed_mps: float, height: float, physics: Any, elevation_deg: 
     return d_s + v1 * v1 / (2.0 * mu_r * g)
 
 
-def speed_words(speed_mps: float, height: float, physics: Any, table_length_m: float) -> str:
-    """``medium (2.0 m/s): alone, the cue ball would roll 6.1 m, 2.4 table lengths``."""
+def speed_words(speed_mps: float, height: float, physics: Physics, table_length_m: float) -> str:
+    """A speed in a player's words and as a distance rolled alone.
+
+    Parameters
+    ----------
+    speed_mps, height, physics
+        As for :func:`roll_distance`.
+    table_length_m : float
+        The table's playing length, m.
+
+    Returns
+    -------
+    str
+        For example ``medium (2.0 m/s): alone, the cue ball would roll
+        6.1 m, 2.4 table lengths``.
+    """
     d = roll_distance(speed_mps, height, physics)
     return (f"{speed_word(speed_mps)} ({speed_mps:.1f} m/s): alone, the cue ball would roll "
             f"{d:.1f} m, {d / table_length_m:.1f} table lengths")
@@ -163,10 +195,21 @@ def _rail_words(table: Any, point: tuple[float, float]) -> tuple[str, float, str
     return rail, along, "the head rail"
 
 
-def aim_picture(plan: Any) -> AimPicture:
-    """The aim of a planned station (:class:`shotplan.drills.StationPlan`),
-    from the stroke actually played (its direction includes the throw and
-    squirt corrections) and the unperturbed run."""
+def aim_picture(plan: StationPlan) -> AimPicture:
+    """The aim of a planned station, from the stroke actually played (its
+    direction includes the throw and squirt corrections) and the
+    unperturbed run.
+
+    Parameters
+    ----------
+    plan : StationPlan
+        The station with its stroke and its run.
+
+    Returns
+    -------
+    AimPicture
+        For a bank or a kick, also the rail met first and its diamond.
+    """
     st = plan.station
     lay = st.layout
     table = lay.geometry
@@ -204,7 +247,18 @@ def aim_picture(plan: Any) -> AimPicture:
 
 
 def aim_words(pic: AimPicture) -> list[str]:
-    """The aim in a player's terms, one or two sentences."""
+    """The aim in a player's terms.
+
+    Parameters
+    ----------
+    pic : AimPicture
+        From :func:`aim_picture`.
+
+    Returns
+    -------
+    list of str
+        One or two sentences.
+    """
     from ..aim import overlap_word
 
     mm = 1000.0 * abs(pic.offset_m)
@@ -437,8 +491,28 @@ def _draw_key(fig: Figure, box: tuple[float, float, float, float], size: tuple[f
 def page_figure(result: StationResult, k: int, n: int, title: str,
                 levels: Sequence[tuple[PlayerErrors, StationResult]], attempts: int,
                 size_in: tuple[float, float] = A4_IN) -> Figure:
-    """Station ``k`` (from 1) of ``n`` as one page."""
-    from .export import _draw_scene
+    """One station as one page of the sheet (see the module docstring).
+
+    Parameters
+    ----------
+    result : StationResult
+        The station's plan and rates at the sheet's own level.
+    k, n : int
+        The station's number (from 1) and the number of stations.
+    title : str
+        The drill's title, printed at the top.
+    levels : sequence of (PlayerErrors, StationResult)
+        The rates at each level, side by side in the rates panel.
+    attempts : int
+        Boxes in the tally.
+    size_in : (float, float)
+        Page size, inches (default A4 portrait).
+
+    Returns
+    -------
+    Figure
+        Made by :func:`shotplan.render.export.new_figure`.
+    """
     from .stations import station_lines, station_scene
 
     w, h = size_in
@@ -449,8 +523,7 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
     table = lay.geometry
     phys = plan.physics
     own = result.errors
-    fig = Figure(figsize=size_in, facecolor="white")
-    FigureCanvasAgg(fig)
+    fig = new_figure(size_in)
     top = h - _MARGIN
     fig.text(_MARGIN / w, top / h, title, fontsize=9, color=_INK, va="top")
     top -= 0.22
@@ -472,7 +545,7 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
     diagram_w = diagram_h * scene.width_m / scene.height_m
     ax = fig.add_axes(((w - diagram_w) / 2 / w, (top - diagram_h) / h, diagram_w / w,
                        diagram_h / h))
-    _draw_scene(ax, scene, diagram_w / scene.width_m * 72.0)
+    draw_scene(ax, scene, diagram_w / scene.width_m * 72.0)
     top -= diagram_h + 0.3
     # Aim, tip, speed.
     pw = (usable_w - 0.4) / 3
@@ -494,9 +567,7 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
              f"Tip: {plan.words().split(', ', 1)[1]} ({s.side:+.2f} R side, "
              f"{s.height:+.2f} R height).",
              *station_lines(result, brief=True)]
-    from .export import _wrap
-
-    wrapped = [x for line in words for x in (_wrap(line, _FONT, usable_w * 72.0) or [""])]
+    wrapped = [x for line in words for x in (wrap_text(line, _FONT, usable_w * 72.0) or [""])]
     fig.text(_MARGIN / w, top / h, "\n".join(wrapped), fontsize=_FONT, color=_INK, va="top",
              linespacing=1.35)
     top -= len(wrapped) * _FONT * 1.35 / 72.0 + 0.25
@@ -513,7 +584,18 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
 
 # ------------------------------------------------------------------- files
 def stations_folder(pdf: Path) -> Path:
-    """The folder beside ``X.pdf`` that holds its station pictures: ``X-stations``."""
+    """The folder beside ``X.pdf`` that holds its station pictures.
+
+    Parameters
+    ----------
+    pdf : Path
+        The sheet, ``X.pdf``.
+
+    Returns
+    -------
+    Path
+        ``X-stations`` beside it.
+    """
     return pdf.with_name(f"{pdf.stem}-stations")
 
 
@@ -521,7 +603,19 @@ def _ours(folder: Path) -> bool:
     return folder.is_dir() and not folder.is_symlink() and (folder / MARKER).is_file()
 
 
-def _check_folder(folder: Path) -> None:
+def check_stations_folder(folder: Path) -> None:
+    """Refuse to write over a stations folder shotplan did not write.
+
+    Parameters
+    ----------
+    folder : Path
+        The folder (see :func:`stations_folder`).
+
+    Raises
+    ------
+    InputError
+        ``folder`` is a link, or exists without the :data:`MARKER` file.
+    """
     if folder.is_symlink() or (folder.exists() and not _ours(folder)):
         raise InputError(f"{folder}: exists and was not written by shotplan (it has no "
                          f"{MARKER}); move it away or choose another -o name")
@@ -538,12 +632,30 @@ def _clean_stale(folder: Path) -> None:
 def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str],
                       dpi: float = 150) -> list[Path]:
     """Write the pages as ``X.pdf`` and ``X-stations/station-K.png`` (see the
-    module docstring). Returns the PDF and the PNGs written."""
-    from .export import _METADATA
+    module docstring).
 
+    Parameters
+    ----------
+    figures : sequence of Figure
+        The pages (:func:`sheet_figures`).
+    pdf_path : str or path-like
+        ``X.pdf``; its folder must exist.
+    dpi : float
+        Pixels per inch of the PNGs.
+
+    Returns
+    -------
+    list of Path
+        The PDF, then the PNGs.
+
+    Raises
+    ------
+    InputError
+        A bad path, no pages, or a stations folder shotplan did not write.
+    """
     pdf = check_output_path(pdf_path, (".pdf",))
     folder = stations_folder(pdf)
-    _check_folder(folder)
+    check_stations_folder(folder)
     if not figures:
         raise InputError(f"{str(pdf)!r}: no pages to write")
     parent = pdf.parent if str(pdf.parent) else Path(".")
@@ -557,20 +669,16 @@ def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str
         pngs = []
         for k, fig in enumerate(figures, start=1):
             p = tmp / f"station-{k}.png"
-            fig.savefig(p, format="png", dpi=dpi, metadata=_METADATA["png"], facecolor="white")
+            atomic_write_bytes(p, figure_bytes(fig, "png", dpi))
             pngs.append(folder / p.name)
-        buf = io.BytesIO()  # the sheet's bytes first: its temporary file appears only when ready
-        with PdfPages(buf, metadata=_METADATA["pdf"]) as out:
-            for fig in figures:
-                out.savefig(fig, facecolor="white")
-        data = buf.getvalue()
+        data = pdf_bytes(figures)  # the sheet's bytes first: its temporary file appears only when ready
         atomic_write_bytes(pdf, data)
         digest = hashlib.sha256(data).hexdigest()
         with open(tmp / MARKER, "a", encoding="utf-8") as f:
             f.write(f"sheet: {pdf.name}\nsha256 of the sheet: {digest}\n")
         old = None
         if folder.exists():
-            _check_folder(folder)  # still ours
+            check_stations_folder(folder)  # still ours
             old = parent / f".{folder.name}.{secrets.token_hex(4)}.old"
             os.rename(folder, old)
         os.rename(tmp, folder)
@@ -584,7 +692,18 @@ def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str
 
 
 def sheet_figures(result: DrillResult) -> list[Figure]:
-    """Every page of a drill result's sheet."""
+    """Every page of a drill result's sheet.
+
+    Parameters
+    ----------
+    result : DrillResult
+        The drill, run at every level.
+
+    Returns
+    -------
+    list of Figure
+        One page per station (:func:`page_figure`).
+    """
     levels = result.levels()
     n = len(result.stations)
     out = []

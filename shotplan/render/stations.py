@@ -17,8 +17,9 @@ from ..aim import aim_at, overlap_word
 from ..drills import DrillResult, StationPlan, StationResult
 from ..position import zone_words
 from ..search import pocket_target
+from .overlays import shot_scene
 from .position_map import zone_shapes
-from .scene import CircleShape, Layer, Scene, Shape, shot_scene
+from .scene import CircleShape, Layer, Scene, Shape
 from .sheet import sheet_figures, write_sheet_files
 
 __all__ = ["station_lines", "station_scene", "write_sheet"]
@@ -45,9 +46,22 @@ def _shot_words(plan: StationPlan) -> str:
 
 
 def station_lines(result: StationResult, brief: bool = False) -> list[str]:
-    """The text of a station's page: the shot, the settings in a player's
-    words, the finish asked for, the success rates. ``brief``: only the
-    shot, the finish, the remarks and the note (the sheet draws the rest)."""
+    """The text of a station's page.
+
+    Parameters
+    ----------
+    result
+        The station's rates.
+    brief
+        Only the shot, the finish, the remarks and the note (the sheet draws
+        the rest); else also the settings in a player's words, the rates and
+        the legends.
+
+    Returns
+    -------
+    list of str
+        One paragraph each.
+    """
     plan = result.plan
     st = plan.station
     s = plan.stroke
@@ -91,11 +105,29 @@ def station_lines(result: StationResult, brief: bool = False) -> list[str]:
 
 def station_scene(result: StationResult, title: str | None = None, dots: int = 400,
                   style: str = "colour") -> Scene:
-    """A station's diagram: the layout, the unperturbed stroke's paths (with
-    the ghost ball and window for a shot the search found), the zone, and
-    where the cue ball finished in the first ``dots`` trials (``colour``
-    style: white pocketed and in position, red not; ``print``: a filled ink
-    dot and an open ring)."""
+    """A station's diagram.
+
+    The layout, the unperturbed stroke's paths (with the ghost ball and
+    window for a shot the search found), the zone, and where the cue ball
+    finished in the first ``dots`` trials.
+
+    Parameters
+    ----------
+    result
+        The station's rates (its plan and its trials' finishes).
+    title
+        The scene's title; by default the station's name.
+    dots
+        How many trials' finishes to mark.
+    style
+        ``colour``: white pocketed and in position, red not; ``print``: a
+        filled ink dot and an open ring.
+
+    Returns
+    -------
+    Scene
+        The station's scene.
+    """
     plan = result.plan
     st = plan.station
     R = st.layout.geometry.ball_radius
@@ -126,8 +158,26 @@ def station_scene(result: StationResult, title: str | None = None, dots: int = 4
 
 def write_sheet(result: DrillResult, path: str | os.PathLike[str], dpi: float = 150
                 ) -> list[Path]:
-    """Write the drill sheet: a PDF with a page per station at ``path``
-    (``X.pdf``) and a folder ``X-stations/`` with a PNG per page, replaced as
-    a whole (see :mod:`shotplan.render.sheet`). Every page is drawn before anything
-    is written. Returns the files written, the PDF first."""
+    """Write the drill sheet.
+
+    A PDF with a page per station at ``path`` (``X.pdf``) and a folder
+    ``X-stations/`` with a PNG per page, replaced as a whole (see
+    :mod:`shotplan.render.sheet`). Every page is drawn before anything is
+    written.
+
+    Parameters
+    ----------
+    result
+        The drill's rates (with the compared levels, for the side-by-side
+        rates).
+    path
+        The PDF.
+    dpi
+        Resolution of the PNGs.
+
+    Returns
+    -------
+    list of Path
+        The files written, the PDF first.
+    """
     return write_sheet_files(sheet_figures(result), path, dpi=dpi)

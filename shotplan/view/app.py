@@ -38,7 +38,9 @@ from ..equipment import TableSpec
 from ..errors import ShotplanError
 from ..files.write import atomic_path, check_output_path
 from ..layout import Layout, load_layout, new_layout, save_layout
-from ..render.scene import Scene, Shape, layout_scene, shot_scene, table_scene
+from ..render.overlays import shot_scene
+from ..render.scene import Scene, Shape
+from ..render.table_shapes import layout_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
 from .draw import Painter, TableCache, rgb

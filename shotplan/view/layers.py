@@ -17,21 +17,10 @@ import math
 from collections.abc import Iterable, Mapping, Sequence
 from typing import Any
 
-from ..render.scene import (
-    BALL_COLOURS,
-    STRIPE_IDS,
-    CircleShape,
-    Layer,
-    PolylineShape,
-    Shape,
-    TextShape,
-    ball_shapes,
-    ghost_ball_shape,
-    marker_shape,
-    outcome_shapes,
-    path_shapes,
-    window_shape,
-)
+from ..render.overlays import ghost_ball_shape, marker_shape, outcome_shapes, path_shapes, window_shape
+from ..render.palette import BALL_COLOURS, STRIPE_IDS
+from ..render.scene import CircleShape, Layer, PolylineShape, Shape, TextShape
+from ..render.table_shapes import ball_shapes
 from ..table import Table
 from .predict import AimGeometry
 
