@@ -13,7 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import LayoutError
-from ..files.read import check_format, check_version, read_json_file, show_value, value_kind
+from ..files.read import JSONValue, check_format, check_version, read_json_file, show_value, value_kind
 from ..files.write import atomic_write_text, check_output_path
 from ..layout import Layout
 from ..position import Zone
@@ -123,11 +123,29 @@ class Drill:
         return station.attempts if station.attempts is not None else self.attempts
 
     @classmethod
-    def from_dict(cls, data: Any, where: str = "drill", base_dir: str | os.PathLike[str] = "."
+    def from_dict(cls, data: JSONValue, where: str = "drill", base_dir: str | os.PathLike[str] = "."
                   ) -> Drill:
-        """Build from a parsed drill object, checking everything (see the module
-        docstring); ``where`` starts every message, layout paths are read
-        relative to ``base_dir``."""
+        """Build from a parsed drill object, checking everything.
+
+        Parameters
+        ----------
+        data
+            The parsed JSON object (see :mod:`shotplan.drills` for its fields).
+        where
+            What starts every message (the file's name).
+        base_dir
+            The folder relative layout paths are read from.
+
+        Returns
+        -------
+        Drill
+            The drill.
+
+        Raises
+        ------
+        LayoutError
+            The first fault, in one line naming the field and what is valid.
+        """
         if not isinstance(data, Mapping):
             raise LayoutError(f"{where}: the top level must be a JSON object "
                               f"{{\"format\": \"{FORMAT}\", ...}}, not {value_kind(data)}")
@@ -297,9 +315,22 @@ def _referenced_layout(path: Path, where: str) -> Layout:
 def load_drill(path: str | os.PathLike[str]) -> Drill:
     """Read a drill file; layout paths in it are relative to its folder.
 
-    Every fault raises one :class:`LayoutError` line that starts with the
-    file name and names the field, e.g. ``club.json: stations[1].pocket:
-    "foot-centre" is not a pocket of the pool-9ft table, must be one of ...``.
+    Parameters
+    ----------
+    path
+        The drill file (JSON, ``format`` ``shotplan-drill``).
+
+    Returns
+    -------
+    Drill
+        The drill, every field checked.
+
+    Raises
+    ------
+    LayoutError
+        One line that starts with the file name and names the field, e.g.
+        ``club.json: stations[1].pocket: "foot-centre" is not a pocket of the
+        pool-9ft table, must be one of ...``.
     """
     name = str(path)
     data = read_json_file(path)
@@ -307,8 +338,18 @@ def load_drill(path: str | os.PathLike[str]) -> Drill:
 
 
 def save_drill(drill: Drill, path: str | os.PathLike[str]) -> None:
-    """Write ``drill`` atomically. Relative layout paths are rewritten
-    relative to the new file's folder, so they still find their layouts."""
+    """Write ``drill`` atomically.
+
+    Relative layout paths are rewritten relative to the new file's folder,
+    so they still find their layouts.
+
+    Parameters
+    ----------
+    drill
+        The drill to write.
+    path
+        The new file (checked by :func:`shotplan.files.write.check_output_path`).
+    """
     p = check_output_path(path)
     target = (p.parent if str(p.parent) else Path(".")).resolve()
     stations = []

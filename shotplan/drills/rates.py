@@ -8,7 +8,7 @@ import math
 import time
 from collections.abc import Sequence
 from dataclasses import dataclass, field
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -26,6 +26,11 @@ from ..position import PotPlayer, setting_words
 from ..stroke import Stroke
 from ..study import Progress
 from .drill_file import Drill, Station
+
+if TYPE_CHECKING:
+    from ..physics import Outcome, Physics
+    from ..position import ZoneSetting
+    from ..search import Shot
 
 __all__ = [
     "SHEET_LEVELS",
@@ -56,8 +61,27 @@ _MAX_SPEED = 15.0
 
 # ---------------------------------------------------------------- rates
 def wilson_interval(successes: int, trials: int, z: float = Z95) -> tuple[float, float]:
-    """The Wilson score interval of a binomial proportion (Wilson 1927):
-    ``(p + z^2/2n -+ z sqrt(p(1-p)/n + z^2/4n^2)) / (1 + z^2/n)``."""
+    """The Wilson score interval of a binomial proportion (Wilson 1927).
+
+    ``(p + z^2/2n -+ z sqrt(p(1-p)/n + z^2/4n^2)) / (1 + z^2/n)``.
+
+    Parameters
+    ----------
+    successes, trials
+        The count of successes out of ``trials`` (at least 1).
+    z
+        The normal quantile (default :data:`Z95`, a 95 % interval).
+
+    Returns
+    -------
+    tuple of float
+        ``(low, high)``, within [0, 1].
+
+    Raises
+    ------
+    InputError
+        No trials, or successes outside ``0 .. trials``.
+    """
     if trials <= 0:
         raise InputError("wilson_interval: trials must be at least 1")
     if not 0 <= successes <= trials:
@@ -116,18 +140,18 @@ class StationPlan:
     """The ball the cue ball must meet first."""
     source: str
     """Where the settings came from: ``file``, ``shot search`` or ``position search``."""
+    outcome: Outcome
+    """The :class:`shotplan.physics.Outcome` of the unperturbed stroke."""
+    physics: Physics
+    """The :class:`shotplan.physics.Physics` planned with (the trials use it too)."""
     tip: str = ""
     """``stun`` when the height came from the stun rule, else ``""``."""
-    shot: Any = None
+    shot: Shot | None = None
     """The :class:`shotplan.search.Shot` the settings came from, if any."""
-    zone_setting: Any = None
+    zone_setting: ZoneSetting | None = None
     """The :class:`shotplan.position.ZoneSetting` the settings came from, if any."""
-    outcome: Any = None
-    """The :class:`shotplan.physics.Outcome` of the unperturbed stroke."""
     remark: str = ""
     """What the planner wants the coach to know (``no setting reaches the zone``...)."""
-    physics: Any = None
-    """The :class:`shotplan.physics.Physics` planned with (the trials use it too)."""
 
     def words(self) -> str:
         """The settings in a player's words."""
@@ -135,16 +159,40 @@ class StationPlan:
                              self.tip)
 
 
-def plan_station(station: Station, physics: Any = None, errors: PlayerErrors | None = None
+def plan_station(station: Station, physics: Physics | None = None, errors: PlayerErrors | None = None
                  ) -> StationPlan:
-    """The settings of a station: the file's stroke, or found (see the module
-    docstring). Found settings keep the tip inside the tip room of
-    ``errors`` (:func:`shotplan.players.tip_room`; default the ``club``
-    level): a shot whose stun or draw would need more is played at the
-    room's edge instead, and the plan's remark says so. A file's stroke is
-    played as given; the remark says when it lies outside the room. Raises
-    :class:`InputError` if no shot pockets the ball, or if the player's tip
-    error leaves no room at all."""
+    """The settings of a station: the file's stroke, or found.
+
+    Without a stroke the settings are found by the position search (with a
+    zone) or the shot search (see :mod:`shotplan.drills`). Found settings
+    keep the tip inside the tip room of ``errors``
+    (:func:`shotplan.players.tip_room`): a shot whose stun or draw would
+    need more is played at the room's edge instead, and the plan's remark
+    says so. A file's stroke is played as given; the remark says when it
+    lies outside the room.
+
+    Parameters
+    ----------
+    station
+        The station.
+    physics
+        Physics values; by default the station layout's.
+    errors
+        The player whose tip room the settings keep inside (default: the
+        ``club`` level).
+
+    Returns
+    -------
+    StationPlan
+        The settings, the shot's first ball, where they came from and the
+        unperturbed run.
+
+    Raises
+    ------
+    InputError
+        No shot pockets the ball, or the player's tip error leaves no room
+        at all.
+    """
     from ..position import position_map
     from ..search import find_shots
 
@@ -216,7 +264,8 @@ def plan_station(station: Station, physics: Any = None, errors: PlayerErrors | N
         hit = outcome.first_contact("cue")
         if hit is not None and hit != "cue":
             first = hit
-    return StationPlan(station, stroke, first, source, tip, shot, zs, outcome, remark, phys)
+    return StationPlan(station, stroke, first, source, outcome, phys, tip=tip, shot=shot,
+                       zone_setting=zs, remark=remark)
 
 
 # ------------------------------------------------------------ Monte Carlo

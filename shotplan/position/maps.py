@@ -8,7 +8,7 @@ import math
 import time
 from collections.abc import Sequence
 from dataclasses import dataclass, field
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -18,6 +18,9 @@ from ..players import DEFAULT_LEVEL, TIP_MARGIN_SD, PlayerErrors, level_tip_room
 from ..stroke import Stroke, default_speed, speed_word, tip_height
 from .words import setting_words
 from .zone import Zone, is_number
+
+if TYPE_CHECKING:
+    from ..layout import Layout
 
 __all__ = [
     "PotPlayer",
@@ -148,7 +151,7 @@ class PositionMap:
     """Every setting of the grid, what it did, and (with a zone) the ranked
     settings that reach it."""
 
-    layout: Any
+    layout: Layout
     """The layout played."""
     ball: str
     """Object ball."""
@@ -240,7 +243,7 @@ class PotPlayer:
 
     __slots__ = ("stroke_player", "ball", "first", "pocket_index")
 
-    def __init__(self, layout: Any, ball: str, pocket: str, physics: Physics | None = None,
+    def __init__(self, layout: Layout, ball: str, pocket: str, physics: Physics | None = None,
                  first: str | None = None):
         from ..physics.run import StrokePlayer  # the compiled engine loads on first use
 
@@ -312,7 +315,7 @@ class PotPlayer:
 
 
 # ------------------------------------------------------------------- grid
-def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = None,
+def default_grid(layout: Layout, ball: str, pocket: str, physics: Physics | None = None,
                  room: float | None = None
                  ) -> tuple[tuple[float, ...], tuple[float | str, ...], tuple[float, ...]]:
     """The default (speeds, heights, sides) of a position map.
@@ -330,6 +333,26 @@ def default_grid(layout: Any, ball: str, pocket: str, physics: Physics | None = 
 
     The grid's corners (much side with much draw or follow) may lie outside
     the room; :func:`position_map` marks them ``risky tip``.
+
+    Parameters
+    ----------
+    layout
+        The layout with the cue ball and ``ball``.
+    ball, pocket
+        The object ball and the pocket.
+    physics
+        Physics values; by default the layout's.
+    room
+        The tip room, ball radii from centre; by default the ``club`` level's.
+
+    Returns
+    -------
+    speeds : tuple of float
+        Launch speeds, m/s.
+    heights : tuple of float or str
+        Tip heights, ball radii, and ``"stun"``.
+    sides : tuple of float
+        Tip side offsets, ball radii.
     """
     from ..aim import aim_at
     from ..search import pocket_target
@@ -381,7 +404,7 @@ def _check_grid(speeds: Sequence[float], heights: Sequence[float | str],
 
 
 def position_map(
-    layout: Any,
+    layout: Layout,
     ball: str,
     pocket: str,
     *,
@@ -492,8 +515,29 @@ def position_map(
 
 
 def robustness(player: PotPlayer, finish: Finish, zone: Zone) -> ZoneSetting:
-    """The robustness level of one setting that reaches the zone (see the
-    module docstring for the definition)."""
+    """The robustness level of one setting that reaches the zone (see
+    :mod:`shotplan.position` for the definition).
+
+    Parameters
+    ----------
+    player
+        The player of the map's shot.
+    finish
+        A setting that pocketed the ball and left the cue ball in ``zone``.
+    zone
+        The target zone.
+
+    Returns
+    -------
+    ZoneSetting
+        The setting with its level, its margin inside the zone and the runs
+        it took.
+
+    Raises
+    ------
+    InputError
+        The setting did not pocket the ball.
+    """
     if finish.direction_deg is None or finish.cue_finish is None:
         raise InputError("robustness: the setting must have pocketed the ball")
     d, v, s, h = finish.direction_deg, finish.speed_mps, finish.side, finish.height
@@ -519,10 +563,24 @@ def robustness(player: PotPlayer, finish: Finish, zone: Zone) -> ZoneSetting:
     return ZoneSetting(finish, level, zone.margin(finish.cue_finish), player.runs - start)
 
 
-def zone_settings(layout: Any, ball: str, pocket: str, zone: Zone, **grid: Any
+def zone_settings(layout: Layout, ball: str, pocket: str, zone: Zone, **grid: Any
                   ) -> tuple[ZoneSetting, ...]:
     """The settings of the grid that pocket ``ball`` in ``pocket`` and leave
-    the cue ball in ``zone``, most robust first (see :func:`position_map`)."""
+    the cue ball in ``zone``, most robust first.
+
+    Parameters
+    ----------
+    layout, ball, pocket, zone
+        As :func:`position_map`.
+    **grid
+        ``speeds``, ``heights``, ``sides``, ``physics``, ``errors`` as
+        :func:`position_map` takes them.
+
+    Returns
+    -------
+    tuple of ZoneSetting
+        :attr:`PositionMap.ranked`.
+    """
     return position_map(layout, ball, pocket, zone=zone, **grid).ranked
 
 

@@ -30,9 +30,21 @@ def _tips(amount_r: float) -> str:
 
 
 def tip_words(side: float, height: float) -> str:
-    """The tip position in a player's words, to the nearest quarter tip (one
-    tip is :data:`TIP_WIDTH_R` of the radius): ``one tip of draw, no side``,
-    ``half a tip of follow, a quarter tip of right english``, ``centre ball``."""
+    """The tip position in a player's words, to the nearest quarter tip.
+
+    One tip is :data:`TIP_WIDTH_R` of the radius.
+
+    Parameters
+    ----------
+    side, height
+        Tip offsets, ball radii (+ right english, + follow).
+
+    Returns
+    -------
+    str
+        ``one tip of draw, no side``, ``half a tip of follow, a quarter tip
+        of right english``, ``centre ball, no side``...
+    """
     hq = round(abs(height) / TIP_WIDTH_R * 4.0)
     sq = round(abs(side) / TIP_WIDTH_R * 4.0)
     vertical = "centre ball" if hq == 0 else (
@@ -43,8 +55,23 @@ def tip_words(side: float, height: float) -> str:
 
 
 def setting_words(speed_mps: float, side: float, height: float, tip: str = "") -> str:
-    """Speed and tip in a player's words: ``medium speed (2.0 m/s), one tip of
-    draw, no side``; ``tip="stun"`` says so first (``stun: ...``)."""
+    """Speed and tip in a player's words.
+
+    Parameters
+    ----------
+    speed_mps
+        Launch speed, m/s.
+    side, height
+        Tip offsets, ball radii.
+    tip
+        ``"stun"`` when the height came from the stun rule: the tip words are
+        then given as ``stun (...)``.
+
+    Returns
+    -------
+    str
+        ``medium speed (2.0 m/s), one tip of draw, no side``.
+    """
     speed = f"{speed_word(speed_mps)} speed ({speed_mps:.1f} m/s)"
     tipw = tip_words(side, height)
     if tip == "stun":
@@ -53,7 +80,19 @@ def setting_words(speed_mps: float, side: float, height: float, tip: str = "") -
 
 
 def zone_words(zone: Zone) -> str:
-    """The zone as a sheet says it."""
+    """The zone as a sheet says it.
+
+    Parameters
+    ----------
+    zone
+        A target zone.
+
+    Returns
+    -------
+    str
+        ``the cue ball's centre within 12 cm of (1.95 m, 0.92 m)`` or
+        ``the cue ball's centre inside the marked 4-corner zone``.
+    """
     if zone.circle is not None:
         x, y, r = zone.circle
         return (f"the cue ball's centre within {r * 100:.0f} cm of "

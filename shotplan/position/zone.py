@@ -5,15 +5,19 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 import shapely
+from numpy.typing import ArrayLike
 from shapely.geometry import Point, Polygon
 from shapely.geometry.base import BaseGeometry
 
 from ..errors import LayoutError
-from ..files.read import show_value
+from ..files.read import JSONValue, show_value
+
+if TYPE_CHECKING:
+    from ..table import Table
 
 __all__ = ["Zone", "is_number"]
 
@@ -59,9 +63,26 @@ class Zone:
         return cls(polygon=tuple((float(p[0]), float(p[1])) for p in points))
 
     @classmethod
-    def from_dict(cls, data: Any, where: str = "zone") -> Zone:
-        """Read ``{"circle": [x, y, r]}`` or ``{"polygon": [[x, y], ...]}``;
-        every fault raises :class:`LayoutError` naming ``where``."""
+    def from_dict(cls, data: JSONValue, where: str = "zone") -> Zone:
+        """Read a zone object of a drill file or ``--zone``.
+
+        Parameters
+        ----------
+        data
+            ``{"circle": [x, y, r]}`` or ``{"polygon": [[x, y], ...]}`` (metres).
+        where
+            What starts every message (the field's place).
+
+        Returns
+        -------
+        Zone
+            The zone.
+
+        Raises
+        ------
+        LayoutError
+            The object is not a zone (one line naming ``where`` and what is valid).
+        """
         form = ('{"circle": [x, y, r]} or {"polygon": [[x, y], [x, y], [x, y], ...]} '
                 "(metres from the cushion noses)")
         if not isinstance(data, Mapping):
@@ -111,9 +132,20 @@ class Zone:
             return Point(x, y).buffer(r, quad_segs=32)
         return Polygon(self.polygon)
 
-    def contains(self, points: Any) -> np.ndarray:
-        """Whether each point (N, 2) lies inside the zone (edge included); a
-        circle is tested exactly."""
+    def contains(self, points: ArrayLike) -> np.ndarray:
+        """Whether each point lies inside the zone (edge included); a circle is
+        tested exactly.
+
+        Parameters
+        ----------
+        points
+            Points, shape (N, 2), m.
+
+        Returns
+        -------
+        numpy.ndarray
+            Booleans, shape (N,).
+        """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         if self.circle is not None:
             x, y, r = self.circle
@@ -122,7 +154,18 @@ class Zone:
         return shapely.intersects_xy(geom, pts[:, 0], pts[:, 1])
 
     def margin(self, point: Sequence[float]) -> float:
-        """How far ``point`` lies inside the zone's edge, m (negative outside)."""
+        """How far ``point`` lies inside the zone's edge.
+
+        Parameters
+        ----------
+        point
+            ``(x, y)``, m.
+
+        Returns
+        -------
+        float
+            The distance to the edge, m: positive inside, negative outside.
+        """
         px, py = float(point[0]), float(point[1])
         if self.circle is not None:
             x, y, r = self.circle
@@ -131,9 +174,26 @@ class Zone:
         d = float(geom.exterior.distance(Point(px, py)))
         return d if geom.intersects(Point(px, py)) else -d
 
-    def check_on_table(self, table: Any, where: str = "zone") -> Zone:
-        """Self, if part of the zone is where a cue ball's centre can rest on
-        ``table`` (a :class:`shotplan.table.Table`); else :class:`LayoutError`."""
+    def check_on_table(self, table: Table, where: str = "zone") -> Zone:
+        """Check that part of the zone is where a cue ball's centre can rest.
+
+        Parameters
+        ----------
+        table
+            The table.
+        where
+            What starts the message.
+
+        Returns
+        -------
+        Zone
+            Self.
+
+        Raises
+        ------
+        LayoutError
+            The zone lies wholly off the table's legal region.
+        """
         if self.geometry.intersection(table.legal_region).area <= 0.0:
             raise LayoutError(f"{where}: {self.describe()} lies off the table: no ball can "
                               f"rest in it (the table is {table.length:.4g} x "

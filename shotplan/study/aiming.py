@@ -89,8 +89,21 @@ def aim_table(spec: TableSpec, cuts: Sequence[float] | None = None,
     :mod:`shotplan.aim` (object ball on the open bed, the ghost ball behind
     it, the cue ball ``cue_distance`` from the ghost ball at the cut), not
     typed in, so a table with another ball size gets its own offsets.
-    Default cuts: 0 to 90 by 5 (at 90 nothing is hit: fraction 0), plus the
-    cuts of the three-quarter and quarter-ball hits.
+
+    Parameters
+    ----------
+    spec
+        The table.
+    cuts
+        Cut angles, degrees; default 0 to 90 by 5 (at 90 nothing is hit:
+        fraction 0), plus the cuts of the three-quarter and quarter-ball hits.
+    cue_distance
+        Cue ball to ghost ball, m.
+
+    Returns
+    -------
+    AimTable
+        One row per cut.
     """
     if cuts is None:
         base = {float(c) for c in range(0, 91, 5)}

@@ -123,8 +123,19 @@ class CutGeometry:
 
 
 def default_pockets(spec: TableSpec) -> list[str]:
-    """One corner and one side pocket of the table (``foot-right`` and
-    ``side-right`` where they exist), for the approach-angle study."""
+    """One corner and one side pocket of the table, for the approach-angle study.
+
+    Parameters
+    ----------
+    spec
+        The table.
+
+    Returns
+    -------
+    list of str
+        ``foot-right`` and ``side-right`` where they exist, else the first of
+        each kind; fewer if the table has no such pockets.
+    """
     pockets = table_of(spec).pockets
     out = []
     for kind, wanted in (("corner", "foot-right"), ("side", "side-right")):
@@ -233,9 +244,21 @@ def cut_geometry(spec: TableSpec, pocket: str, object_distance: float, cue_dista
 def place_shot(spec: TableSpec, pocket: str, object_distance: float, cue_distance: float,
                cut_deg: float, approach_deg: float = 0.0, cut_side: str = "auto"
                ) -> tuple[CutGeometry | None, str]:
-    """The study layout if both balls fit on the table, else ``(None, why)``.
+    """The study layout if both balls fit on the table.
 
-    ``cut_side="auto"`` tries a left cut, then a right one.
+    Parameters
+    ----------
+    spec, pocket, object_distance, cue_distance, cut_deg, approach_deg
+        As :func:`cut_geometry`.
+    cut_side
+        ``left``, ``right`` or ``auto`` (a left cut, then a right one).
+
+    Returns
+    -------
+    geometry : CutGeometry or None
+        The layout, or None if neither side fits.
+    why : str
+        Why it does not fit (the layout's first problem), or ``""``.
     """
     if cut_side not in CUT_SIDES:
         raise InputError(f"cut side {cut_side!r} is not valid, must be one of {', '.join(CUT_SIDES)}")
@@ -252,7 +275,23 @@ def place_shot(spec: TableSpec, pocket: str, object_distance: float, cue_distanc
 
 
 def sweep_angles(step_deg: float, max_deg: float, start_deg: float = 0.0) -> tuple[float, ...]:
-    """``start, start + step, ...`` up to ``max`` (included when on the grid)."""
+    """The angles of a sweep: ``start, start + step, ...`` up to ``max``
+    (included when on the grid).
+
+    Parameters
+    ----------
+    step_deg
+        Step, degrees (above 0, at most 90).
+    max_deg
+        Largest angle, degrees (at most :data:`MAX_ANGLE_DEG`).
+    start_deg
+        First angle, degrees.
+
+    Returns
+    -------
+    tuple of float
+        The angles, rounded to 1e-9 degrees.
+    """
     for value, what in ((step_deg, "step"), (max_deg, "largest angle")):
         if not isinstance(value, int | float) or isinstance(value, bool) or not math.isfinite(value):
             raise InputError(f"{what}: {value!r} is not a number of degrees")

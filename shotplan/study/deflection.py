@@ -51,6 +51,16 @@ def ninety_degree_rule_deg(cut_deg: float) -> float:
     e = 1 exchange that component whole; the cue ball keeps only the part
     of its velocity across the line of centres, so it leaves along the
     tangent line, at 90 degrees to the object ball.
+
+    Parameters
+    ----------
+    cut_deg
+        Cut angle, degrees.
+
+    Returns
+    -------
+    float
+        The cue ball's departure from its line, degrees.
     """
     return 90.0 - cut_deg
 
@@ -82,6 +92,16 @@ def thirty_degree_rule_deg(cut_deg: float) -> float:
        ``= v ((2/7) cos^2(phi) + sin^2(phi), -(5/7) sin(phi) cos(phi))``.
     5. Its angle from ``x``: ``tan(theta) = (5/7) sin cos / ((2/7) cos^2 +
        sin^2) = sin(phi) cos(phi) / (sin^2(phi) + 2/5)``.
+
+    Parameters
+    ----------
+    cut_deg
+        Cut angle ``phi``, degrees.
+
+    Returns
+    -------
+    float
+        The final line's angle from the original line, degrees.
     """
     phi = math.radians(cut_deg)
     s, c = math.sin(phi), math.cos(phi)
@@ -99,6 +119,20 @@ def final_line_deg(cut_deg: float, spin_ratio: float, restitution: float = 1.0) 
 
     ``v1 = v (sin(phi) t + (1 - e)/2 cos(phi) n)``, ``u0 = v1 - k v x``,
     ``vf = 5/7 v1 + 2/7 k v x``. Above 90 degrees the cue ball comes back.
+
+    Parameters
+    ----------
+    cut_deg
+        Cut angle ``phi``, degrees.
+    spin_ratio
+        ``k``: +1 rolling, 0 stun, below 0 draw.
+    restitution
+        ``e`` between the balls.
+
+    Returns
+    -------
+    float
+        The final line's angle from the original line, degrees.
     """
     phi = math.radians(cut_deg)
     s, c = math.sin(phi), math.cos(phi)
