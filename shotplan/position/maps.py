@@ -463,18 +463,7 @@ def position_map(
     for s in sides:
         for h_spec in heights:
             for v in speeds:
-                tip = ""
-                if h_spec == "stun":
-                    h = round(tip_height("stun", float(v), cue_dist, phys), 4)
-                    # At low speeds the rule runs into its draw limit, or
-                    # the player's tip room: that is plain draw, not a stun,
-                    # and is not called one.
-                    tip = "stun" if h > -0.9 * phys.miscue_limit + 1e-3 else ""
-                    low = safe_height(h, float(s), room)
-                    if low is not None and low > h:
-                        h, tip = _down(low, 4), ""
-                else:
-                    h = float(h_spec)
+                h, tip = _grid_height(h_spec, float(v), float(s), cue_dist, phys, room)
                 v, s_ = float(v), float(s)
                 if math.hypot(s_, h) > phys.miscue_limit + 1e-12:
                     finishes.append(Finish(v, h, s_, tip, None, "miscue", None,
@@ -496,15 +485,7 @@ def position_map(
                     in_zone = bool(result == "pocketed" and fin is not None
                                    and zone.contains([fin])[0])
                 finishes.append(Finish(v, h, s_, tip, float(d), result, fin, in_zone))
-    ranked: list[ZoneSetting] = []
-    if zone is not None:
-        seen: set[tuple[float, float, float]] = set()
-        for f in finishes:
-            key = (f.speed_mps, round(f.height, 3), f.side)
-            if f.in_zone and key not in seen:  # a stun row may repeat a plain height
-                seen.add(key)
-                ranked.append(robustness(player, f, zone))
-        ranked.sort(key=lambda z: (-z.level, -round(z.margin_m, 4), z.finish.speed_mps))
+    ranked = _ranked(player, finishes, zone) if zone is not None else []
     # aim_direct's own runs (about six per setting) are not counted by the
     # player; estimate them so the total means something.
     sims = player.runs + 6 * aims
@@ -512,6 +493,36 @@ def position_map(
     who = errors if errors is not None else PlayerErrors.level(DEFAULT_LEVEL)
     return PositionMap(layout, ball, pocket, tuple(finishes), zone, tuple(ranked), sims,
                        time.perf_counter() - t0, meta, room, who)
+
+
+def _grid_height(h_spec: float | str, v: float, s: float, cue_dist: float, phys: Physics,
+                 room: float) -> tuple[float, str]:
+    """The tip height a grid row plays at speed ``v`` and side ``s``, and
+    ``"stun"`` when the stun rule gave it."""
+    if h_spec != "stun":
+        return float(h_spec), ""
+    h = round(tip_height("stun", v, cue_dist, phys), 4)
+    # At low speeds the rule runs into its draw limit, or the player's tip
+    # room: that is plain draw, not a stun, and is not called one.
+    tip = "stun" if h > -0.9 * phys.miscue_limit + 1e-3 else ""
+    low = safe_height(h, s, room)
+    if low is not None and low > h:
+        h, tip = _down(low, 4), ""
+    return h, tip
+
+
+def _ranked(player: PotPlayer, finishes: Sequence[Finish], zone: Zone) -> list[ZoneSetting]:
+    """The settings that reached the zone with their robustness, most robust
+    first, then the larger margin, then the softer speed."""
+    ranked: list[ZoneSetting] = []
+    seen: set[tuple[float, float, float]] = set()
+    for f in finishes:
+        key = (f.speed_mps, round(f.height, 3), f.side)
+        if f.in_zone and key not in seen:  # a stun row may repeat a plain height
+            seen.add(key)
+            ranked.append(robustness(player, f, zone))
+    ranked.sort(key=lambda z: (-z.level, -round(z.margin_m, 4), z.finish.speed_mps))
+    return ranked
 
 
 def robustness(player: PotPlayer, finish: Finish, zone: Zone) -> ZoneSetting:
