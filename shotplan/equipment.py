@@ -71,7 +71,20 @@ class Range:
 
     @classmethod
     def around(cls, nominal: float, tol: float) -> Range:
-        """The band ``nominal +- tol``."""
+        """The band ``nominal +- tol``.
+
+        Parameters
+        ----------
+        nominal : float
+            The middle of the band.
+        tol : float
+            Half its width.
+
+        Returns
+        -------
+        Range
+            ``Range(nominal - tol, nominal + tol)``.
+        """
         return cls(nominal - tol, nominal + tol)
 
     @property
@@ -232,7 +245,23 @@ class TableSpec:
     # ----------------------------------------------------------------- build
     @classmethod
     def preset(cls, name: str) -> TableSpec:
-        """The standard table called ``name`` (see :data:`PRESETS`)."""
+        """The standard table called ``name`` (see :data:`PRESETS`).
+
+        Parameters
+        ----------
+        name : str
+            A preset name (``pool-9ft``...).
+
+        Returns
+        -------
+        TableSpec
+            The preset.
+
+        Raises
+        ------
+        LayoutError
+            If there is no such preset (the message lists them).
+        """
         try:
             return PRESETS[name]
         except KeyError:
@@ -243,9 +272,27 @@ class TableSpec:
     def with_overrides(self, values: Mapping[str, JSONValue], where: str = "table") -> TableSpec:
         """A copy with measured values replacing the preset's.
 
-        ``values`` maps keys of :data:`OVERRIDE_KEYS` to numbers; ``where``
-        names the place in a file for error messages. Markings that depend on
-        the size (spots, strings) follow a new length and width.
+        Markings that depend on the size (spots, strings) follow a new length and
+        width.
+
+        Parameters
+        ----------
+        values : Mapping
+            Keys of :data:`OVERRIDE_KEYS` to numbers.
+        where : str, optional
+            The place in a file, for messages.
+
+        Returns
+        -------
+        TableSpec
+            The changed copy (its ``overrides`` record the values).
+
+        Raises
+        ------
+        LayoutError
+            For an unknown key, a value that is not a number or out of its range, a
+            pocket the table lacks, or values that contradict each other (see
+            :meth:`problems`).
         """
         spec = self
         for key, value in values.items():
@@ -276,10 +323,10 @@ class TableSpec:
         return spec
 
     def problems(self) -> list[str]:
-        """What makes the table's values contradict each other, one line each,
-        each starting with the field to change (``corner_mouth_m: ...``);
-        empty for a table that can be built and played. Checked on every
-        override (:meth:`with_overrides`); the presets pass.
+        """What makes the table's values contradict each other, one line each.
+
+        Each line starts with the field to change (``corner_mouth_m: ...``).
+        Checked on every override (:meth:`with_overrides`); the presets pass.
 
         * the cushion nose stands between the ball's centre and its top
           (the nose meets the ball above its equator; WPA puts it at
@@ -294,6 +341,11 @@ class TableSpec:
           memory; on a shallow shelf they shrink to fit (see
           :mod:`shotplan.table`);
         * every named spot and line lies on the playing surface.
+
+        Returns
+        -------
+        list of str
+            Empty for a table that can be built and played.
         """
         out: list[str] = []
         given = {k for k, _ in self.overrides}
@@ -419,7 +471,14 @@ class TableSpec:
         return math.sqrt(max(R * R - dh * dh, 0.0))
 
     def to_dict(self) -> dict[str, JSONValue]:
-        """The summary ``shotplan tables --json`` prints for this table."""
+        """The summary ``shotplan tables --json`` prints for this table.
+
+        Returns
+        -------
+        dict
+            Name, game, sizes, ball, pocket and cushion values (``None`` for
+            pockets the table lacks), sight spacing, ball ids and source.
+        """
         return {
             "name": self.name,
             "game": self.game,
@@ -493,31 +552,84 @@ def _face_k(kind: str, jaw_angle_deg: float) -> tuple[float, float]:
 
 
 def jaw_face_length_m(kind: str, pocket: PocketSpec) -> float:
-    """Length of a jaw face from the jaw point down to the drop line, m."""
+    """Length of a jaw face from the jaw point down to the drop line.
+
+    Parameters
+    ----------
+    kind : str
+        ``corner`` or ``side``.
+    pocket : PocketSpec
+        The pocket's measurements.
+
+    Returns
+    -------
+    float
+        Length, m.
+    """
     along, _side = _face_k(kind, pocket.jaw_angle_deg)
     return pocket.shelf_m / along
 
 
 def drop_width_m(kind: str, pocket: PocketSpec) -> float:
-    """Width of the throat at the drop line, between the two jaw faces, m."""
+    """Width of the throat at the drop line, between the two jaw faces.
+
+    Parameters
+    ----------
+    kind : str
+        ``corner`` or ``side``.
+    pocket : PocketSpec
+        The pocket's measurements.
+
+    Returns
+    -------
+    float
+        Width, m.
+    """
     along, side = _face_k(kind, pocket.jaw_angle_deg)
     return pocket.mouth_m + 2.0 * pocket.shelf_m * side / along
 
 
 def tip_tangent_m(pocket: PocketSpec, radius_m: float | None = None) -> float:
-    """Distance from the jaw point to where a rounded tip of ``radius_m``
-    (default: the spec's) meets the nose and the face: ``radius / tan(jaw
-    angle / 2)``, m."""
+    """Distance from the jaw point to where a rounded tip meets the nose and the face.
+
+    ``radius / tan(jaw angle / 2)``.
+
+    Parameters
+    ----------
+    pocket : PocketSpec
+        The pocket's measurements.
+    radius_m : float, optional
+        The tip radius; the spec's by default.
+
+    Returns
+    -------
+    float
+        Distance, m.
+    """
     r = pocket.jaw_tip_radius_m if radius_m is None else radius_m
     return r / math.tan(math.radians(pocket.jaw_angle_deg) / 2)
 
 
 def effective_tip_radius_m(kind: str, pocket: PocketSpec) -> float:
-    """The jaw tip radius the geometry uses: the spec's, or, where the face is
-    too short for it (a shallow shelf), the radius whose arc ends just before
-    the drop line (98 % of the face), so that nose, arc and face stay one
-    smooth boundary. 0 for a shelf of 0: the jaw is sharp at the mouth, where
-    the ball drops."""
+    """The jaw tip radius the geometry uses.
+
+    The spec's, or, where the face is too short for it (a shallow shelf), the
+    radius whose arc ends just before the drop line (98 % of the face), so
+    that nose, arc and face stay one smooth boundary. 0 for a shelf of 0: the
+    jaw is sharp at the mouth, where the ball drops.
+
+    Parameters
+    ----------
+    kind : str
+        ``corner`` or ``side``.
+    pocket : PocketSpec
+        The pocket's measurements.
+
+    Returns
+    -------
+    float
+        Radius, m.
+    """
     face = jaw_face_length_m(kind, pocket)
     if tip_tangent_m(pocket) > face:
         return 0.98 * face * math.tan(math.radians(pocket.jaw_angle_deg) / 2)
@@ -730,5 +842,11 @@ PRESETS: dict[str, TableSpec] = {
 
 
 def preset_names() -> list[str]:
-    """Names of the table presets, in the order they are listed."""
+    """Names of the table presets, in the order they are listed.
+
+    Returns
+    -------
+    list of str
+        The keys of :data:`PRESETS`.
+    """
     return list(PRESETS)

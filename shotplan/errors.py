@@ -60,9 +60,17 @@ class UnknownName(ShotplanError, ValueError, KeyError):
 
 
 class WriteError(ShotplanError, OSError):
-    """A file could not be written (no permission, a full disk, a read-only
-    disk). Its text names the path the user gave, never a temporary file;
-    ``errno`` is the system's error number, when there is one."""
+    """A file could not be written (no permission, a full disk, a read-only disk).
+
+    Its text names the path the user gave, never a temporary file.
+
+    Parameters
+    ----------
+    message : str
+        The one-line message.
+    errno : int, optional
+        The system's error number, when there is one (kept as ``errno``).
+    """
 
     def __init__(self, message: str, errno: int | None = None):
         super().__init__(message)
@@ -73,9 +81,16 @@ class WriteError(ShotplanError, OSError):
 
 
 class Terminated(KeyboardInterrupt):
-    """Raised in the main thread when the process is asked to stop (SIGTERM,
-    SIGHUP), so that it unwinds like an interrupt: temporary files are removed
-    and nothing is left half-written. ``signum`` is the signal's number."""
+    """Raised in the main thread when the process is asked to stop (SIGTERM, SIGHUP).
+
+    It unwinds like an interrupt: temporary files are removed and nothing is
+    left half-written.
+
+    Parameters
+    ----------
+    signum : int
+        The signal's number (kept as ``signum``).
+    """
 
     def __init__(self, signum: int):
         super().__init__(signum)
@@ -83,24 +98,64 @@ class Terminated(KeyboardInterrupt):
 
 
 def shorten(text: str, limit: int = SHOWN_CHARS) -> str:
-    """``text`` cut to at most ``limit`` characters, ending in ``...`` when cut."""
+    """``text`` cut to at most ``limit`` characters, ending in ``...`` when cut.
+
+    Parameters
+    ----------
+    text : str
+        Any text.
+    limit : int, optional
+        Most characters kept (60).
+
+    Returns
+    -------
+    str
+        ``text`` itself, or its start and ``...``.
+    """
     if len(text) <= limit:
         return text
     return text[: max(limit - 3, 1)] + "..."
 
 
 def quoted(value: object, limit: int = SHOWN_CHARS) -> str:
-    """``repr(value)`` cut to ``limit`` characters: how messages echo a value
-    the user gave (a name, a key, a word)."""
+    """How messages echo a value the user gave (a name, a key, a word).
+
+    Parameters
+    ----------
+    value : object
+        The value.
+    limit : int, optional
+        Most characters shown (60).
+
+    Returns
+    -------
+    str
+        ``repr(value)``, cut to ``limit`` characters (see :func:`shorten`).
+    """
     return shorten(repr(value), limit)
 
 
 def show_path(path: object, limit: int = 160) -> str:
-    """A file name as a message prints it: as typed when it reads plainly;
-    quoted with escapes (as Python's ``repr``) when it holds a newline, a tab
-    or another control or invisible character, so that one line stays one line
-    and the name can be told exactly; cut in the middle past ``limit``
-    characters, keeping the end, where the file's own name is."""
+    """A file name as a message prints it.
+
+    As typed when it reads plainly; quoted with escapes (as Python's
+    ``repr``) when it holds a newline, a tab or another control or invisible
+    character, so that one line stays one line and the name can be told
+    exactly; cut in the middle past ``limit`` characters, keeping the end,
+    where the file's own name is.
+
+    Parameters
+    ----------
+    path : object
+        A path (``str``, ``bytes`` or ``os.PathLike``).
+    limit : int, optional
+        Most characters shown (160).
+
+    Returns
+    -------
+    str
+        The name to print.
+    """
     text = str(path)
     plain = text.isprintable() and text == text.strip() and text != ""
     shown = text if plain else repr(text)

@@ -38,7 +38,6 @@ from its legality of construction:
 from __future__ import annotations
 
 import dataclasses
-import functools
 import json
 import math
 import os
@@ -69,7 +68,7 @@ from .files.read import (
 from .files.write import atomic_write_text, check_output_path
 from .physics.params import Physics
 from .stroke import Stroke
-from .table import LINE_RAIL, Table
+from .table import LINE_RAIL, Table, table_for
 
 __all__ = [
     "FORMAT",
@@ -78,14 +77,10 @@ __all__ = [
     "MAX_BALLS",
     "PROFILE_FORMAT",
     "LAYOUT_KEYS",
-    "RACKS",
-    "new_layout",
-    "start_spot",
     "Problem",
     "Layout",
     "load_layout",
     "save_layout",
-    "rack",
     "load_table",
     "table_from_file",
 ]
@@ -114,9 +109,6 @@ LAYOUT_KEYS: tuple[str, ...] = (
 )
 """The top-level fields of a layout file, in the order they are written."""
 
-RACKS: tuple[str, ...] = ("8-ball", "9-ball")
-"""Rack shapes :func:`rack` builds."""
-
 _OVERLAP_TOL = 1e-9
 """Balls may touch: centres closer than 2R by more than this overlap (m)."""
 
@@ -135,13 +127,6 @@ class Problem:
 
     def __str__(self) -> str:
         return f"{self.field}: {self.message}"
-
-
-@functools.lru_cache(maxsize=32)
-def _geometry(spec: TableSpec) -> Table:
-    # Building a Table costs a few shapely operations; layouts that share a
-    # spec (every edit of one layout does) share its geometry.
-    return Table(spec)
 
 
 @dataclass(frozen=True, slots=True)
@@ -216,7 +201,7 @@ class Layout:
     @property
     def geometry(self) -> Table:
         """The table's geometry (built once per distinct spec, then shared)."""
-        return _geometry(self.table)
+        return table_for(self.table)
 
     def physics(self) -> Physics:
         """Physics defaults, then the table's measured values, then the layout's overrides."""
@@ -442,76 +427,6 @@ def save_layout(layout: Layout, path: str | os.PathLike[str]) -> None:
     atomic_write_text(path, layout.to_json())
 
 
-# --------------------------------------------------------------- new tables
-def start_spot(spec: TableSpec, ball: str = "cue") -> tuple[float, float]:
-    """Where a new ball goes before it is made legal: the cue ball on the head
-    spot (in the D on snooker, half its radius behind the baulk line), any
-    other ball on the foot spot; the quarter or three-quarter point of the long
-    axis on a table without these spots."""
-    table = _geometry(spec)
-    spots = {s.name: (s.x, s.y) for s in spec.spots}
-    if ball == "cue":
-        if "head spot" not in spots and spec.baulk_line_x_m and spec.d_radius_m:
-            return (spec.baulk_line_x_m - 0.5 * spec.d_radius_m, table.width / 2)
-        return spots.get("head spot", (table.length / 4, table.width / 2))
-    return spots.get("foot spot", (0.75 * table.length, table.width / 2))
-
-
-def new_layout(spec: TableSpec) -> Layout:
-    """An empty table of ``spec`` with the cue ball at its :func:`start_spot`
-    (moved to the nearest legal place should that spot not be one)."""
-    spot = start_spot(spec)
-    cue = _geometry(spec).nearest_legal_spot(spot) or spot
-    return Layout(spec, (("cue", cue),))
-
-
-# ------------------------------------------------------------------- racks
-def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[float, float]]:
-    """Ball positions of a standard rack, with the cue ball on the head string.
-
-    The apex ball sits on the foot spot and the rack opens toward the foot
-    cushion, as the trade racks them (WPA rules of play, from memory). ``8-ball``: a
-    triangle of fifteen, the 8 in the middle of the third row, a solid and a stripe in the
-    back corners. ``9-ball``: a diamond of nine, the 1 at the apex and the 9 in
-    the middle. Neighbours are ``gap_m`` apart (0: touching). The cue ball is
-    on the head spot (head string, long string).
-
-    Returns ball id -> (x, y), the cue ball first, then the balls by number.
-    """
-    if kind not in RACKS:
-        raise LayoutError(f"{quoted(kind)} is not a rack, must be one of {', '.join(RACKS)}")
-    if not isinstance(table, TableSpec):
-        raise LayoutError(f"rack: table must be a TableSpec, not {type(table).__name__}")
-    if table.game != "pool" or table.head_string_x_m is None:
-        raise LayoutError(f"rack: {kind} racks are for pool tables, {table.name!r} is a "
-                          f"{table.game} table")
-    if isinstance(gap_m, bool) or not isinstance(gap_m, int | float) \
-            or not math.isfinite(gap_m) or not 0.0 <= gap_m <= 0.02:
-        raise LayoutError(f"rack: gap_m {gap_m!r} is out of range, must be between 0 and 0.02 m")
-    geo = _geometry(table)
-    fx, fy = geo.spot("foot spot")
-    pitch = table.ball.diameter_m + gap_m
-    row_step = pitch * math.sqrt(3.0) / 2.0  # rows of a close-packed triangle
-    if kind == "8-ball":
-        rows = [["1"], ["9", "2"], ["10", "8", "3"], ["11", "4", "12", "5"],
-                ["6", "13", "14", "7", "15"]]
-    else:
-        rows = [["1"], ["2", "3"], ["4", "9", "5"], ["6", "7"], ["8"]]
-    out: dict[str, tuple[float, float]] = {"cue": (table.head_string_x_m, table.width_m / 2)}
-    placed: dict[str, tuple[float, float]] = {}
-    for k, row in enumerate(rows):
-        for j, ball in enumerate(row):
-            placed[ball] = (fx + k * row_step, fy + (j - (len(row) - 1) / 2) * pitch)
-    for ball in sorted(placed, key=int):
-        out[ball] = placed[ball]
-    bad = [b for b, ok in zip(out, geo.is_legal(np.array(list(out.values()))), strict=True)
-           if not ok]
-    if bad:
-        raise LayoutError(f"rack: the {kind} rack does not fit on the {table.name} table "
-                          f"(ball {quoted(bad[0])} would be off the bed or in a cushion)")
-    return out
-
-
 # ----------------------------------------------------------------- helpers
 class _Missing:
     def __repr__(self) -> str:
@@ -529,7 +444,7 @@ def _table_from_json(value: Any, where: str,
                           "an object with \"preset\" and measured values, or "
                           "{\"profile\": \"FILE.json\"}")
     if isinstance(value, Mapping) and "profile" in value:
-        return _table_from_profilefield_path(value, where, base)
+        return _table_from_profile_field(value, where, base)
     if isinstance(value, str):
         try:
             return TableSpec.preset(value)
@@ -542,7 +457,7 @@ def _table_from_json(value: Any, where: str,
                       "{\"profile\": \"FILE.json\"}")
 
 
-def _table_from_profilefield_path(value: Mapping[str, Any], where: str,
+def _table_from_profile_field(value: Mapping[str, Any], where: str,
                               base: str | os.PathLike[str] | None) -> TableSpec:
     """``{"profile": PATH, ...more measured values}`` in a layout's table."""
     ref = value["profile"]
@@ -637,7 +552,7 @@ def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
     overrides = dict(spec.overrides)
     base = PRESETS.get(spec.name)
     rebuilt = base.with_overrides(overrides) if base is not None else None
-    if rebuilt is None or rebuilt != _with_overridesfield_path(spec, rebuilt.overrides):
+    if rebuilt is None or rebuilt != _with_overrides_field(spec, rebuilt.overrides):
         raise LayoutError(f"table {spec.name!r} cannot be written: it is not a preset with "
                           "measured overrides (build it with TableSpec.preset(...)."
                           "with_overrides(...))")
@@ -646,7 +561,7 @@ def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
     return {"preset": spec.name, **overrides}
 
 
-def _with_overridesfield_path(spec: TableSpec, overrides: tuple[tuple[str, Any], ...]) -> TableSpec:
+def _with_overrides_field(spec: TableSpec, overrides: tuple[tuple[str, Any], ...]) -> TableSpec:
     return dataclasses.replace(spec, overrides=overrides)
 
 

@@ -110,24 +110,63 @@ class PlayerErrors:
 
     @classmethod
     def level(cls, name: str) -> PlayerErrors:
-        """A named level of :data:`LEVELS`."""
+        """A named level of :data:`LEVELS`.
+
+        Parameters
+        ----------
+        name : str
+            The level's name.
+
+        Returns
+        -------
+        PlayerErrors
+            Its errors.
+
+        Raises
+        ------
+        InputError
+            If there is no such level (the message lists them).
+        """
         if name not in LEVELS:
             raise InputError(f"{name!r} is not a player level, must be one of "
                              f"{', '.join(LEVELS)} (or give custom numbers)")
         return LEVELS[name]
 
     def describe(self) -> str:
-        """``club player (aim 0.2 deg, speed 8 %, tip 0.05 R)``."""
+        """The level in words.
+
+        Returns
+        -------
+        str
+            For example ``club player (aim 0.2 deg, speed 8 %, tip 0.05 R)``.
+        """
         who = f"{self.name} player" if self.name != "custom" else "custom errors"
         return (f"{who} (aim {self.aim_sd_deg:g}\u00b0, speed {self.speed_sd_pct:g} %, "
                 f"tip {self.tip_sd:g} R, standard deviations)")
 
     def tip_room(self, miscue_limit: float) -> float:
-        """:func:`tip_room` for this player's tip error."""
+        """:func:`tip_room` for this player's tip error.
+
+        Parameters
+        ----------
+        miscue_limit : float
+            Largest tip offset that does not miscue, ball radii.
+
+        Returns
+        -------
+        float
+            The largest offset the code may choose, ball radii (negative: none).
+        """
         return tip_room(miscue_limit, self.tip_sd)
 
     def to_dict(self) -> dict[str, JSONValue]:
-        """The ``level`` object of ``shotplan drill --json``."""
+        """The ``level`` object of ``shotplan drill --json``.
+
+        Returns
+        -------
+        dict
+            Name and the standard deviations of aim, speed and tip.
+        """
         return {"name": self.name, "aim_sd_deg": self.aim_sd_deg,
                 "speed_sd_pct": self.speed_sd_pct, "tip_sd": self.tip_sd}
 
@@ -161,10 +200,31 @@ def _check(miscue_limit: float, tip_sd: float) -> tuple[float, float]:
 
 
 def miscue_probability(offset: float, miscue_limit: float, tip_sd: float) -> float:
-    """The chance that a tip aimed ``offset`` ball radii from the centre lands
-    beyond ``miscue_limit`` under a circular normal error of ``tip_sd`` in
-    each direction (exact; see the module docstring). An offset at or beyond
-    the limit gives at least one half (1 beyond it with no error)."""
+    """The chance that a tip aimed ``offset`` from the centre lands beyond ``miscue_limit``.
+
+    Under a circular normal error of ``tip_sd`` in each direction (exact; see
+    the module docstring). An offset at or beyond the limit gives at least
+    one half (1 beyond it with no error).
+
+    Parameters
+    ----------
+    offset : float
+        Aimed tip offset, ball radii from the centre.
+    miscue_limit : float
+        Largest offset that does not miscue, ball radii (above 0).
+    tip_sd : float
+        Standard deviation of the tip error in each direction, ball radii (0 or more).
+
+    Returns
+    -------
+    float
+        Probability, 0 to 1.
+
+    Raises
+    ------
+    InputError
+        If ``miscue_limit`` or ``tip_sd`` is out of range.
+    """
     L, s = _check(miscue_limit, tip_sd)
     r0 = abs(float(offset))
     if s == 0.0:
@@ -190,14 +250,32 @@ def miscue_probability(offset: float, miscue_limit: float, tip_sd: float) -> flo
 
 
 def tip_room(miscue_limit: float, tip_sd: float) -> float:
-    """The largest tip offset (ball radii from centre, side and height
-    together) the code may choose for a player with tip error ``tip_sd``:
-    at least :data:`TIP_MARGIN_SD` standard deviations inside the limit,
-    with a miscue chance of at most :data:`MISCUE_CAP`. Negative when no
-    setting, not even centre ball, meets the cap.
+    """The largest tip offset the code may choose for a player with tip error ``tip_sd``.
+
+    Side and height together, in ball radii from centre: at least
+    :data:`TIP_MARGIN_SD` standard deviations inside the limit, with a miscue
+    chance of at most :data:`MISCUE_CAP`.
 
     >>> round(tip_room(0.5, 0.04), 3)   # club level, default limit
     0.4
+
+    Parameters
+    ----------
+    miscue_limit : float
+        Largest offset that does not miscue, ball radii (above 0).
+    tip_sd : float
+        Standard deviation of the tip error, ball radii (0 or more).
+
+    Returns
+    -------
+    float
+        The room, ball radii; negative when no setting, not even centre ball,
+        meets the cap.
+
+    Raises
+    ------
+    InputError
+        If ``miscue_limit`` or ``tip_sd`` is out of range.
     """
     L, s = _check(miscue_limit, tip_sd)
     room = L - TIP_MARGIN_SD * s
@@ -218,16 +296,42 @@ def tip_room(miscue_limit: float, tip_sd: float) -> float:
 
 
 def level_tip_room(miscue_limit: float, errors: PlayerErrors | None = None) -> float:
-    """:func:`tip_room` for ``errors``, or for the :data:`DEFAULT_LEVEL` when
-    no level is given (what ``plan`` and ``position`` use without one)."""
+    """:func:`tip_room` for ``errors``, or for the :data:`DEFAULT_LEVEL` when no level is given.
+
+    What ``plan`` and ``position`` use without a level.
+
+    Parameters
+    ----------
+    miscue_limit : float
+        Largest offset that does not miscue, ball radii.
+    errors : PlayerErrors, optional
+        The player's errors.
+
+    Returns
+    -------
+    float
+        The room, ball radii.
+    """
     e = errors if errors is not None else LEVELS[DEFAULT_LEVEL]
     return tip_room(miscue_limit, e.tip_sd)
 
 
 def safe_height(height: float, side: float, room: float) -> float | None:
-    """``height`` moved towards the centre just enough that the offset of
-    ``side`` and ``height`` together lies within ``room``; None if ``side``
-    alone is beyond it (or the room is negative)."""
+    """``height`` moved towards the centre just enough to fit ``room`` with ``side``.
+
+    Parameters
+    ----------
+    height, side : float
+        Tip height and side, ball radii.
+    room : float
+        The largest offset allowed (side and height together), ball radii.
+
+    Returns
+    -------
+    float or None
+        The height to use; None if ``side`` alone is beyond ``room`` (or the
+        room is negative).
+    """
     if room < 0.0 or abs(side) > room:
         return None
     top = math.sqrt(max(room * room - side * side, 0.0))

@@ -55,8 +55,27 @@ class Stroke:
 
     @classmethod
     def from_dict(cls, data: JSONValue, where: str = "stroke") -> Stroke:
-        """Build from a stroke object, checking every field; ``where`` names
-        the place for messages (``'drill.json: stations[2].stroke'``)."""
+        """Build from a stroke object, checking every field.
+
+        Parameters
+        ----------
+        data : JSONValue
+            The parsed stroke object (``direction_deg`` and ``speed_mps``
+            required; ``side``, ``height``, ``elevation_deg`` optional).
+        where : str, optional
+            The place for messages (``'drill.json: stations[2].stroke'``).
+
+        Returns
+        -------
+        Stroke
+            The checked stroke.
+
+        Raises
+        ------
+        StrokeError
+            For a missing or unknown field, a value that is not a number or out of
+            range, naming the field.
+        """
         if not isinstance(data, Mapping):
             raise StrokeError(f"{where}: must be an object with direction_deg and speed_mps, "
                               f"not {type(data).__name__}")
@@ -74,7 +93,23 @@ class Stroke:
         return cls(**values).checked(where)
 
     def checked(self, where: str = "stroke") -> Stroke:
-        """Self, after checking the ranges; raises :class:`StrokeError`."""
+        """Self, after checking the ranges.
+
+        Parameters
+        ----------
+        where : str, optional
+            The place for messages.
+
+        Returns
+        -------
+        Stroke
+            ``self``.
+
+        Raises
+        ------
+        StrokeError
+            For a speed, tip offset, elevation or direction out of range.
+        """
         for key in STROKE_KEYS:
             _number(getattr(self, key), f"{where}.{key}")
         if not 0.0 < self.speed_mps <= MAX_SPEED_MPS:
@@ -93,11 +128,28 @@ class Stroke:
         return self
 
     def to_dict(self) -> dict[str, float]:
-        """The stroke object for a file (every field written)."""
+        """The stroke object for a file (every field written).
+
+        Returns
+        -------
+        dict
+            ``direction_deg``, ``speed_mps``, ``side``, ``height``, ``elevation_deg``.
+        """
         return {k: float(getattr(self, k)) for k in STROKE_KEYS}
 
     def replace(self, **changes: float) -> Stroke:
-        """A copy with some fields changed (checked)."""
+        """A copy with some fields changed (checked).
+
+        Parameters
+        ----------
+        **changes : float
+            New values by field name.
+
+        Returns
+        -------
+        Stroke
+            The changed copy.
+        """
         values = {k: getattr(self, k) for k in STROKE_KEYS}
         values.update(changes)
         return Stroke(**values).checked()
@@ -134,7 +186,18 @@ _SPEED_WORDS = (
 
 
 def speed_word(speed_mps: float) -> str:
-    """The trade's word for a launch speed: touch, slow, medium, fast, power, break."""
+    """The trade's word for a launch speed.
+
+    Parameters
+    ----------
+    speed_mps : float
+        Launch speed, m/s.
+
+    Returns
+    -------
+    str
+        touch, slow, medium, fast, power or break.
+    """
     for limit, word in _SPEED_WORDS:
         if speed_mps < limit:
             return word
@@ -145,14 +208,34 @@ def speed_word(speed_mps: float) -> str:
 # physics values but run no simulation, so this module imports the physics
 # only for type checking (the engine is not loaded by ``import shotplan``).
 def tip_height(tip: str, speed: float, distance: float, physics: Physics) -> float:
-    """Tip height (ball radii) for a tip choice, a launch speed and the cue
-    ball's travel to contact.
+    """Tip height for a tip choice, a launch speed and the cue ball's travel to contact.
 
     ``stun`` is the draw that exactly wears off at contact: while sliding, the
     spin about the horizontal changes at ``5 mu_s g / (2R)`` and the speed at
     ``mu_s g``; with ``w0 = 5 h v0 / (2R)`` from the strike, zero spin at the
     contact time ``t_c`` needs ``h = -mu_s g t_c / v0`` where
     ``distance = v0 t_c - mu_s g t_c^2 / 2``.
+
+    Parameters
+    ----------
+    tip : str
+        One of :data:`TIPS` (``stun``, ``follow``, ``draw``...).
+    speed : float
+        Launch speed, m/s.
+    distance : float
+        The cue ball's travel to contact, m.
+    physics : Physics
+        Cloth friction, gravity and ball radius.
+
+    Returns
+    -------
+    float
+        Tip height in ball radii (negative below centre).
+
+    Raises
+    ------
+    InputError
+        If ``tip`` is not a tip choice.
     """
     limit = physics.miscue_limit * 0.9
     if tip == "follow":
@@ -173,9 +256,33 @@ def tip_height(tip: str, speed: float, distance: float, physics: Physics) -> flo
 
 def default_speed(cut_deg: float, cue_distance: float, object_path: float, physics: Physics,
                   tip: str = "stun", rails: int = 0, arrive_mps: float = 0.6) -> float:
-    """A launch speed that brings the object ball to the pocket at a sensible
-    pace (``arrive_mps``, rolling), from the closed forms of sliding and
-    rolling and the impact laws; the simulator then checks it."""
+    """A launch speed that brings the object ball to the pocket at a sensible pace.
+
+    From the closed forms of sliding and rolling and the impact laws; the
+    simulator then checks it.
+
+    Parameters
+    ----------
+    cut_deg : float
+        Cut angle, degrees.
+    cue_distance : float
+        The cue ball's travel to contact, m.
+    object_path : float
+        The object ball's path to the pocket, m.
+    physics : Physics
+        The physics values.
+    tip : str, optional
+        The tip choice (``stun`` by default).
+    rails : int, optional
+        Cushions the object ball meets on the way (each takes speed).
+    arrive_mps : float, optional
+        The rolling speed wanted at the pocket (0.6 m/s).
+
+    Returns
+    -------
+    float
+        Launch speed, m/s.
+    """
     g = physics.gravity
     v_roll = math.sqrt(arrive_mps**2 + 2.0 * physics.cloth_rolling_resistance * g * object_path)
     v_ob = 7.0 / 5.0 * v_roll / (physics.cushion_restitution ** rails)

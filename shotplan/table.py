@@ -27,7 +27,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from functools import cached_property
+from functools import cached_property, lru_cache
 
 import numpy as np
 import shapely
@@ -37,7 +37,7 @@ from shapely.ops import nearest_points, unary_union
 from .equipment import PocketSpec, TableSpec, effective_tip_radius_m
 from .errors import InputError, UnknownName, quoted
 
-__all__ = ["Pocket", "Table", "POCKET_NAMES", "Jaw"]
+__all__ = ["Pocket", "Table", "POCKET_NAMES", "Jaw", "table_for"]
 
 POCKET_NAMES: tuple[str, ...] = (
     "head-right",
@@ -654,3 +654,23 @@ def _segment_distance(pts: np.ndarray, x0: float, y0: float, x1: float, y1: floa
         return np.hypot(pts[:, 0] - x0, pts[:, 1] - y0)
     t = np.clip(((pts[:, 0] - x0) * dx + (pts[:, 1] - y0) * dy) / L2, 0.0, 1.0)
     return np.hypot(pts[:, 0] - (x0 + t * dx), pts[:, 1] - (y0 + t * dy))
+
+
+@lru_cache(maxsize=32)
+def table_for(spec: TableSpec) -> Table:
+    """The geometry of ``spec``, built once per distinct spec and then shared.
+
+    Building a :class:`Table` costs a few shapely operations; layouts that
+    share a spec (every edit of one layout does) share its geometry.
+
+    Parameters
+    ----------
+    spec : TableSpec
+        The table spec (hashable: a frozen dataclass).
+
+    Returns
+    -------
+    Table
+        Its geometry (the same object for equal specs, while cached).
+    """
+    return Table(spec)

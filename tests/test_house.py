@@ -28,7 +28,7 @@ LAYERS: list[set[str]] = [
     {"stroke", "aim"},
     {"physics"},
     {"layout"},
-    {"search"},
+    {"search", "racks"},
     {"study", "cushion", "position"},
     {"drills"},
     {"render"},

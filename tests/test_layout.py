@@ -17,7 +17,8 @@ from hypothesis import strategies as st
 import shotplan.files.write as fileio
 from shotplan import Layout, LayoutError, Problem, Stroke, Table, TableSpec, load_layout
 from shotplan.equipment import PRESETS
-from shotplan.layout import rack, save_layout
+from shotplan.layout import save_layout
+from shotplan.racks import rack
 
 ASSETS = Path(__file__).resolve().parent.parent / "assets" / "layouts"
 DEMOS = sorted(ASSETS.glob("club-night-*.json"))

@@ -134,7 +134,7 @@ def test_legal_spot_hand_worked():
 
 
 def test_legal_spot_in_a_crowd_is_legal_and_clear():
-    from shotplan.layout import rack
+    from shotplan.racks import rack
 
     pos = rack("8-ball", SPEC)
     others = [xy for b, xy in pos.items() if b != "cue"]

@@ -13,7 +13,7 @@ import numpy as np
 import pytest
 
 from shotplan.equipment import TableSpec
-from shotplan.layout import new_layout, start_spot
+from shotplan.racks import new_layout, start_spot
 from shotplan.table import Table
 
 STEP = 0.004  # grid step, m

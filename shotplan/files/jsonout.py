@@ -34,9 +34,31 @@ def _key(path: str, key: object) -> str:
 
 
 def strict(value: object, path: str = "") -> JSONValue:
-    """``value`` as plain JSON types (numpy scalars and arrays, tuples and
-    sets become numbers and lists); raise :class:`NonFiniteError` naming the
-    path of the first NaN or infinity."""
+    """``value`` as plain JSON types, refusing NaN and infinity.
+
+    Numpy scalars and arrays, tuples and sets become numbers and lists
+    (sets sorted by ``repr``); mapping keys become strings.
+
+    Parameters
+    ----------
+    value : object
+        What to print.
+    path : str, optional
+        Where ``value`` sits in the document (starts the paths in messages).
+
+    Returns
+    -------
+    JSONValue
+        The same value in ``dict``, ``list``, ``str``, ``int``, ``float``,
+        ``bool`` and ``None``.
+
+    Raises
+    ------
+    NonFiniteError
+        At the first NaN or infinity, naming its path (``[0].throw_deg``).
+    TypeError
+        For a value JSON cannot hold, naming its path.
+    """
     if value is None or isinstance(value, bool | str):
         return value
     if isinstance(value, int):
@@ -58,7 +80,20 @@ def strict(value: object, path: str = "") -> JSONValue:
 
 
 def dumps(value: object, indent: int | None = 2) -> str:
-    """Strict JSON text of ``value`` (see :func:`strict`)."""
+    """Strict JSON text of ``value`` (see :func:`strict`).
+
+    Parameters
+    ----------
+    value : object
+        What to print.
+    indent : int or None, optional
+        Indentation (2 by default; ``None``: one line).
+
+    Returns
+    -------
+    str
+        The JSON text (UTF-8 characters kept, no escapes).
+    """
     return json.dumps(strict(value), indent=indent, ensure_ascii=False, allow_nan=False)
 
 
@@ -66,7 +101,15 @@ def emit(value: object, stream: TextIO | None = None) -> None:
     """Print ``value`` as strict JSON on ``stream`` (stdout by default).
 
     The whole text is built before anything is printed, so a refused value
-    leaves no half document on stdout."""
+    leaves no half document on stdout.
+
+    Parameters
+    ----------
+    value : object
+        What to print (see :func:`strict`).
+    stream : TextIO, optional
+        Where to print; ``sys.stdout`` by default.
+    """
     text = dumps(value)
     print(text, file=stream if stream is not None else sys.stdout)
 
@@ -76,7 +119,19 @@ def missing_as_null(value: object) -> JSONValue:
 
     Only for tabulated results where a gap has a stated meaning (a window
     that does not exist at that cut, a standard error that cannot be
-    estimated); the caller's docs say what ``null`` means there."""
+    estimated); the caller's docs say what ``null`` means there.
+
+    Parameters
+    ----------
+    value : object
+        A float, a mapping, a list or tuple, or a numpy value, nested.
+
+    Returns
+    -------
+    JSONValue
+        The same structure, gaps as ``None`` (mappings stay mappings, tuples
+        become lists, numpy values plain numbers and lists).
+    """
     if isinstance(value, float):
         return value if math.isfinite(value) else None
     if isinstance(value, Mapping):

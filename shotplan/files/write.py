@@ -61,14 +61,25 @@ _force = False
 
 
 def set_force(on: bool) -> None:
-    """Allow (``True``) or refuse (``False``, the default) replacing read-only
-    files; the command line sets it from ``--force``."""
+    """Allow or refuse replacing read-only files (the command line's ``--force``).
+
+    Parameters
+    ----------
+    on : bool
+        ``True`` allows, ``False`` (the default state) refuses.
+    """
     global _force
     _force = bool(on)
 
 
 def force_enabled() -> bool:
-    """Whether read-only outputs may be replaced (see :func:`set_force`)."""
+    """Whether read-only outputs may be replaced (see :func:`set_force`).
+
+    Returns
+    -------
+    bool
+        The current setting.
+    """
     return _force
 
 
@@ -118,11 +129,34 @@ def _check_target(target: Path, shown: str, force: bool | None) -> None:
 
 def check_output_path(path: str | os.PathLike[str], suffixes: tuple[str, ...] | None = None,
                       *, force: bool | None = None) -> Path:
-    """Check that ``path`` can be written, before any work is done: its suffix
-    is one of ``suffixes`` (if given), its folder exists, and what it names
-    (through symbolic links) is a regular file or nothing, and not read-only
-    unless ``force`` (default: :func:`force_enabled`). Returns ``Path(path)``;
-    raises :class:`InputError` with one line naming the path."""
+    """Check that ``path`` can be written, before any work is done.
+
+    Its suffix is one of ``suffixes`` (if given), its folder exists, and what
+    it names (through symbolic links) is a regular file or nothing, and not
+    read-only unless ``force``.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The output file, as the user gave it.
+    suffixes : tuple of str, optional
+        Allowed suffixes, lower case with the dot (``(".png", ".svg")``).
+    force : bool, optional
+        Replace a read-only file; default :func:`force_enabled`.
+
+    Returns
+    -------
+    Path
+        ``Path(path)``.
+
+    Raises
+    ------
+    InputError
+        One line naming the path: a wrong suffix, a missing folder, a folder or
+        other non-regular file, a read-only file without ``force``.
+    WriteError
+        If the path cannot be examined (no permission).
+    """
     p = Path(path)
     shown = show_path(p)
     if suffixes is not None and p.suffix.lower() not in suffixes:
@@ -162,10 +196,24 @@ def _process_gone(pid: int) -> bool:
 
 
 def stale_temporaries(path: str | os.PathLike[str], now: float | None = None) -> list[Path]:
-    """Temporary files of earlier writes to ``path`` that can go: ours, made
-    on this machine by a process that no longer runs, or in the older form
-    without an owner and older than :data:`LEGACY_STALE_SECONDS`; all older
-    than ``now``. Never a folder or a link."""
+    """Temporary files of earlier writes to ``path`` that can go.
+
+    Ours, made on this machine by a process that no longer runs, or in the
+    older form without an owner and older than :data:`LEGACY_STALE_SECONDS`;
+    all older than ``now``. Never a folder or a link.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The target whose temporary files are looked for (in its folder).
+    now : float, optional
+        The current time (``time.time()`` by default).
+
+    Returns
+    -------
+    list of Path
+        The temporary files that may be removed (empty if the folder cannot be read).
+    """
     target = Path(path)
     parent = target.parent if str(target.parent) else Path(".")
     stem = _temp_stem(target.name)
@@ -218,8 +266,27 @@ def atomic_path(path: str | os.PathLike[str], *, force: bool | None = None) -> I
     not exist until you do). It is fsync'd before the rename, so a crash
     leaves either the old or the new file. ``path`` is checked as by
     :func:`check_output_path` (a link is written through; only a regular file
-    is replaced; a read-only one only with ``force``). A failure to write
-    raises :class:`~shotplan.errors.WriteError` naming ``path``.
+    is replaced; a read-only one only with ``force``).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file to write, as the user gave it (messages name it).
+    force : bool, optional
+        Replace a read-only file; default :func:`force_enabled`.
+
+    Yields
+    ------
+    Path
+        The temporary file to write, in the target's folder.
+
+    Raises
+    ------
+    InputError
+        If the target is not a regular file, is read-only without ``force``, or
+        its folder does not exist.
+    WriteError
+        If writing or renaming fails (a full disk, no permission), naming ``path``.
     """
     user = Path(path)
     shown = show_path(user)
@@ -271,7 +338,17 @@ def _umask() -> int:
 
 def atomic_write_bytes(path: str | os.PathLike[str], data: bytes, *,
                        force: bool | None = None) -> None:
-    """Write ``data`` to ``path`` atomically (see :func:`atomic_path`)."""
+    """Write ``data`` to ``path`` atomically (see :func:`atomic_path`).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file to write.
+    data : bytes
+        Its whole content.
+    force : bool, optional
+        Replace a read-only file; default :func:`force_enabled`.
+    """
     with atomic_path(path, force=force) as tmp:
         fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
         with open(fd, "wb") as fh:
@@ -280,7 +357,17 @@ def atomic_write_bytes(path: str | os.PathLike[str], data: bytes, *,
 
 def atomic_write_text(path: str | os.PathLike[str], text: str, *,
                       force: bool | None = None) -> None:
-    """Write ``text`` (UTF-8) to ``path`` atomically."""
+    """Write ``text`` (UTF-8) to ``path`` atomically (see :func:`atomic_path`).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file to write.
+    text : str
+        Its whole content.
+    force : bool, optional
+        Replace a read-only file; default :func:`force_enabled`.
+    """
     atomic_write_bytes(path, text.encode("utf-8"), force=force)
 
 
@@ -291,11 +378,18 @@ def _raise_terminated(signum: int, _frame: Any) -> None:
 
 @contextlib.contextmanager
 def handle_termination() -> Iterator[None]:
-    """Inside the block, SIGTERM and SIGHUP unwind the main thread as SIGINT
-    does (a :class:`~shotplan.errors.Terminated`, a ``KeyboardInterrupt``),
+    """Make SIGTERM and SIGHUP unwind the main thread as SIGINT does, inside the block.
+
+    They raise :class:`~shotplan.errors.Terminated` (a ``KeyboardInterrupt``),
     so temporary files are removed and the old output stays whole. The
     previous handlers come back afterwards. Elsewhere than in the main
-    thread, it does nothing."""
+    thread, it does nothing.
+
+    Yields
+    ------
+    None
+        Inside the block the handlers are installed.
+    """
     if threading.current_thread() is not threading.main_thread():
         yield
         return

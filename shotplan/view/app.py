@@ -37,7 +37,8 @@ from ..aim import direction_deg, overlap_word
 from ..equipment import TableSpec
 from ..errors import ShotplanError
 from ..files.write import atomic_path, check_output_path
-from ..layout import Layout, load_layout, new_layout, save_layout
+from ..layout import Layout, load_layout, save_layout
+from ..racks import new_layout
 from ..render.overlays import shot_scene
 from ..render.scene import Scene, Shape
 from ..render.table_shapes import layout_scene, table_scene

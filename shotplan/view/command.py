@@ -89,7 +89,7 @@ def run_view(args: argparse.Namespace) -> int:
         os.environ["SDL_VIDEODRIVER"] = "dummy"
     import pygame
 
-    from ..layout import new_layout
+    from ..racks import new_layout
     from .app import App
 
     if layout is None and spec is not None:

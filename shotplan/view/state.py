@@ -28,8 +28,9 @@ from typing import Any
 import numpy as np
 
 from ..errors import InputError, LayoutError
-from ..layout import Layout, Problem, new_layout, rack, start_spot
+from ..layout import Layout, Problem
 from ..physics.params import Physics
+from ..racks import new_layout, rack, start_spot
 from ..stroke import MAX_SPEED_MPS, Stroke
 from ..table import Table
 
