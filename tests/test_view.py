@@ -462,17 +462,17 @@ def test_recovery_file_is_written_and_offered_back(tmp_path):
 
     # While the first view runs, a second one does not offer its work.
     second = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
-    assert second.recovered is None and second._recovery_dialog is None
+    assert second.recovered is None and second.keeper.dialog is None
 
     # The first view ends without saving: the next start finds its work and
     # asks; Restore brings it back, unsaved, as the new session's own.
     app.close()
     again = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder, offer_recovery=True)
-    assert again.recovered is not None and again._recovery_dialog is not None
+    assert again.recovered is not None and again.keeper.dialog is not None
     # ...and while it asks, no other start offers the same file.
     rival = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
     assert rival.recovered is None
-    click_widget(again, again._recovery_dialog.restore)
+    click_widget(again, again.keeper.dialog.restore)
     assert again.state.layout.positions() == st.layout.positions()
     assert again.state.settings.speed_mps == 2.5
     assert again.state.path == str(DEMO)
@@ -482,7 +482,7 @@ def test_recovery_file_is_written_and_offered_back(tmp_path):
     # It ends too; a third start discards its work: only that file goes.
     again.close()
     third = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
-    click_widget(third, third._recovery_dialog.discard)
+    click_widget(third, third.keeper.dialog.discard)
     assert not again.session.path.exists()
     assert sorted(folder.glob("*.json")) == []
 
@@ -541,7 +541,7 @@ def test_closing_the_recovery_question_keeps_the_old_work(tmp_path):
     first.update(1.0)
     first.close()
     again = make_app(tmp_path, load_layout(DEMO), DEMO, recovery_dir=folder, offer_recovery=True)
-    again._recovery_dialog.kill()  # the window's close button
+    again.keeper.dialog.kill()  # the window's close button
     again.update(0.02)
     kept = list(folder.glob("*.kept"))
     assert len(kept) == 1 and read_recovery(kept[0]).snapshot.settings.speed_mps == 2.6
@@ -594,7 +594,7 @@ def test_recovered_source_is_checked_before_it_is_the_save_target(tmp_path, sour
     doc["source"] = source.format(demo=DEMO, tmp=tmp_path)
     first.session.path.write_text(json.dumps(doc))
     again = make_app(tmp_path, None, recovery_dir=folder, offer_recovery=True)
-    click_widget(again, again._recovery_dialog.restore)
+    click_widget(again, again.keeper.dialog.restore)
     assert again.state.settings.speed_mps == 2.6
     assert again.state.path == (doc["source"] if usable else None)
     if usable:

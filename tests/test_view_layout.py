@@ -110,7 +110,8 @@ def test_dialogs_move_into_a_smaller_window(tmp_path):
 
 @pytest.mark.parametrize("size", SIZES)
 def test_the_key_help_fits_the_window(size):
-    from shotplan.view.app import HELP_ROWS, help_box
+    from shotplan.view.frame import help_box
+    from shotplan.view.keys import HELP_ROWS
 
     box, line, text_px = help_box(size)
     assert pygame.Rect(0, 0, *size).contains(box)
@@ -119,12 +120,12 @@ def test_the_key_help_fits_the_window(size):
 
 
 def test_long_hints_wrap_to_the_table_width():
-    from shotplan.view.app import _wrap
+    from shotplan.view.frame import wrap_px
     from shotplan.view.draw import Painter
 
     font = Painter().font(14)
     text = "not aimed yet: click an object ball, then a pocket, or drag on the cloth to aim the cue"
-    lines = _wrap(font, text, 200)
+    lines = wrap_px(font, text, 200)
     assert len(lines) > 1 and " ".join(lines) == text
     assert all(font.size(line)[0] <= 200 for line in lines)
 
@@ -354,7 +355,7 @@ def test_the_view_draws_the_paths_in_those_styles(tmp_path):
 def test_the_window_opens_inside_a_small_screen():
     # A window larger than its screen hides its own panels: the view opens at
     # most 92 % of the desktop, never below the smallest size it lays out.
-    from shotplan.view.app import fit_screen
+    from shotplan.view.frame import fit_screen
     from shotplan.view.panels import MIN_SIZE
 
     assert fit_screen((1280, 800), [(1920, 1080)]) == (1280, 800)

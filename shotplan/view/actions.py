@@ -21,14 +21,14 @@ __all__ = ["ACTIONS"]
 
 def _open(app: App, value: Any) -> None:
     if app.state.dirty:
-        app._confirm_drop()
+        app.confirm_drop()
     else:
-        app._file_dialog("open")
+        app.file_dialog("open")
 
 
 def _dialog(purpose: str) -> Callable[[App, Any], None]:
     def act(app: App, value: Any) -> None:
-        app._file_dialog(purpose)
+        app.file_dialog(purpose)
     return act
 
 
@@ -121,7 +121,7 @@ def _tip(app: App, value: Any) -> None:
 
 
 def _tip_preset(app: App, value: Any) -> None:
-    app._tip_preset(str(value))
+    app.tip_preset(str(value))
 
 
 def _proposal(app: App, value: Any) -> None:
@@ -139,11 +139,11 @@ def _next_proposal(app: App, value: Any) -> None:
 
 
 def _next_ball(app: App, value: Any) -> None:
-    app._cycle_ball(int(value))
+    app.cycle_ball(int(value))
 
 
 def _next_pocket(app: App, value: Any) -> None:
-    app._cycle_pocket(int(value))
+    app.cycle_pocket(int(value))
 
 
 def _escape(app: App, value: Any) -> None:
@@ -154,7 +154,7 @@ def _escape(app: App, value: Any) -> None:
 
 
 def _recovery(app: App, value: Any) -> None:
-    app._answer_recovery(value == "restore")
+    app.answer_recovery(value == "restore")
 
 
 def _quit(app: App, value: Any) -> None:

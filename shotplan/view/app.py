@@ -23,7 +23,6 @@ from __future__ import annotations
 
 import math
 import os
-from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -33,7 +32,7 @@ import pygame_gui
 from pygame_gui.elements import UIWindow
 from pygame_gui.windows import UIConfirmationDialog, UIMessageWindow
 
-from ..aim import direction_deg, overlap_word
+from ..aim import direction_deg
 from ..equipment import TableSpec
 from ..errors import ShotplanError
 from ..files.write import atomic_path, check_output_path
@@ -45,41 +44,21 @@ from ..render.table_shapes import layout_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
 from .draw import Painter, TableCache, rgb
-from .keys import HELP_ROWS, KEYS, binding_for
-from .layers import (
-    aim_layer,
-    balls_layer,
-    cue_layer,
-    off_table_layer,
-    prediction_layer,
-    selection_layer,
-    shown_positions,
-    window_layer,
-)
-from .panels import MIN_SIZE, Panels, PathDialog, RecoveryDialog
+from .frame import BACKGROUND, draw_help, draw_loading, draw_notes, fit_screen
+from .keeping import Keeper
+from .keys import binding_for
+from .layers import shown_positions, view_shapes
+from .panels import MIN_SIZE, Panels, PathDialog
 from .predict import Predictor
-from .recovery import (
-    Claim,
-    Recovered,
-    Session,
-    checked_source,
-    claim,
-    default_recovery_dir,
-    left_over,
-    read_recovery,
-    set_aside,
-)
-from .state import FreeAim, Playback, PocketAim, ViewState
-from .transform import Transform, to_diamonds
+from .recovery import Recovered, Session, default_recovery_dir
+from .state import Playback, PocketAim, ViewState
+from .transform import Transform
+from .words import aim_html, escape_markup, pointer_words, title_text
 
-__all__ = ["App", "KEYS", "HELP_ROWS", "help_box", "DEFAULT_SIZE", "new_layout", "theme_resource",
-           "DEFAULT_RECOVERY"]
+__all__ = ["App", "DEFAULT_SIZE", "theme_resource", "DEFAULT_RECOVERY"]
 
 DEFAULT_SIZE = (1280, 800)
 """The window's size when it opens, px."""
-
-BACKGROUND = "#171918"
-"""Behind the table: a dark, slightly warm grey that lets the rail read."""
 
 AUTOSAVE_DELAY_S = 0.5
 """The recovery file is written this long after the last edit (view time, s)."""
@@ -90,37 +69,20 @@ DRAG_PX = 4
 DIAGRAM_SUFFIXES = (".png", ".svg", ".pdf")
 """What Export writes."""
 
-def help_box(size: tuple[int, int]) -> tuple[pygame.Rect, int, int]:
-    """Where the key help goes in a window of ``size`` px: its box, the row
-    height and the text size, px. 23 px a row where there is room; closer
-    rows and smaller text in a low window, so that the whole list fits (its
-    rows start 18 px into the box; the last 36 px hold the closing hint)."""
-    w, h = size
-    line = max(16, min(23, (h - 40 - 70) // len(HELP_ROWS)))
-    bw, bh = min(760, w - 40), min(line * len(HELP_ROWS) + 70, h - 40)
-    return pygame.Rect((w - bw) // 2, (h - bh) // 2, bw, bh), line, min(15, line - 5)
-
-
 _DEFAULT: Any = object()
 DEFAULT_RECOVERY: Any = _DEFAULT
 """Pass as ``recovery_dir`` to use :func:`shotplan.view.recovery.default_recovery_dir`."""
 
 
-def theme_resource() -> Any:
-    """The view's pygame_gui theme (``shotplan/view/theme.json``, package data)."""
+def theme_resource() -> pygame_gui.PackageResource:
+    """The view's pygame_gui theme.
+
+    Returns
+    -------
+    PackageResource
+        ``shotplan/view/theme.json``, package data.
+    """
     return pygame_gui.PackageResource(package="shotplan.view", resource="theme.json")
-
-
-def fit_screen(size: tuple[int, int], desktops: Sequence[tuple[int, int]]) -> tuple[int, int]:
-    """The window size to open: ``size``, shrunk to 92 % of the first desktop
-    when that is smaller (a window larger than its screen hides its own
-    panels), but never below :data:`MIN_SIZE`."""
-    if not desktops:
-        return size
-    dw, dh = desktops[0]
-    w = min(size[0], int(0.92 * dw))
-    h = min(size[1], int(0.92 * dh))
-    return (max(w, MIN_SIZE[0]), max(h, MIN_SIZE[1]))
 
 
 @dataclass
@@ -173,12 +135,9 @@ class App:
         """The view's clock: the sum of the time steps given to :meth:`update`, s."""
         self.help_visible = False
         folder = default_recovery_dir() if recovery_dir is _DEFAULT else recovery_dir
-        self.session: Session | None = Session(folder) if folder else None
-        """This view's own recovery file (``None``: unsaved work is kept nowhere)."""
+        self.keeper = Keeper(folder, self.state.revision, self.say)
+        """Unsaved work: this view's recovery file and the question about others'."""
         self.offer_recovery = offer_recovery
-        self.recovered: Recovered | None = None
-        """Unsaved work left over by another view, while the question is open."""
-        self._claim: Claim | None = None
         self.note = ""
         """The last thing the view said (status line)."""
         self.hover_pos: tuple[int, int] | None = None
@@ -189,9 +148,7 @@ class App:
         self._drag_target: tuple[float, float] | None = None
         self._tip_drag = False
         self._dialogs: dict[Any, str] = {}
-        self._recovery_dialog: RecoveryDialog | None = None
         self._last_rev = self.state.revision
-        self._autosaved_rev = self.state.revision
         self._edit_time = 0.0
         self._shapes_key: Any = None
         self._shapes: list[Shape] = []
@@ -217,8 +174,8 @@ class App:
         self.table_cache = TableCache(self.painter)
         self.panels = Panels(self.manager, self.size)
         self._started = True
-        if self.offer_recovery and self.session is not None:
-            self._offer_recovery()
+        if self.offer_recovery:
+            self.keeper.offer(self.manager, self.size)
         if self.state.load_message:
             self._message("Could not open the layout", self.state.load_message)
 
@@ -251,6 +208,16 @@ class App:
             self._scene = (spec, table_scene(self.state.table))
         return self._scene[1]
 
+    @property
+    def session(self) -> Session | None:
+        """This view's own recovery file (``None``: unsaved work is kept nowhere)."""
+        return self.keeper.session
+
+    @property
+    def recovered(self) -> Recovered | None:
+        """Unsaved work left over by another view, while the question is open."""
+        return self.keeper.recovered
+
     # ----------------------------------------------------------- messages
     def say(self, text: str, seconds: float = 6.0) -> None:
         """Show ``text`` in the status line for a while."""
@@ -261,117 +228,29 @@ class App:
         assert self.manager is not None
         w, h = 520, 220
         rect = pygame.Rect((self.size[0] - w) // 2, (self.size[1] - h) // 2, w, h)
-        UIMessageWindow(rect, _escape(text), self.manager, window_title=title)
+        UIMessageWindow(rect, escape_markup(text), self.manager, window_title=title)
         self.say(text)
 
     def _modal(self) -> bool:
         """Whether a dialog that must be answered first is open."""
         # A file dialog kills itself as it posts the path picked, so closed
         # dialogs stay listed until their event has been handled.
-        if self._recovery_dialog is not None and not self._recovery_dialog.alive():
-            self._recovery_dialog = None
-            if self.recovered is not None:
-                self._keep_recovery()  # closed without an answer
-        return any(w.alive() for w in self._dialogs) or self._recovery_dialog is not None
+        question = self.keeper.question_open()
+        return any(w.alive() for w in self._dialogs) or question
 
     # ----------------------------------------------------------- recovery
-    def _offer_recovery(self) -> None:
-        """Ask about the oldest left-over recovery file whose view has ended
-        (its lock taken, so no other view offers it at the same time)."""
-        assert self.session is not None and self.manager is not None
-        for path in left_over(self.session.folder, own=self.session.path):
-            held = claim(path)
-            if held is None:
-                continue  # its view still runs, or another start has it
-            try:
-                found = read_recovery(path)
-            except ShotplanError as e:
-                bad = set_aside(path)
-                held.release(remove=bad is not None)
-                self.say(f"a recovery file could not be read ({e}); it was kept as {bad}")
-                continue
-            if found is None:
-                held.release()
-                continue
-            self.recovered, self._claim = found, held
-            src = f"from {found.source}" if found.source else "on a new layout"
-            when = (found.written.replace("T", " ").replace("Z", " UTC") if found.written
-                    else "earlier")
-            text = (f"A table view ended with work not saved ({_escape(src)}, kept "
-                    f"{_escape(when)}).<br><br>Restore it, or discard it?")
-            self._recovery_dialog = RecoveryDialog(self.manager, self.size, text)
-            return
-
-    def _answer_recovery(self, restore: bool) -> None:
-        found, held = self.recovered, self._claim
-        self.recovered, self._claim = None, None
-        if self._recovery_dialog is not None:
-            self._recovery_dialog.kill()
-            self._recovery_dialog = None
-        if found is None or held is None or self.session is None:
-            return
-        if restore:
-            source, why = checked_source(found.source)
-            self.state.restore_snapshot(found.snapshot, source)
-            self._autosaved_rev = -1
-            try:  # the work is this session's own before the old file goes
-                self.session.write(self.state)
-                self._autosaved_rev = self.state.revision
-            except (OSError, ShotplanError) as e:
-                held.release()
-                self.say(f"restored the unsaved work; its recovery file is kept ({e})")
-                return
-            held.release(remove=True)
-            self.say("restored the unsaved work" + (
-                f"; it will not be saved to its old file ({why}): use Save as" if why else
-                f" (Save writes to {source})" if source else ""))
-        else:
-            held.release(remove=True)
-            self.say("discarded the unsaved work")
-        if self._started:
-            self._offer_recovery()  # the next one left over, if any
-
-    def _keep_recovery(self) -> None:
-        """The question was closed unanswered: the old work is renamed so that
-        it is never offered again (nothing is lost); this session goes on."""
-        self.recovered = None
-        held, self._claim = self._claim, None
-        if held is None:
-            return
-        kept = set_aside(held.path, "kept")
-        held.release(remove=kept is not None)
-        if kept is None:
-            self.say("the unsaved work left over could not be set aside; it is offered again "
-                     "at the next start")
-        else:
-            self.say(f"the unsaved work left over was kept in {kept}")
+    def answer_recovery(self, restore: bool) -> None:
+        """Restore the unsaved work asked about, or discard it (see :class:`Keeper`)."""
+        self.keeper.answer(restore, self.state, self.manager if self._started else None,
+                           self.size)
 
     def _autosave(self, force: bool = False) -> None:
-        st = self.state
-        if self.session is None or self.recovered is not None:
-            return  # nothing to keep, or the old work is not answered for yet
-        if st.revision == self._autosaved_rev:
-            return
-        if not force and self.now - self._edit_time < AUTOSAVE_DELAY_S:
-            return
-        self._autosaved_rev = st.revision
-        try:
-            if st.dirty:
-                self.session.write(st)
-            else:
-                self.session.discard()
-        except (OSError, ShotplanError) as e:
-            self.say(f"the recovery file could not be written: {e}")
+        self.keeper.autosave(self.state, force or self.now - self._edit_time >= AUTOSAVE_DELAY_S)
 
     def close(self) -> None:
         """Write what is unsaved to this session's recovery file (or remove it
         if all is saved) and let it go: a later start offers it back."""
-        self._autosave(force=True)
-        if self._claim is not None:  # asked, never answered: offered again next time
-            self._claim.release()
-            self._claim = None
-        if self.session is not None:
-            self.session.close()
+        self.keeper.close(self.state)
 
     # -------------------------------------------------------------- files
     def open_file(self, path: str | os.PathLike[str]) -> bool:
@@ -396,7 +275,7 @@ class App:
         """Save the layout with the stroke set up (to its own file if no path)."""
         target = path if path is not None else self.state.path
         if target is None:
-            self._file_dialog("save-as")
+            self.file_dialog("save-as")
             return False
         try:
             save_layout(self.state.layout_to_save(), target)
@@ -404,9 +283,7 @@ class App:
             self._message("Could not save", str(e))
             return False
         self.state.mark_saved(str(target))
-        if self.session is not None and self.recovered is None:
-            self.session.discard()
-            self._autosaved_rev = self.state.revision
+        self.keeper.saved(self.state)
         self.say(f"saved {target}")
         return True
 
@@ -432,7 +309,8 @@ class App:
         self.say(f"exported {out}")
         return True
 
-    def _file_dialog(self, purpose: str) -> None:
+    def file_dialog(self, purpose: str) -> None:
+        """Open the dialog to pick a file: ``open``, ``save-as`` or ``export``."""
         assert self.manager is not None
         st = self.state
         here = Path(st.path).resolve().parent if st.path else Path.cwd()
@@ -450,7 +328,7 @@ class App:
                               allow_existing_files_only=(purpose == "open"))
         self._dialogs[dialog] = purpose
 
-    def _confirm_drop(self) -> None:
+    def confirm_drop(self) -> None:
         """Ask before an Open replaces unsaved work."""
         assert self.manager is not None
         w, h = 440, 220
@@ -472,7 +350,9 @@ class App:
         except (ShotplanError, KeyError) as e:
             self.say(str(e).strip("'\""))
 
-    def _tip_preset(self, tip: str) -> None:
+    def tip_preset(self, tip: str) -> None:
+        """Set the tip for ``tip`` (``centre``, ``follow``, ``stun``, ``draw``)
+        at the speed and distance of the shot set up, within the miscue limit."""
         st = self.state
         side = st.settings.side
         limit = st.miscue_limit
@@ -533,17 +413,17 @@ class App:
         if event.type == pygame_gui.UI_CONFIRMATION_DIALOG_CONFIRMED and \
                 self._dialogs.get(event.ui_element) == "confirm-open":
             del self._dialogs[event.ui_element]
-            self._file_dialog("open")
+            self.file_dialog("open")
             return True
         if event.type == pygame_gui.UI_FILE_DIALOG_PATH_PICKED and event.ui_element in self._dialogs:
             purpose = self._dialogs.pop(event.ui_element)
             {"open": self.open_file, "save-as": self.save_file,
              "export": self.export_file}[purpose](event.text)
             return True
-        rec = self._recovery_dialog
-        if event.type == pygame_gui.UI_BUTTON_PRESSED and rec is not None and \
-                event.ui_element in (rec.restore, rec.discard):
-            self.do("recovery", "restore" if event.ui_element is rec.restore else "discard")
+        choice = self.keeper.button(event.ui_element) \
+            if event.type == pygame_gui.UI_BUTTON_PRESSED else None
+        if choice is not None:
+            self.do("recovery", choice)
             return True
         return False
 
@@ -692,7 +572,8 @@ class App:
         self.do(binding.action, binding.value)
         return True
 
-    def _cycle_ball(self, step: int) -> None:
+    def cycle_ball(self, step: int) -> None:
+        """Select the next (``step`` 1) or previous (-1) object ball."""
         balls = self.state.object_balls
         if not balls:
             return
@@ -700,7 +581,8 @@ class App:
         k = balls.index(cur) + step if cur in balls else (0 if step > 0 else -1)
         self.state.select(balls[k % len(balls)])
 
-    def _cycle_pocket(self, step: int) -> None:
+    def cycle_pocket(self, step: int) -> None:
+        """Aim the selected ball at the next (``step`` 1) or previous (-1) pocket."""
         st = self.state
         ball = st.selection if st.selection not in (None, "cue") else (
             st.aim.ball if isinstance(st.aim, PocketAim) else None)
@@ -761,20 +643,14 @@ class App:
     # --------------------------------------------------------------- text
     def title_text(self) -> str:
         """The layout's title (or file name), and whether it is unsaved."""
-        st = self.state
-        name = st.layout.title or (Path(st.path).name if st.path else "new layout")
-        return name + (" (unsaved)" if st.dirty else "")
+        return title_text(self.state)
 
     def status_text(self) -> str:
         """Pointer position in mm and diamonds, and the last message."""
         parts = []
         pos = self.hover_pos
         if pos is not None and self._in_table(pos):
-            x, y = self.transform.to_table(*pos)
-            table = self.state.table
-            da, dc = to_diamonds(x, y, table.length, table.width)
-            parts.append(f"x {x * 1000:6.0f} mm   y {y * 1000:5.0f} mm   "
-                         f"\u00b7   {da:4.2f} diamonds along, {dc:4.2f} across")
+            parts.append(pointer_words(*self.transform.to_table(*pos), self.state.table))
         if self.note:
             parts.append(self.note)
         elif not parts:
@@ -783,49 +659,7 @@ class App:
 
     def aim_html(self) -> str:
         """What the aim box says: the aim, the cut, the window, the outcome."""
-        st, pred = self.state, self.predictor
-        if st.problems():
-            n = len(st.problems())
-            return (f"<font color='#e5533d'>The layout has {n} problem{'s' if n > 1 else ''} "
-                    "(balls outlined in red).</font> Drag a ball to a free place to fix it.")
-        aim = st.aim
-        if aim is None:
-            return ("Not aimed. Click an object ball, then a pocket; or drag on the cloth; "
-                    "or take a shot from the list below.")
-        lines = []
-        d = st.direction_deg
-        if isinstance(aim, PocketAim):
-            via = f" off the {' then '.join(aim.rails)}" if aim.rails else ""
-            cue = f", cue at {d:.2f}\u00b0" if d is not None else ""
-            lines.append(f"<b>{'-'.join(aim.sequence)}</b> into <b>{aim.pocket}</b> "
-                         f"({aim.kind}{via}){cue}")
-        elif isinstance(aim, FreeAim):
-            lines.append(f"Free aim, cue at {aim.direction_deg:.2f}\u00b0")
-        g = pred.geometry
-        if g is not None:
-            lines.append(f"Cut {g.cut_deg:.1f}\u00b0, ball-hit {g.fraction:.2f} "
-                         f"({overlap_word(g.fraction)})")
-        w = pred.window
-        if w is not None:
-            inside = pred.in_window(st)
-            where = "" if isinstance(aim, PocketAim) else (
-                " \u00b7 aim inside" if inside else " \u00b7 <font color='#e5533d'>aim outside</font>")
-            lines.append(f"Window {w.window_deg:.2f}\u00b0 ({w.window_mm:.0f} mm){where}")
-        elif pred.window_note and isinstance(aim, PocketAim):
-            lines.append(f"<font color='#e5533d'>No window: {_escape(pred.window_note)}</font>")
-        out = pred.outcome
-        if out is not None:
-            potted = out.pocketed()
-            if "cue" in potted:
-                lines.append("<font color='#e5533d'>Scratch: the cue ball falls</font>")
-            balls = [b for b in potted if b != "cue"]
-            if balls:
-                lines.append("Pockets " + ", ".join(f"{b} ({potted[b]})" for b in balls))
-            elif "cue" not in potted:
-                lines.append("No ball pocketed")
-        elif pred.message:
-            lines.append(f"<font color='#e5533d'>{_escape(pred.message)}</font>")
-        return "<br>".join(lines)
+        return aim_html(self.state, self.predictor)
 
     # --------------------------------------------------------------- draw
     def _dynamic_shapes(self) -> list[Shape]:
@@ -839,32 +673,7 @@ class App:
                tuple(p.ball for p in st.problems()), round(mm_per_px, 4))
         if key == self._shapes_key:
             return self._shapes
-        table = st.table
-        R = table.ball_radius
-        shapes: list[Shape] = []
-        positions = st.layout.positions()
-        if pred.window is not None and "cue" in positions and t is None:
-            shapes += window_layer(pred.window, positions["cue"], R)
-        if pred.outcome is not None:
-            shapes += prediction_layer(pred.outcome, table, mm_per_px)
-        if pred.geometry is not None and t is None:
-            shapes += aim_layer(pred.geometry, R)
-        hidden: list[str] = []
-        if t is not None:
-            positions = pred.outcome.positions(t)
-            hidden = [b for b, tp in pred.pocket_times().items() if t >= tp]
-        else:
-            # A ball off the table is drawn at the cloth's edge, marked.
-            shown, off = shown_positions(table, positions)
-            shapes += off_table_layer(table, positions, shown, off)
-            positions = shown
-        problem_balls = [p.ball for p in st.problems() if p.ball]
-        shapes += balls_layer(positions, R, problem_balls, hidden)
-        d = st.direction_deg
-        if d is not None and "cue" in positions and t is None:
-            shapes += cue_layer(positions["cue"], d, R, st.settings.elevation_deg)
-        invite = st.selection is not None and st.selection != "cue" and aimed is None
-        shapes += selection_layer(table, positions, st.selection, self.hover_ball, aimed, invite)
+        shapes = view_shapes(st, pred, t, self.hover_ball, mm_per_px)
         self._shapes_key, self._shapes = key, shapes
         return shapes
 
@@ -896,87 +705,30 @@ class App:
         surface.fill(rgb(BACKGROUND))
         surface.blit(self._frame, clip.topleft)
         surface.set_clip(clip)
-        self._draw_notes(surface, clip)
+        draw_notes(surface, self.painter, clip, self.state.problems(), self._hint())
         surface.set_clip(None)
         self.manager.draw_ui(surface)
         if self.help_visible:
-            self._draw_help(surface)
+            draw_help(surface, self.painter)
 
-    def _text(self, surface: pygame.Surface, text: str, pos: tuple[float, float], size: int = 15,
-              colour: str = "#e6e3da", bold: bool = False) -> pygame.Rect:
-        img = self.painter.text_surface(text, size, colour, bold)
-        return surface.blit(img, (round(pos[0]), round(pos[1])))
-
-    def _draw_notes(self, surface: pygame.Surface, clip: pygame.Rect) -> None:
+    def _hint(self) -> str:
+        """The hint at the foot of the table: what to do next, or why
+        nothing is predicted."""
         st = self.state
-        problems = st.problems()
-        if problems:
-            lines = [str(p) for p in problems[:6]]
-            if len(problems) > 6:
-                lines.append(f"... and {len(problems) - 6} more")
-            head = f"This layout has {len(problems)} problem{'s' if len(problems) > 1 else ''}:"
-            width = min(clip.width - 40, 900)
-            box = pygame.Rect(clip.left + 20, clip.top + 12, width, 30 + 21 * len(lines))
-            panel = pygame.Surface(box.size, pygame.SRCALPHA)
-            panel.fill((52, 24, 20, 225))
-            surface.blit(panel, box.topleft)
-            pygame.draw.rect(surface, rgb("#e5533d"), box, 1, border_radius=4)
-            self._text(surface, head, (box.left + 10, box.top + 6), 15, "#f4d6cf", bold=True)
-            for k, line in enumerate(lines):
-                line = _fit(self.painter.font(14), line, width - 20)
-                self._text(surface, line, (box.left + 10, box.top + 28 + 21 * k), 14, "#f4e9e4")
-        hint = ""
-        if not problems:
-            if st.selection not in (None, "cue") and not isinstance(st.aim, PocketAim):
-                hint = f"click a pocket to aim the {st.selection} at it"
-            elif self.predictor.outcome is None and self.predictor.message:
-                hint = self.predictor.message
-        if hint:
-            lines = _wrap(self.painter.font(14), hint, clip.width - 32)
-            y = clip.bottom - 8
-            for line in reversed(lines):
-                img = self.painter.text_surface(line, 14, "#e3ebe5")
-                y -= img.get_height()
-                surface.blit(img, (clip.left + 16, y))
-
-    def _draw_help(self, surface: pygame.Surface) -> None:
-        w, h = surface.get_size()
-        shade = pygame.Surface((w, h), pygame.SRCALPHA)
-        shade.fill((10, 12, 11, 200))
-        surface.blit(shade, (0, 0))
-        rows = HELP_ROWS
-        box, line, size = help_box((w, h))
-        pygame.draw.rect(surface, rgb("#202322"), box, border_radius=8)
-        pygame.draw.rect(surface, rgb("#d6b358"), box, 1, border_radius=8)
-        y = box.top + 18
-        col = box.left + 24 + max(self.painter.font(size, True).size(k)[0] for k, _ in rows) + 24
-        for keys, what in rows:
-            if keys and not what:
-                self._text(surface, keys, (box.left + 24, y), size + 1, "#d6b358", bold=True)
-            elif keys:
-                self._text(surface, keys, (box.left + 24, y), size, "#f4f1e8", bold=True)
-                self._text(surface, what, (col, y), size, "#d8d5cc")
-            y += line
-        self._text(surface, "any key or click closes this list", (box.left + 24, box.bottom - 30),
-                   13, "#9a9c97")
+        if st.selection not in (None, "cue") and not isinstance(st.aim, PocketAim):
+            return f"click a pocket to aim the {st.selection} at it"
+        if self.predictor.outcome is None and self.predictor.message:
+            return self.predictor.message
+        return ""
 
     def _draw_loading(self, screen: pygame.Surface) -> None:
-        """A first frame while the physics engine loads (its first simulation
-        loads compiled code from disk, or compiles it once: up to ~10 s)."""
         assert self.panels is not None
         t = self.transform
         area = pygame.Rect(*self.panels.regions.table)
         local = Transform(t.scale, t.origin_x - area.left, t.origin_y - area.top, t.bounds,
                           (0, 0, area.width, area.height))
-        screen.fill(rgb(BACKGROUND))
-        screen.blit(self.table_cache.surface(self.scene, local, area.size, BACKGROUND), area.topleft)
-        img = self.painter.text_surface("Loading the physics engine\u2026", 18, "#f4f1e8", True)
-        box = img.get_rect(center=area.center).inflate(40, 24)
-        pygame.draw.rect(screen, rgb("#202322"), box, border_radius=6)
-        pygame.draw.rect(screen, rgb("#d6b358"), box, 1, border_radius=6)
-        screen.blit(img, img.get_rect(center=box.center))
-        pygame.display.flip()
-        pygame.event.pump()
+        table = self.table_cache.surface(self.scene, local, area.size, BACKGROUND)
+        draw_loading(screen, self.painter, table, area)
 
     # ---------------------------------------------------------------- run
     def screenshot(self, path: str | os.PathLike[str]) -> Path:
@@ -1016,30 +768,4 @@ class App:
         finally:
             self.close()
             pygame.quit()
-
-
-def _escape(text: str) -> str:
-    """Text for pygame_gui's HTML subset (its markup characters escaped)."""
-    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
-
-
-def _wrap(font: pygame.font.Font, text: str, width: int) -> list[str]:
-    """``text`` broken at spaces into lines that fit ``width`` px (a word
-    longer than a line is cut to fit, with an ellipsis)."""
-    lines: list[str] = []
-    for word in text.split():
-        if lines and font.size(lines[-1] + " " + word)[0] <= width:
-            lines[-1] += " " + word
-        else:
-            lines.append(_fit(font, word, width))
-    return lines
-
-
-def _fit(font: pygame.font.Font, text: str, width: int) -> str:
-    """``text`` cut with an ellipsis to fit ``width`` px."""
-    if font.size(text)[0] <= width:
-        return text
-    while text and font.size(text + "\u2026")[0] > width:
-        text = text[:-1]
-    return text + "\u2026"
 

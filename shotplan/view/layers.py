@@ -22,7 +22,8 @@ from ..render.palette import BALL_COLOURS, STRIPE_IDS
 from ..render.scene import CircleShape, Layer, PolylineShape, Shape, TextShape
 from ..render.table_shapes import ball_shapes
 from ..table import Table
-from .predict import AimGeometry
+from .predict import AimGeometry, Predictor
+from .state import PocketAim, ViewState
 
 __all__ = [
     "ACCENT",
@@ -36,6 +37,7 @@ __all__ = [
     "cue_layer",
     "selection_layer",
     "window_layer",
+    "view_shapes",
 ]
 
 ACCENT = "#e2bb55"
@@ -350,3 +352,57 @@ def selection_layer(table: Table, positions: Mapping[str, tuple[float, float]],
             out.append(CircleShape(c, r, fill=None, edge=_CHALK, line_width_mm=2.0, alpha=0.8,
                                    dash=True, layer=Layer.MARKER))
     return out
+
+
+def view_shapes(state: ViewState, pred: Predictor, t: float | None, hover_ball: str | None,
+                mm_per_px: float) -> list[Shape]:
+    """Everything drawn over the table, bottom to top: the window, the
+    predicted paths, the aim, the balls (where they stand, or where the
+    animation has them), the cue and the selection.
+
+    Parameters
+    ----------
+    state : ViewState
+        The layout, the aim and the selection.
+    pred : Predictor
+        The prediction.
+    t : float, optional
+        The animation's time, s; ``None`` when it is not shown (the aim,
+        the window and the cue are drawn only then).
+    hover_ball : str, optional
+        The ball under the pointer.
+    mm_per_px : float
+        Millimetres of table per pixel (lines keep a visible width).
+
+    Returns
+    -------
+    list of Shape
+    """
+    table = state.table
+    R = table.ball_radius
+    aimed = state.aim.pocket if isinstance(state.aim, PocketAim) else None
+    shapes: list[Shape] = []
+    positions = state.layout.positions()
+    if pred.window is not None and "cue" in positions and t is None:
+        shapes += window_layer(pred.window, positions["cue"], R)
+    if pred.outcome is not None:
+        shapes += prediction_layer(pred.outcome, table, mm_per_px)
+    if pred.geometry is not None and t is None:
+        shapes += aim_layer(pred.geometry, R)
+    hidden: list[str] = []
+    if t is not None and pred.outcome is not None:
+        positions = pred.outcome.positions(t)
+        hidden = [b for b, tp in pred.pocket_times().items() if t >= tp]
+    else:
+        # A ball off the table is drawn at the cloth's edge, marked.
+        shown, off = shown_positions(table, positions)
+        shapes += off_table_layer(table, positions, shown, off)
+        positions = shown
+    problem_balls = [p.ball for p in state.problems() if p.ball]
+    shapes += balls_layer(positions, R, problem_balls, hidden)
+    d = state.direction_deg
+    if d is not None and "cue" in positions and t is None:
+        shapes += cue_layer(positions["cue"], d, R, state.settings.elevation_deg)
+    invite = state.selection is not None and state.selection != "cue" and aimed is None
+    shapes += selection_layer(table, positions, state.selection, hover_ball, aimed, invite)
+    return shapes
