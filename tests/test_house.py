@@ -50,7 +50,7 @@ KNOWN_PRIVATE: set[tuple[str, str]] = {
 """Private names still imported across modules (module, name)."""
 
 KNOWN_LONG: set[str] = {
-    "cli.study", "view.app",
+    "cli.study",
 }
 """Modules still above :data:`MAX_LINES`."""
 
