@@ -316,3 +316,86 @@ def test_draw_dpi_help_and_limit_agree(tmp_path, capsys):
     assert len(err) == 1 and "million pixels" in err[0] and "x.png" in err[0]
     assert not out.exists()
     assert main(["draw", str(layout), "-o", str(tmp_path / "y.png"), "--dpi", "20"]) == 0
+
+
+# ----------------------------------------------------- the one figure writer
+
+def test_figure_bytes_png_is_inches_times_dpi():
+    # A PNG's size in pixels is its size in inches times the dots per inch
+    # (the definition of dpi); width and height read from the IHDR chunk
+    # (PNG specification, 11.2.2).
+    from shotplan.render.export import figure_bytes, new_figure
+
+    fig = new_figure((4.0, 2.5))
+    fig.add_subplot().plot([0, 1], [0, 1])
+    assert _png_size(figure_bytes(fig, "png", dpi=50)) == (200, 125)
+    assert _png_size(figure_bytes(fig, "png", dpi=120)) == (480, 300)
+
+
+def test_pdf_bytes_one_page_per_figure_each_its_own_size():
+    # PDF user space is 1/72 inch (ISO 32000-1, 8.3.2.3): an A4 page of
+    # 8.27 x 11.69 in is 595.44 x 841.68 pt, a 4 x 3 in page 288 x 216 pt.
+    from shotplan.render.export import new_figure, pdf_bytes
+
+    data = pdf_bytes([new_figure((8.27, 11.69)), new_figure((4.0, 3.0))])
+    boxes = [tuple(float(v) for v in m.split()) for m in
+             re.findall(rb"/MediaBox \[ ([^\]]*)\]", data)]
+    assert boxes == [(0.0, 0.0, 595.44, 841.68), (0.0, 0.0, 288.0, 216.0)]
+    assert b"/Count 2" in data
+
+
+@pytest.mark.parametrize("fmt", ["png", "svg", "pdf"])
+def test_figure_bytes_are_the_same_each_time(fmt):
+    # No dates or versions in the files: the same figure gives the same bytes.
+    from shotplan.render.export import figure_bytes, new_figure
+
+    # A chart's axes clip their lines, and SVG clip paths get ids: they are
+    # salted, so they too are the same each time.
+    fig = new_figure((3.0, 2.0))
+    fig.add_subplot().plot([0, 1, 2], [2, 0, 1])
+    assert figure_bytes(fig, fmt, dpi=40) == figure_bytes(fig, fmt, dpi=40)
+
+
+def test_write_figures_checks_before_writing(tmp_path):
+    from shotplan.render.export import figure_bytes, new_figure, write_figures
+
+    figs = [new_figure((2.0, 2.0)), new_figure((2.0, 2.0))]
+    with pytest.raises(InputError, match="several pages need a .pdf"):
+        write_figures(figs, tmp_path / "two.png")
+    with pytest.raises(InputError, match="no figure"):
+        write_figures([], tmp_path / "none.pdf")
+    with pytest.raises(InputError):
+        write_figures(figs[:1], tmp_path / "one.bmp")
+    with pytest.raises(InputError):
+        figure_bytes(figs[0], "bmp")
+    assert sorted(p.name for p in tmp_path.iterdir()) == []  # nothing written
+    one = write_figures(figs[:1], tmp_path / "one.png", dpi=30)
+    assert _png_size(one.read_bytes()) == (60, 60)
+    pages = write_figures(figs, tmp_path / "two.pdf")
+    assert b"/Count 2" in pages.read_bytes()  # the page tree's count (ISO 32000-1, 7.7.3.2)
+
+
+def test_wrap_text_hand_worked():
+    from shotplan.render.export import wrap_text
+
+    assert wrap_text("", 10, 100) == []
+    # Wide enough for everything: one line per paragraph, newlines kept.
+    assert wrap_text("one two\nthree", 10, 10_000) == ["one two", "three"]
+    # Narrower than any word: each word alone, none cut.
+    assert wrap_text("one two three", 10, 1) == ["one", "two", "three"]
+    # At 10 pt a line of 40 characters is wider than 100 pt (an average
+    # glyph of the default sans face is over half an em: from memory), so
+    # it breaks, and every line stays within the width unless one word is wider.
+    text = "a b c d e f g h i j k l m n o p q r s t"
+    lines = wrap_text(text, 10, 100)
+    assert len(lines) > 1 and " ".join(lines) == text
+
+
+def test_render_api_is_documented():
+    # The numpydoc rule of tests/test_docstrings.py, on the public API of render/.
+    from test_docstrings import _module_problems
+
+    problems = []
+    for name in ("scene", "palette", "table_shapes", "overlays", "captions", "export", "sheet"):
+        problems += _module_problems(f"shotplan.render.{name}")
+    assert not problems, "\n".join(problems)

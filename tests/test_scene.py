@@ -380,10 +380,12 @@ def test_figure_size_keeps_the_aspect():
 
 
 def test_with_the_real_layout():
-    layout_mod = pytest.importorskip("shotplan.layout")
+    from shotplan.layout import Layout
+    from shotplan.racks import rack
+
     spec = TableSpec.preset("pool-9ft")
-    balls = layout_mod.rack("9-ball", spec)
-    scene = layout_scene(layout_mod.Layout(spec, balls, title="rack"))
+    balls = rack("9-ball", spec)
+    scene = layout_scene(Layout(spec, balls, title="rack"))
     circles = _ball_circles(scene)
     assert all(pos in circles for pos in balls.values())
     assert scene.title == "rack"

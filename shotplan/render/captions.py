@@ -27,7 +27,18 @@ def shot_caption(shot: Shot) -> str:
     """The caption of a proposed shot (:class:`shotplan.search.Shot`), two lines:
     what goes where (for a bank or kick, which ball goes off which rail), then
     the cut, the aim, the window in degrees and millimetres, the speed in m/s
-    with the trade's word, and the tip: the word and the offsets."""
+    with the trade's word, and the tip: the word and the offsets.
+
+    Parameters
+    ----------
+    shot : Shot
+        A proposed shot.
+
+    Returns
+    -------
+    str
+        Two lines joined by a newline.
+    """
     kind = str(shot.kind)
     balls = tuple(shot.balls)
     pocket = f"the {shot.pocket} pocket"

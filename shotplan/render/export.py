@@ -34,7 +34,7 @@ from pathlib import Path
 from typing import Any
 
 import numpy as np
-from matplotlib import patches
+from matplotlib import patches, rc_context
 from matplotlib.axes import Axes
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.backends.backend_pdf import PdfPages
@@ -256,6 +256,27 @@ def render_figure(scene: Scene, dpi: float = 150, width_in: float | None = None,
     note are wrapped to the figure's width. With ``max_pixels_for`` (the name
     of the PNG to be written), a raster larger than :data:`MAX_PIXELS` is
     refused before it is drawn.
+
+    Parameters
+    ----------
+    scene : Scene
+        What to draw.
+    dpi : float
+        Pixels per inch (:data:`DPI_RANGE`); band heights are whole pixels at it.
+    width_in : float, optional
+        Width of the figure, inches (default :data:`DEFAULT_WIDTH_IN`).
+    max_pixels_for : str, optional
+        Name of the PNG to be written, for the message when it is too large.
+
+    Returns
+    -------
+    Figure
+        From :func:`new_figure`.
+
+    Raises
+    ------
+    InputError
+        A bad dpi or width, or a PNG above :data:`MAX_PIXELS`.
     """
     dpi = _check_dpi(dpi)
     w_in, axes_h_in = figure_size(scene.bounds, _check_width(width_in), dpi)
@@ -511,11 +532,19 @@ def figure_bytes(fig: Figure, fmt: str, dpi: float = 150) -> bytes:
     -------
     bytes
         The same figure gives the same bytes.
+
+    Raises
+    ------
+    InputError
+        ``fmt`` is none of them.
     """
     if fmt not in _METADATA:
         raise InputError(f"format {fmt!r} is not one of {', '.join(_METADATA)}")
     buf = io.BytesIO()
-    fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=PAPER)
+    # SVG ids (of clip paths: a chart's axes clip their lines) are random
+    # unless salted: a fixed salt keeps them the same from run to run.
+    with rc_context({"svg.hashsalt": "shotplan"}):
+        fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=PAPER)
     return buf.getvalue()
 
 
@@ -578,7 +607,22 @@ def write_figures(figures: Sequence[Figure], path: str | os.PathLike[str],
 
 
 def render_png_bytes(scene: Scene, dpi: float = 100, width_in: float | None = None) -> bytes:
-    """The PNG of ``scene`` as bytes (for tests and the table view)."""
+    """The PNG of ``scene`` as bytes (for tests and the table view).
+
+    Parameters
+    ----------
+    scene : Scene
+        What to draw.
+    dpi : float
+        Pixels per inch.
+    width_in : float, optional
+        Width, inches (default :data:`DEFAULT_WIDTH_IN`).
+
+    Returns
+    -------
+    bytes
+        A PNG file's bytes.
+    """
     fig = render_figure(scene, dpi=dpi, width_in=width_in, max_pixels_for="PNG")
     return figure_bytes(fig, "png", dpi)
 
@@ -603,6 +647,11 @@ def write_pages(
     -------
     Path
         The file written.
+
+    Raises
+    ------
+    InputError
+        A bad path, no pages, a page size out of 2 to 100 inches.
     """
     p = check_output_path(path, (".pdf",))
     items = [q if isinstance(q, Page) else Page(q) for q in pages]

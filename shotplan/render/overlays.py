@@ -12,10 +12,11 @@ from __future__ import annotations
 import dataclasses
 import math
 from collections.abc import Callable, Mapping, Sequence
-from typing import TYPE_CHECKING, Any, Protocol
+from typing import TYPE_CHECKING, Protocol
 
 import numpy as np
 import shapely
+from numpy.typing import ArrayLike
 from shapely import affinity
 from shapely.geometry import LineString, Point, Polygon
 from shapely.geometry.base import BaseGeometry
@@ -51,6 +52,7 @@ from .scene import (
 from .table_shapes import LayoutLike, layout_scene, print_unit_m
 
 if TYPE_CHECKING:
+    from ..physics import Event
     from ..search import Shot
 
 __all__ = [
@@ -75,7 +77,7 @@ _P_WINDOW_EDGE = "#8a6a12"
 
 
 def path_shapes(
-    points_by_ball: Mapping[str, Any], cue_id: str = "cue", line_width_mm: float = _PATH_WIDTH_MM,
+    points_by_ball: Mapping[str, ArrayLike], cue_id: str = "cue", line_width_mm: float = _PATH_WIDTH_MM,
     *, style: str = "colour", cloth: str | None = None,
 ) -> list[PolylineShape]:
     """One polyline per ball path, ending in an arrow head.
@@ -86,6 +88,24 @@ def path_shapes(
     where the balls share a colour (the 1 and the 9), and every path has at
     least :data:`MIN_CONTRAST` against ``cloth``. A path of fewer than two
     points is left out.
+
+    Parameters
+    ----------
+    points_by_ball : mapping of str to array-like, shape (N, 2)
+        Each ball's path, m.
+    cue_id : str
+        The cue ball's id.
+    line_width_mm : float
+        Line width, mm of table.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES`.
+    cloth : str, optional
+        The colour the paths are drawn on.
+
+    Returns
+    -------
+    list of PolylineShape
+        On :attr:`Layer.PATH`, in the order of ``points_by_ball``.
     """
     clean = _clean_paths(points_by_ball)
     looks = path_looks(list(clean), cue_id, style=style, cloth=cloth)
@@ -95,7 +115,7 @@ def path_shapes(
             for b, arr in clean.items()]
 
 
-def _clean_paths(points_by_ball: Mapping[str, Any]) -> dict[str, np.ndarray]:
+def _clean_paths(points_by_ball: Mapping[str, ArrayLike]) -> dict[str, np.ndarray]:
     """Each path as an (N, 2) array without repeated points (a ball at rest
     between events); paths of fewer than two points are left out."""
     clean: dict[str, np.ndarray] = {}
@@ -114,7 +134,21 @@ def _clean_paths(points_by_ball: Mapping[str, Any]) -> dict[str, np.ndarray]:
 
 def ghost_ball_shape(centre: Sequence[float], radius: float, *, style: str = "colour"
                      ) -> CircleShape:
-    """A ghost ball: a dashed outline circle where the cue ball meets the object ball."""
+    """A ghost ball: a dashed outline circle where the cue ball meets the object ball.
+
+    Parameters
+    ----------
+    centre : (float, float)
+        The ghost ball's centre, m.
+    radius : float
+        Ball radius, m.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES` (ink in print, white on cloth).
+
+    Returns
+    -------
+    CircleShape
+    """
     edge = INK if check_style(style) == "print" else BALL_WHITE
     return CircleShape(check_point(centre, "ghost ball"), radius, fill=None, edge=edge,
                        line_width_mm=1.5, layer=Layer.GHOST, alpha=0.9, dash=True)
@@ -128,7 +162,29 @@ def marker_shape(point: Sequence[float], kind: str, size_mm: float = 10.0, *,
                  style: str = "colour") -> Shape:
     """A small mark at ``point``: ``contact`` a dot, ``cushion`` a rhombus,
     ``finish`` a cross; ``size_mm`` is its half-size in mm of table. The
-    shapes alone tell the kinds apart; ``print`` draws them white in ink."""
+    shapes alone tell the kinds apart; ``print`` draws them white in ink.
+
+    Parameters
+    ----------
+    point : (float, float)
+        Where, m.
+    kind : str
+        One of :data:`MARKER_KINDS`.
+    size_mm : float
+        Half-size, mm of table.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES`.
+
+    Returns
+    -------
+    Shape
+        On :attr:`Layer.MARKER`.
+
+    Raises
+    ------
+    InputError
+        An unknown kind, a bad point or size.
+    """
     x, y = check_point(point, f"{kind} marker")
     s = check_number(size_mm, "marker size_mm", 0.0) / 1000.0
     printed = check_style(style) == "print"
@@ -152,7 +208,23 @@ def window_shape(
     apex: Sequence[float], radius: float, low_deg: float, high_deg: float
 ) -> WedgeShape:
     """A shot's window: the sector of cue directions from ``low_deg`` counter-clockwise
-    to ``high_deg`` (degrees from +x) that still work, ``radius`` long, at ``apex``."""
+    to ``high_deg`` (degrees from +x) that still work, ``radius`` long, at ``apex``.
+
+    Parameters
+    ----------
+    apex : (float, float)
+        The cue ball's centre, m.
+    radius : float
+        The sector's length, m.
+    low_deg, high_deg : float
+        The window's edges, degrees; a window across 0 degrees is taken
+        counter-clockwise from ``low_deg``.
+
+    Returns
+    -------
+    WedgeShape
+        On :attr:`Layer.WINDOW`.
+    """
     low = check_number(low_deg, "window low_deg")
     high = check_number(high_deg, "window high_deg")
     span = (high - low) % 360.0
@@ -166,14 +238,40 @@ def play_region(table: Table, tolerance_m: float = 0.001) -> BaseGeometry:
     """Where a ball's centre can go: the cloth inside the cushion noses shrunk
     by the contact distance (:attr:`Table.legal_region`), plus every pocket's
     throat and hole, where balls drop; grown by ``tolerance_m`` so that a
-    centre touching a cushion (on the region's polygonal edge) stays inside."""
+    centre touching a cushion (on the region's polygonal edge) stays inside.
+
+    Parameters
+    ----------
+    table : Table
+        The table.
+    tolerance_m : float
+        How far the region is grown, m.
+
+    Returns
+    -------
+    BaseGeometry
+        A shapely (multi)polygon.
+    """
     parts = [table.legal_region] + [p.throat.union(p.hole) for p in table.pockets]
     return unary_union(parts).buffer(tolerance_m, quad_segs=4)
 
 
 def clip_polyline(line: PolylineShape, region: BaseGeometry) -> list[PolylineShape]:
     """The parts of ``line`` inside ``region``, in order along the line; only
-    the part holding the line's end keeps the arrow head."""
+    the part holding the line's end keeps the arrow head.
+
+    Parameters
+    ----------
+    line : PolylineShape
+        The line to cut.
+    region : BaseGeometry
+        Where it may be drawn (see :func:`play_region`).
+
+    Returns
+    -------
+    list of PolylineShape
+        ``[line]`` itself when it lies inside; empty when nothing does.
+    """
     geom = LineString(line.points)
     if region.covers(geom):
         return [line]
@@ -199,7 +297,22 @@ def window_shapes(
     """A shot's window as polygons: the sector of :func:`window_shape`, cut to
     ``region`` (see :func:`play_region`) and kept only as far as the first
     place it leaves it, i.e. up to the first cushion for a kick. ``print``
-    fills it pale and draws its two edges in a darker tone."""
+    fills it pale and draws its two edges in a darker tone.
+
+    Parameters
+    ----------
+    apex, radius, low_deg, high_deg
+        As for :func:`window_shape`.
+    region : BaseGeometry, optional
+        Where the cue ball's centre can go; ``None`` keeps the whole sector.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES`.
+
+    Returns
+    -------
+    list of PolygonShape
+        Empty when no part of the sector is in ``region``.
+    """
     w = window_shape(apex, radius, low_deg, high_deg)
     n = max(2, math.ceil((w.end_deg - w.start_deg) / 0.5) + 1)
     ang = np.radians(np.linspace(w.start_deg, w.end_deg, n))
@@ -227,11 +340,29 @@ class OutcomeLike(Protocol):
     :class:`~shotplan.physics.Outcome` has it)."""
 
     ids: tuple[str, ...]
-    events: Sequence[Any]
+    events: Sequence[Event]
 
-    def path(self, ball: str) -> Any: ...  # noqa: E704
+    def path(self, ball: str) -> np.ndarray:
+        """The path a ball's centre follows.
 
-    def moved(self) -> list[str]: ...  # noqa: E704
+        Parameters
+        ----------
+        ball : str
+            Its id.
+
+        Returns
+        -------
+        ndarray, shape (N, 2)
+            Points, m, from start to rest.
+        """
+
+    def moved(self) -> list[str]:
+        """The balls that moved.
+
+        Returns
+        -------
+        list of str
+        """
 
 
 def outcome_shapes(outcome: OutcomeLike, radius: float, cue_id: str = "cue", *,
@@ -240,7 +371,27 @@ def outcome_shapes(outcome: OutcomeLike, radius: float, cue_id: str = "cue", *,
     """What a simulated stroke did: each moving ball's path, a marker at every
     ball contact and cushion, an outline where each moving ball stopped (in
     ``print`` with the ball's name in it). Paths are cut to ``region`` when
-    given (see :func:`play_region`)."""
+    given (see :func:`play_region`).
+
+    Parameters
+    ----------
+    outcome : OutcomeLike
+        The simulated stroke (:class:`~shotplan.physics.Outcome`).
+    radius : float
+        Ball radius, m.
+    cue_id : str
+        The cue ball's id.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES`.
+    cloth : str, optional
+        The colour the paths are drawn on.
+    region : BaseGeometry, optional
+        Where paths may be drawn.
+
+    Returns
+    -------
+    list of Shape
+    """
     style = check_style(style)
     paths = {b: outcome.path(b) for b in outcome.moved()}
     lines = path_shapes(paths, cue_id=cue_id, style=style, cloth=cloth)
@@ -340,6 +491,23 @@ def shot_scene(layout: LayoutLike, outcome: OutcomeLike, shot: Shot | None = Non
     (:func:`play_region`); the window ends where the cue ball first meets a
     cushion, so a kick's window shows the stretch of rail to aim at. In
     ``print`` a key under the table names each path and mark.
+
+    Parameters
+    ----------
+    layout : LayoutLike
+        The layout before the stroke.
+    outcome : OutcomeLike
+        The simulated stroke.
+    shot : Shot, optional
+        The proposed shot the stroke plays (its ghost ball and window are drawn).
+    title, note : str, optional
+        Replace the layout's own.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES`.
+
+    Returns
+    -------
+    Scene
     """
     style = check_style(style)
     scene = layout_scene(layout, title=title, note=note, style=style)

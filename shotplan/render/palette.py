@@ -11,7 +11,6 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
 
 import numpy as np
 
@@ -131,7 +130,7 @@ MIN_CONTRAST = 3.0
 criterion 1.4.11 (non-text contrast), 3:1 for parts of graphics."""
 
 
-def check_style(style: Any) -> str:
+def check_style(style: object) -> str:
     """``style`` if it is one of :data:`STYLES`.
 
     Parameters
@@ -180,7 +179,17 @@ def shade(colour: str, factor: float) -> str:
 
 
 def relative_luminance(colour: str) -> float:
-    """Relative luminance of an sRGB colour, 0 (black) to 1 (white), as WCAG 2.1 defines it."""
+    """Relative luminance of an sRGB colour, 0 (black) to 1 (white), as WCAG 2.1 defines it.
+
+    Parameters
+    ----------
+    colour : str
+        ``'#rrggbb'`` (sRGB).
+
+    Returns
+    -------
+    float
+    """
     c = check_colour(colour, "colour") or INK  # never None: not optional
     out = 0.0
     for weight, i in ((0.2126, 1), (0.7152, 3), (0.0722, 5)):
@@ -191,7 +200,18 @@ def relative_luminance(colour: str) -> float:
 
 
 def contrast_ratio(a: str, b: str) -> float:
-    """WCAG 2.1 contrast ratio of two colours, 1 to 21."""
+    """WCAG 2.1 contrast ratio of two colours, 1 to 21.
+
+    Parameters
+    ----------
+    a, b : str
+        ``'#rrggbb'``, in either order.
+
+    Returns
+    -------
+    float
+        ``(L1 + 0.05) / (L2 + 0.05)`` with ``L1`` the lighter luminance.
+    """
     la, lb = sorted((relative_luminance(a), relative_luminance(b)), reverse=True)
     return (la + 0.05) / (lb + 0.05)
 
@@ -239,6 +259,22 @@ def path_looks(
     :data:`PRINT_PATH_COLOURS` in order. Every colour is then brought to
     :data:`MIN_CONTRAST` against the cloth (``cloth`` defaults to the style's
     pool cloth).
+
+    Parameters
+    ----------
+    ball_ids : sequence of str
+        The balls whose paths are drawn, in the order they are listed.
+    cue_id : str
+        The cue ball's id.
+    style : str
+        One of :data:`STYLES`.
+    cloth : str, optional
+        The colour the paths are drawn on.
+
+    Returns
+    -------
+    dict of str to PathLook
+        One look per ball id, in the order given.
     """
     style = check_style(style)
     cloth = cloth or (PRINT_CLOTH if style == "print" else CLOTH_COLOURS["pool"])

@@ -109,7 +109,7 @@ ANCHORS: dict[str, tuple[str, str]] = {
 """Text anchors: which point of the text's box sits on its position."""
 
 
-def check_colour(value: Any, what: str, optional: bool = False) -> str | None:
+def check_colour(value: object, what: str, optional: bool = False) -> str | None:
     """``value`` as a colour, lower case.
 
     Parameters
@@ -138,7 +138,7 @@ def check_colour(value: Any, what: str, optional: bool = False) -> str | None:
     return value.lower()
 
 
-def check_number(value: Any, what: str, low: float = -math.inf, high: float = math.inf) -> float:
+def check_number(value: object, what: str, low: float = -math.inf, high: float = math.inf) -> float:
     """``value`` as a finite float from ``low`` to ``high``.
 
     Parameters
@@ -167,7 +167,7 @@ def check_number(value: Any, what: str, low: float = -math.inf, high: float = ma
     return value
 
 
-def check_point(value: Any, what: str) -> tuple[float, float]:
+def check_point(value: object, what: str) -> tuple[float, float]:
     """``value`` as a finite point ``(x, y)``.
 
     Parameters
@@ -192,7 +192,7 @@ def check_point(value: Any, what: str) -> tuple[float, float]:
     return (float(arr[0]), float(arr[1]))
 
 
-def check_points(value: Any, what: str, minimum: int) -> tuple[tuple[float, float], ...]:
+def check_points(value: object, what: str, minimum: int) -> tuple[tuple[float, float], ...]:
     """``value`` as a tuple of at least ``minimum`` finite points.
 
     Parameters
@@ -261,7 +261,13 @@ class PolygonShape:
         _common(self, "PolygonShape")
 
     def envelope(self) -> tuple[float, float, float, float]:
-        """(xmin, ymin, xmax, ymax) of the shape, m."""
+        """(xmin, ymin, xmax, ymax) of the shape, m.
+
+        Returns
+        -------
+        tuple of float
+            ``(xmin, ymin, xmax, ymax)``, m.
+        """
         arr = np.asarray(self.points)
         return (*arr.min(axis=0), *arr.max(axis=0))  # type: ignore[return-value]
 
@@ -296,7 +302,13 @@ class CircleShape:
         _common(self, "CircleShape")
 
     def envelope(self) -> tuple[float, float, float, float]:
-        """(xmin, ymin, xmax, ymax) of the shape, m."""
+        """(xmin, ymin, xmax, ymax) of the shape, m.
+
+        Returns
+        -------
+        tuple of float
+            ``(xmin, ymin, xmax, ymax)``, m.
+        """
         (x, y), r = self.centre, self.radius
         return (x - r, y - r, x + r, y + r)
 
@@ -337,7 +349,13 @@ class PolylineShape:
         _common(self, "PolylineShape")
 
     def envelope(self) -> tuple[float, float, float, float]:
-        """(xmin, ymin, xmax, ymax) of the line's points, m."""
+        """(xmin, ymin, xmax, ymax) of the line's points, m.
+
+        Returns
+        -------
+        tuple of float
+            ``(xmin, ymin, xmax, ymax)``, m.
+        """
         arr = np.asarray(self.points)
         return (*arr.min(axis=0), *arr.max(axis=0))  # type: ignore[return-value]
 
@@ -374,7 +392,13 @@ class TextShape:
         _common(self, "TextShape")
 
     def envelope(self) -> tuple[float, float, float, float]:
-        """The anchor point as a box (a text's extent depends on the font)."""
+        """The anchor point as a box (a text's extent depends on the font).
+
+        Returns
+        -------
+        tuple of float
+            ``(xmin, ymin, xmax, ymax)``, m.
+        """
         x, y = self.position
         return (x, y, x, y)
 
@@ -409,7 +433,13 @@ class WedgeShape:
         _common(self, "WedgeShape")
 
     def envelope(self) -> tuple[float, float, float, float]:
-        """(xmin, ymin, xmax, ymax) of the whole circle (a safe box), m."""
+        """(xmin, ymin, xmax, ymax) of the whole circle (a safe box), m.
+
+        Returns
+        -------
+        tuple of float
+            ``(xmin, ymin, xmax, ymax)``, m.
+        """
         (x, y), r = self.apex, self.radius
         return (x - r, y - r, x + r, y + r)
 
@@ -467,19 +497,42 @@ class Scene:
         return self.bounds[3] - self.bounds[1]
 
     def title_mm(self) -> float:
-        """The title's font size, mm of table."""
+        """The title's font size, mm of table.
+
+        Returns
+        -------
+        float
+            ``title_size_mm``, or 2.2 % of the bounds' width.
+        """
         if self.title_size_mm is not None:
             return self.title_size_mm
         return 0.022 * self.width_m * 1000.0
 
     def note_mm(self) -> float:
-        """The note's font size, mm of table."""
+        """The note's font size, mm of table.
+
+        Returns
+        -------
+        float
+            ``note_size_mm``, or 1.6 % of the bounds' width.
+        """
         if self.note_size_mm is not None:
             return self.note_size_mm
         return 0.016 * self.width_m * 1000.0
 
     def with_shapes(self, *shapes: Shape | Iterable[Shape]) -> Scene:
-        """A copy with ``shapes`` added on top (lists of shapes are flattened)."""
+        """A copy with ``shapes`` added on top (lists of shapes are flattened).
+
+        Parameters
+        ----------
+        *shapes : Shape or iterable of Shape
+            Drawn over the shapes already there, in the order given.
+
+        Returns
+        -------
+        Scene
+            A new scene; this one is unchanged.
+        """
         flat: list[Any] = []
         for s in shapes:
             if isinstance(s, _SHAPE_TYPES):
@@ -492,12 +545,30 @@ class Scene:
                      self.title_size_mm, self.note_size_mm)
 
     def with_title(self, title: str, note: str | None = None) -> Scene:
-        """A copy with a new title (and a new note, unless ``note`` is ``None``)."""
+        """A copy with a new title (and a new note, unless ``note`` is ``None``).
+
+        Parameters
+        ----------
+        title : str
+            The new title.
+        note : str, optional
+            The new note; ``None`` keeps the old one.
+
+        Returns
+        -------
+        Scene
+            A new scene; this one is unchanged.
+        """
         return Scene(self.shapes, self.bounds, title, self.note if note is None else note,
                      self.title_size_mm, self.note_size_mm)
 
     def sorted_shapes(self) -> tuple[Shape, ...]:
-        """The shapes in drawing order: by layer, ties kept in the order added."""
+        """The shapes in drawing order: by layer, ties kept in the order added.
+
+        Returns
+        -------
+        tuple of Shape
+        """
         return tuple(sorted(self.shapes, key=lambda s: s.layer))
 
 
@@ -509,6 +580,20 @@ def figure_size(
     The height keeps the bounds' aspect ratio exactly, so table units map to
     square pixels. With ``dpi``, both sides are rounded to whole pixels (the
     width first, the height from it), which is the nearest a raster can get.
+
+    Parameters
+    ----------
+    bounds : sequence of float
+        ``(xmin, ymin, xmax, ymax)``, m.
+    width_in : float
+        The drawing's width, inches.
+    dpi : float, optional
+        Pixels per inch of a raster.
+
+    Returns
+    -------
+    (float, float)
+        Width and height, inches.
     """
     xmin, ymin, xmax, ymax = (float(v) for v in bounds)
     aspect = (ymax - ymin) / (xmax - xmin)
@@ -522,7 +607,20 @@ def figure_size(
 
 def polygon_shapes(geom: BaseGeometry, **style: Any) -> list[PolygonShape]:
     """One :class:`PolygonShape` per polygon of a shapely geometry (holes kept);
-    ``style`` is passed on (``fill``, ``edge``, ``line_width_mm``, ``layer``, ``alpha``)."""
+    ``style`` is passed on (``fill``, ``edge``, ``line_width_mm``, ``layer``, ``alpha``).
+
+    Parameters
+    ----------
+    geom : BaseGeometry
+        A polygon, a multipolygon or a collection; other parts and empty or
+        zero-area polygons are left out.
+    **style
+        Fields of :class:`PolygonShape` other than the rings.
+
+    Returns
+    -------
+    list of PolygonShape
+    """
     polys: list[Polygon] = []
     if isinstance(geom, Polygon):
         polys = [geom]
@@ -551,6 +649,18 @@ def arrow_head(
     its end cap does not poke through the tip, and the head's three corners
     (tip, left, right). ``None`` if the last segment has no length.
     The head is ``max(12 mm, 5 line widths)`` long and 0.8 of that wide.
+
+    Parameters
+    ----------
+    points : sequence of (float, float)
+        The polyline, m; the head points along its last segment of some length.
+    line_width_mm : float
+        The line's width, mm of table.
+
+    Returns
+    -------
+    ((float, float), tuple of (float, float)) or None
+        ``(base, triangle)`` as above, or ``None``.
     """
     arr = np.asarray(points, dtype=float)
     tip = arr[-1]

@@ -107,6 +107,11 @@ def roll_distance(speed_mps: float, height: float, physics: Physics,
     -------
     float
         Distance, m.
+
+    Raises
+    ------
+    InputError
+        A speed that is not a number of 0 or more.
     """
     v0 = float(speed_mps)
     if not math.isfinite(v0) or v0 < 0.0:
@@ -147,7 +152,21 @@ def speed_words(speed_mps: float, height: float, physics: Physics, table_length_
 
 # -------------------------------------------------------------------- aim
 class AimPicture:
-    """The aim of a station as the player sees it from behind the cue ball."""
+    """The aim of a station as the player sees it from behind the cue ball.
+
+    Parameters
+    ----------
+    ball : str
+        The first object ball.
+    kind : str
+        ``direct`` (or ``combination``), ``bank`` or ``kick``.
+    offset_m : float
+        Where the cue line passes the ball's centre, m, + to its right.
+    radius : float
+        Ball radius, m.
+    rail, rail_point, diamond, rail_ball, counted_from, sights
+        For a bank or kick, the first rail met and where (see the attributes).
+    """
 
     __slots__ = ("ball", "kind", "offset_m", "fraction", "radius", "rail", "rail_point",
                  "diamond", "rail_ball", "counted_from", "sights")

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from typing import Any, Protocol
+from typing import Protocol
 
 import numpy as np
 import shapely
@@ -174,7 +174,17 @@ _CHAIN = (8.0, 2.0, 1.5, 2.0)  # a long dash and a short one: a reference line
 
 
 def print_unit_m(bounds: Sequence[float]) -> float:
-    """The ``print`` style's unit of type and spacing: 1 % of the drawing's width, m."""
+    """The ``print`` style's unit of type and spacing: 1 % of the drawing's width, m.
+
+    Parameters
+    ----------
+    bounds : sequence of float
+        ``(xmin, ymin, xmax, ymax)``, m.
+
+    Returns
+    -------
+    float
+    """
     return 0.01 * (float(bounds[2]) - float(bounds[0]))
 
 
@@ -323,6 +333,26 @@ def ball_shapes(
     names it carries a mark that reads in greyscale: a snooker colour its
     points (:data:`SNOOKER_VALUES`), a carom object ball its letter (``game``
     tells a carom yellow from a snooker one; without it the id decides).
+
+    Parameters
+    ----------
+    ball_id : str
+        The ball's id (its colour and mark follow from it).
+    centre : (float, float)
+        Its centre, m.
+    radius : float
+        Its radius, m.
+    problem : bool
+        Outline it in red.
+    style : str
+        One of :data:`~shotplan.render.palette.STYLES`.
+    game : str, optional
+        ``pool``, ``snooker`` or ``carom``.
+
+    Returns
+    -------
+    list of Shape
+        In drawing order, all on :attr:`Layer.BALL`.
     """
     style = check_style(style)
     c = check_point(centre, f"ball {ball_id!r}")
@@ -362,8 +392,17 @@ class LayoutLike(Protocol):
     :class:`~shotplan.layout.Layout` has it): its table, and each ball's place."""
 
     @property
-    def geometry(self) -> Table: ...
-    def positions(self) -> Mapping[str, Any]: ...
+    def geometry(self) -> Table:
+        """The table the balls are on."""
+
+    def positions(self) -> Mapping[str, Sequence[float]]:
+        """Each ball's centre.
+
+        Returns
+        -------
+        Mapping of str to (float, float)
+            Ball id -> ``(x, y)``, m.
+        """
 
 
 def layout_scene(layout: LayoutLike, title: str | None = None, note: str | None = None, *,
