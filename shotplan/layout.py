@@ -37,7 +37,6 @@ from its legality of construction:
 
 from __future__ import annotations
 
-import dataclasses
 import json
 import math
 import os
@@ -48,7 +47,6 @@ from pathlib import Path
 from typing import Any
 
 import numpy as np
-import shapely
 
 from .equipment import PRESETS, TableSpec
 from .errors import LayoutError, PhysicsError, StrokeError, quoted, show_path
@@ -67,8 +65,10 @@ from .files.read import (
 )
 from .files.write import atomic_write_text, check_output_path
 from .physics.params import Physics
+from .placement import mm_text, placement_fault, position_text
 from .stroke import Stroke
-from .table import LINE_RAIL, Table, table_for
+from .table import Table, table_for
+from .tablefile import PROFILE_FORMAT, table_from_object, table_from_profile, table_to_object
 
 __all__ = [
     "FORMAT",
@@ -99,10 +99,6 @@ MAX_BALLS = 64
 """Most balls a layout holds: more than any game puts on a table (snooker
 has 22), and it keeps the ball-against-ball checks (every pair) small."""
 
-PROFILE_FORMAT = "shotplan-table-profile"
-"""The value of a table profile file's ``format`` field (``shotplan cushion fit -o``)."""
-
-_PROFILE_VERSION = 1
 
 LAYOUT_KEYS: tuple[str, ...] = (
     "format", "version", "title", "note", "table", "balls", "stroke", "physics",
@@ -187,11 +183,33 @@ class Layout:
         return tuple(b for b, _ in self.balls)
 
     def positions(self) -> dict[str, tuple[float, float]]:
-        """Ball id -> (x, y) in m, in layout order."""
+        """Ball id -> (x, y) in m, in layout order.
+
+        Returns
+        -------
+        dict
+            A new dict each call.
+        """
         return dict(self.balls)
 
     def position(self, ball: str) -> tuple[float, float]:
-        """The position of ``ball`` (m); raises :class:`LayoutError` if absent."""
+        """The position of ``ball``.
+
+        Parameters
+        ----------
+        ball : str
+            A ball id.
+
+        Returns
+        -------
+        tuple of float
+            (x, y), m.
+
+        Raises
+        ------
+        LayoutError
+            If the layout has no such ball.
+        """
         for b, xy in self.balls:
             if b == ball:
                 return xy
@@ -204,16 +222,27 @@ class Layout:
         return table_for(self.table)
 
     def physics(self) -> Physics:
-        """Physics defaults, then the table's measured values, then the layout's overrides."""
+        """Physics defaults, then the table's measured values, then the layout's overrides.
+
+        Returns
+        -------
+        Physics
+            The values to play with.
+        """
         return Physics.from_dict(dict(self.physics_overrides),
                                  base=Physics.for_table(self.table))
 
     def problems(self) -> list[Problem]:
-        """Everything wrong with the layout, in ball order; empty if it is playable.
+        """Everything wrong with the layout, in ball order.
 
-        Reports ball ids the table's ball set lacks, balls off the table, in a
-        pocket or overlapping a cushion or jaw, overlapping balls (touching is
-        fine) and a missing cue ball.
+        Ball ids the table's ball set lacks, balls off the table, in a pocket or
+        overlapping a cushion or jaw, overlapping balls (touching is fine) and a
+        missing cue ball.
+
+        Returns
+        -------
+        list of Problem
+            Empty if the layout is playable.
         """
         out: list[Problem] = []
         spec = self.table
@@ -229,7 +258,7 @@ class Layout:
             legal = geo.is_legal(pts)
             for k in np.flatnonzero(~legal):
                 b = ids[k]
-                out.append(Problem(field_path("balls", b), _placement_message(geo, pts[k]), b))
+                out.append(Problem(field_path("balls", b), placement_fault(geo, pts[k]), b))
             two_r = 2.0 * spec.ball.radius_m
             diff = pts[:, None, :] - pts[None, :, :]
             dist = np.hypot(diff[..., 0], diff[..., 1])
@@ -238,8 +267,8 @@ class Layout:
                     if dist[i, j] < two_r - _OVERLAP_TOL:
                         out.append(Problem(
                             field_path("balls", ids[j]),
-                            f"{_pos(pts[j])} overlaps ball {quoted(ids[i])} by "
-                            f"{_mm(two_r - dist[i, j])} mm (centres {_mm(dist[i, j])} mm "
+                            f"{position_text(pts[j])} overlaps ball {quoted(ids[i])} by "
+                            f"{mm_text(two_r - dist[i, j])} mm (centres {mm_text(dist[i, j])} mm "
                             f"apart, balls need at least {two_r * 1000:.2f} mm)",
                             ids[j],
                         ))
@@ -252,7 +281,20 @@ class Layout:
 
     # ------------------------------------------------------------- changes
     def with_ball(self, ball: str, xy: tuple[float, float]) -> Layout:
-        """A copy with ``ball`` at ``xy`` (moved if present, else added last)."""
+        """A copy with ``ball`` at ``xy`` (moved if present, else added last).
+
+        Parameters
+        ----------
+        ball : str
+            A ball id.
+        xy : tuple of float
+            Its position, m.
+
+        Returns
+        -------
+        Layout
+            The changed copy.
+        """
         balls = list(self.balls)
         for k, (b, _) in enumerate(balls):
             if b == ball:
@@ -263,25 +305,86 @@ class Layout:
         return self._replace(balls=tuple(balls))
 
     def without_ball(self, ball: str) -> Layout:
-        """A copy without ``ball``; raises :class:`LayoutError` if it is absent."""
+        """A copy without ``ball``.
+
+        Parameters
+        ----------
+        ball : str
+            A ball id.
+
+        Returns
+        -------
+        Layout
+            The changed copy.
+
+        Raises
+        ------
+        LayoutError
+            If the layout has no such ball.
+        """
         self.position(ball)
         return self._replace(balls=tuple((b, xy) for b, xy in self.balls if b != ball))
 
     def with_stroke(self, stroke: Stroke | None) -> Layout:
-        """A copy with ``stroke`` (``None`` removes it)."""
+        """A copy with ``stroke``.
+
+        Parameters
+        ----------
+        stroke : Stroke or None
+            The stroke; ``None`` removes it.
+
+        Returns
+        -------
+        Layout
+            The changed copy.
+        """
         return self._replace(stroke=stroke)
 
     def with_table(self, spec: TableSpec) -> Layout:
-        """A copy on another table (balls keep their coordinates; ask
-        :meth:`problems` whether they still fit)."""
+        """A copy on another table (balls keep their coordinates; see :meth:`problems`).
+
+        Parameters
+        ----------
+        spec : TableSpec
+            The table.
+
+        Returns
+        -------
+        Layout
+            The changed copy.
+        """
         return self._replace(table=spec)
 
     def with_title(self, title: str, note: str | None = None) -> Layout:
-        """A copy with a new title and, if given, a new note."""
+        """A copy with a new title and, if given, a new note.
+
+        Parameters
+        ----------
+        title : str
+            The title.
+        note : str, optional
+            The note; kept if ``None``.
+
+        Returns
+        -------
+        Layout
+            The changed copy.
+        """
         return self._replace(title=title, note=self.note if note is None else note)
 
     def with_physics(self, overrides: Mapping[str, JSONValue]) -> Layout:
-        """A copy whose ``physics`` object is ``overrides`` (replacing the old one)."""
+        """A copy whose ``physics`` object is ``overrides`` (replacing the old one).
+
+        Parameters
+        ----------
+        overrides : Mapping
+            Keys of :data:`shotplan.physics.PHYSICS_KEYS` to numbers.
+
+        Returns
+        -------
+        Layout
+            The changed copy.
+        """
         return self._replace(physics_overrides=tuple(overrides.items()))
 
     def _replace(self, **changes: Any) -> Layout:
@@ -295,14 +398,19 @@ class Layout:
 
     # ---------------------------------------------------------------- files
     def to_dict(self) -> dict[str, JSONValue]:
-        """The layout file's object (keys in :data:`LAYOUT_KEYS` order; empty
-        optional fields left out)."""
+        """The layout file's object.
+
+        Returns
+        -------
+        dict
+            Keys in :data:`LAYOUT_KEYS` order, empty optional fields left out.
+        """
         out: dict[str, Any] = {"format": FORMAT, "version": VERSION}
         if self.title:
             out["title"] = self.title
         if self.note:
             out["note"] = self.note
-        out["table"] = _table_to_json(self.table)
+        out["table"] = table_to_object(self.table)
         out["balls"] = {b: [x, y] for b, (x, y) in self.balls}
         if self.stroke is not None:
             out["stroke"] = self.stroke.to_dict()
@@ -311,7 +419,13 @@ class Layout:
         return out
 
     def to_json(self) -> str:
-        """The layout file's text: indented by 2, positions on one line, a final newline."""
+        """The layout file's text.
+
+        Returns
+        -------
+        str
+            JSON indented by 2, positions on one line, a final newline.
+        """
         text = json.dumps(self.to_dict(), indent=2, ensure_ascii=False, allow_nan=False)
         # Keep [x, y] on one line. Raw newlines never occur inside JSON
         # strings, so only real arrays of numbers match.
@@ -325,12 +439,30 @@ class Layout:
                   base: str | os.PathLike[str] | None = None) -> Layout:
         """Build from a parsed layout object, checking its structure.
 
-        ``where`` starts every message (the file name). With ``header=False``
-        the ``format`` and ``version`` fields are optional (a layout inside
-        another file). ``"stroke": null`` and ``"physics": null`` mean none.
-        A table ``{"profile": PATH}`` is read relative to the folder ``base``
-        (the layout file's folder; default: the current folder).
-        Geometric problems are not raised here: see :meth:`problems`.
+        ``"stroke": null`` and ``"physics": null`` mean none. Geometric problems
+        are not raised here: see :meth:`problems`.
+
+        Parameters
+        ----------
+        data : JSONValue
+            The layout object.
+        where : str, optional
+            Starts every message (the file name).
+        header : bool, optional
+            If false, ``format`` and ``version`` are optional (a layout inside another file).
+        base : str or os.PathLike, optional
+            The folder a table ``{"profile": PATH}`` is read relative to (the
+            layout file's; default: the current folder).
+
+        Returns
+        -------
+        Layout
+            The layout.
+
+        Raises
+        ------
+        LayoutError
+            For a structural fault, naming the field and what would be valid.
         """
         check_numbers(data, where)
         if not isinstance(data, Mapping):
@@ -374,11 +506,30 @@ class Layout:
 
     @classmethod
     def from_json(cls, text: str, where: str = "layout") -> Layout:
-        """Parse a layout file's text; ``where`` starts every message."""
+        """Parse a layout file's text.
+
+        Parameters
+        ----------
+        text : str
+            The JSON text.
+        where : str, optional
+            Starts every message.
+
+        Returns
+        -------
+        Layout
+            The layout (see :meth:`from_dict`).
+        """
         return cls.from_dict(parse_json(text, where), where)
 
     def save(self, path: str | os.PathLike[str]) -> None:
-        """Write the layout file atomically: the old file stays whole until the new one is."""
+        """Write the layout file atomically (see :func:`save_layout`).
+
+        Parameters
+        ----------
+        path : str or os.PathLike
+            The file.
+        """
         save_layout(self, path)
 
     def __repr__(self) -> str:
@@ -404,8 +555,24 @@ def load_layout(path: str | os.PathLike[str], *, strict: bool = True) -> Layout:
     Every fault raises :class:`LayoutError` with one line that starts with the
     file name, names the field and says what would be valid, e.g.
     ``club.json: balls.3: [1.0, 9.0] is off the table (the table is 2.54 x 1.27 m)``.
-    With ``strict=False`` the layout's problems (see :meth:`Layout.problems`)
-    do not raise, so they can be shown; structural faults still do.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+    strict : bool, optional
+        If false, the layout's problems (see :meth:`Layout.problems`) do not
+        raise, so they can be shown; structural faults still do.
+
+    Returns
+    -------
+    Layout
+        The layout.
+
+    Raises
+    ------
+    LayoutError
+        As above.
     """
     name = show_path(path)
     layout = Layout.from_dict(read_json_file(path), name, base=Path(path).parent)
@@ -420,8 +587,14 @@ def load_layout(path: str | os.PathLike[str], *, strict: bool = True) -> Layout:
 def save_layout(layout: Layout, path: str | os.PathLike[str]) -> None:
     """Write ``layout`` to ``path`` atomically (never a half-written file).
 
-    A layout with problems can be saved (work in progress); one whose table
-    is not a preset plus overrides cannot.
+    A layout with problems can be saved (work in progress).
+
+    Parameters
+    ----------
+    layout : Layout
+        The layout; its table must be a preset plus overrides.
+    path : str or os.PathLike
+        The file.
     """
     check_output_path(path)
     atomic_write_text(path, layout.to_json())
@@ -451,7 +624,7 @@ def _table_from_json(value: Any, where: str,
         except LayoutError as e:
             raise LayoutError(f"{where}: table: {e}") from None
     if isinstance(value, Mapping):
-        return _preset_with_overrides(value, f"{where}: table")
+        return table_from_object(value, f"{where}: table")
     raise LayoutError(f"{where}: table: {show_value(value)} is not a table, must be a preset name "
                       f"({presets}), an object with \"preset\" and measured values, or "
                       "{\"profile\": \"FILE.json\"}")
@@ -477,16 +650,34 @@ def _table_from_profile_field(value: Mapping[str, Any], where: str,
 
 def table_from_file(path: str | os.PathLike[str], where: str = "", *,
                     referenced: bool = False) -> TableSpec:
-    """The table in a file: a table profile (``"format":
-    "shotplan-table-profile"``, what ``shotplan cushion fit -o`` writes), a
-    bare table object ``{"preset": ..., measured values...}``, or a layout
-    file (its table). Its measured values go through every check of
-    :meth:`TableSpec.with_overrides`. ``where`` (a field that names the
-    file) starts every message; the file's name follows it.
+    """The table in a file.
 
-    ``referenced=True`` (a file another file names, which may be any file):
-    only a table profile is read, and messages show its fields and their
-    problems, never the rest of its content."""
+    A table profile (``"format": "shotplan-table-profile"``, what ``shotplan
+    cushion fit -o`` writes), a bare table object ``{"preset": ..., measured
+    values...}``, or a layout file (its table). Its measured values go
+    through every check of :meth:`TableSpec.with_overrides`.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+    where : str, optional
+        A field that names the file; starts every message, the file's name follows.
+    referenced : bool, optional
+        A file another file names (which may be any file): only a table
+        profile is read, and messages show its fields and their problems,
+        never the rest of its content.
+
+    Returns
+    -------
+    TableSpec
+        The table.
+
+    Raises
+    ------
+    LayoutError
+        If the file cannot be read or holds no valid table.
+    """
     shown = show_path(path)
     label = f"{where}: {shown}" if where else shown
     try:
@@ -503,66 +694,41 @@ def table_from_file(path: str | os.PathLike[str], where: str = "", *,
     if isinstance(data, Mapping) and ("balls" in data or data.get("format") == FORMAT):
         return Layout.from_dict(data, label, header=False, base=Path(path).parent).table
     if isinstance(data, Mapping) and "format" in data:
-        check_format(data, label, PROFILE_FORMAT, "table profile")
-        check_version(data, label, _PROFILE_VERSION, "table profile")
-        table = data.get("table", _MISSING)
-        if not isinstance(table, Mapping):
-            raise LayoutError(f"{label}: table: {'missing' if table is _MISSING else value_kind(table)}"
-                              ", a table profile holds {\"preset\": ..., measured values...}")
-        return _preset_with_overrides(table, f"{label}: table")
+        return table_from_profile(data, label)
     if isinstance(data, Mapping) and "preset" in data:
-        return _preset_with_overrides(data, label)
+        return table_from_object(data, label)
     if isinstance(data, Mapping) and isinstance(data.get("table"), Mapping):
-        return _preset_with_overrides(data["table"], f"{label}: table")
+        return table_from_object(data["table"], f"{label}: table")
     raise LayoutError(f"{label}: not a table profile: must be a profile from 'shotplan cushion "
                       "fit', an object {\"preset\": ..., measured values...} or a layout file")
 
 
-def _preset_with_overrides(value: Mapping[str, Any], where: str) -> TableSpec:
-    presets = ", ".join(PRESETS)
-    if "profile" in value:
-        raise LayoutError(f"{where}: profile: a table profile cannot name another profile")
-    name = value.get("preset", _MISSING)
-    if name is _MISSING:
-        raise LayoutError(f"{where}.preset: missing, must be one of {presets}")
-    if not isinstance(name, str):
-        raise LayoutError(f"{where}.preset: {show_value(name)} is not a preset name, must be one "
-                          f"of {presets}")
-    try:
-        spec = TableSpec.preset(name)
-    except LayoutError as e:
-        raise LayoutError(f"{where}.preset: {e}") from None
-    return spec.with_overrides({k: v for k, v in value.items() if k != "preset"}, where=where)
-
-
 def load_table(value: str, where: str = "--table") -> TableSpec:
-    """The table a command-line option names: a preset name, or a file (see
-    :func:`table_from_file`)."""
+    """The table a command-line option names.
+
+    Parameters
+    ----------
+    value : str
+        A preset name, or a file (see :func:`table_from_file`).
+    where : str, optional
+        Starts every message (the option).
+
+    Returns
+    -------
+    TableSpec
+        The table.
+
+    Raises
+    ------
+    LayoutError
+        If ``value`` is neither a preset nor a readable table file.
+    """
     if value in PRESETS:
         return TableSpec.preset(value)
     if not value.lower().endswith(".json") and not Path(value).exists():
         raise LayoutError(f"{where}: {show_value(value)} is not a table preset "
                           f"({', '.join(PRESETS)}) nor a table profile file (.json)")
     return table_from_file(value, where)
-
-
-def _table_to_json(spec: TableSpec) -> str | dict[str, Any]:
-    # Files hold a preset plus overrides; check that this rebuilds the very
-    # spec, or the file would silently describe another table.
-    overrides = dict(spec.overrides)
-    base = PRESETS.get(spec.name)
-    rebuilt = base.with_overrides(overrides) if base is not None else None
-    if rebuilt is None or rebuilt != _with_overrides_field(spec, rebuilt.overrides):
-        raise LayoutError(f"table {spec.name!r} cannot be written: it is not a preset with "
-                          "measured overrides (build it with TableSpec.preset(...)."
-                          "with_overrides(...))")
-    if not overrides:
-        return spec.name
-    return {"preset": spec.name, **overrides}
-
-
-def _with_overrides_field(spec: TableSpec, overrides: tuple[tuple[str, Any], ...]) -> TableSpec:
-    return dataclasses.replace(spec, overrides=overrides)
 
 
 def _balls_from_json(value: Any, where: str) -> tuple[tuple[str, tuple[float, float]], ...]:
@@ -611,53 +777,3 @@ def _normalise_balls(balls: Any) -> tuple[tuple[str, tuple[float, float]], ...]:
             raise LayoutError(f"layout: {field_path('balls', ball)}: {quoted(xy)} is not a finite position")
         out.append((ball, (fx, fy)))
     return tuple(out)
-
-
-_RAIL_NAMES = {(0.0, 1.0): "right rail", (0.0, -1.0): "left rail",
-               (1.0, 0.0): "head rail", (-1.0, 0.0): "foot rail"}
-
-
-def _placement_message(geo: Table, p: np.ndarray) -> str:
-    """Why a ball centre at ``p`` is not legal (it is known not to be)."""
-    x, y = float(p[0]), float(p[1])
-    k = int(geo.pocket_at(p[None, :])[0])
-    if k >= 0:
-        pocket = geo.pockets[k]
-        (dx, dy), (ax, ay) = pocket.drop_centre, pocket.axis
-        if (x - dx) * ax + (y - dy) * ay >= 0.0:
-            return f"{_pos(p)} is in the {pocket.name} pocket (past its drop line)"
-    inside = 0.0 <= x <= geo.length and 0.0 <= y <= geo.width
-    if not inside and not shapely.contains_xy(geo.bed, x, y):
-        return (f"{_pos(p)} is off the table (the table is {geo.length:.4g} x "
-                f"{geo.width:.4g} m)")
-    # On the cloth but into the rubber: name the nearest cushion or jaw.
-    best, what = math.inf, "cushion"
-    for x0, y0, x1, y1, nx, ny, kind, k in geo.cushion_lines:
-        d = _segment_distance(x, y, x0, y0, x1, y1)
-        if d < best:
-            best = d
-            what = (f"the {_RAIL_NAMES.get((float(nx), float(ny)), 'rail')} cushion"
-                    if kind == LINE_RAIL else f"the jaw of the {geo.pockets[int(k)].name} pocket")
-    for cx, cy, r, k in geo.tip_circles:
-        d = max(math.hypot(x - cx, y - cy) - r, 0.0)
-        if d < best:
-            best, what = d, f"the jaw of the {geo.pockets[int(k)].name} pocket"
-    overlap = geo.contact_offset - best
-    return (f"{_pos(p)} overlaps {what} by {_mm(overlap)} mm (a ball's centre must be at "
-            f"least {_mm(geo.contact_offset)} mm from the cushion nose)")
-
-
-def _segment_distance(px: float, py: float, x0: float, y0: float, x1: float, y1: float) -> float:
-    dx, dy = x1 - x0, y1 - y0
-    l2 = dx * dx + dy * dy
-    t = 0.0 if l2 == 0 else min(1.0, max(0.0, ((px - x0) * dx + (py - y0) * dy) / l2))
-    return math.hypot(px - (x0 + t * dx), py - (y0 + t * dy))
-
-
-def _pos(p: Any) -> str:
-    return f"[{round(float(p[0]), 4)!r}, {round(float(p[1]), 4)!r}]"
-
-
-def _mm(value_m: float) -> str:
-    v = value_m * 1000.0
-    return f"{v:.1f}" if abs(v) >= 0.1 else f"{v:.2g}"

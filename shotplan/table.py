@@ -207,9 +207,8 @@ def _jaw(
     )
 
 
+# A jaw as _build_pockets lays it out: (jaw point, rail direction, inward normal).
 _JawPlan = tuple[tuple[float, float], tuple[int, int], tuple[int, int]]
-"""A jaw as :func:`_build_pockets` lays it out: (jaw point, rail direction,
-inward normal)."""
 
 
 def _build_pockets(spec: TableSpec) -> tuple[Pocket, ...]:
@@ -266,6 +265,13 @@ class Table:
     """
 
     def __init__(self, spec: TableSpec):
+        """Build the geometry (nose segments, jaws, drop lines, shapes) of ``spec``.
+
+        Parameters
+        ----------
+        spec : TableSpec
+            The table spec.
+        """
         self.spec = spec
         self.length = spec.length_m
         self.width = spec.width_m
@@ -336,7 +342,23 @@ class Table:
         """(P, 7): x0, y0, x1, y1, normal back toward the table nx, ny, pocket index."""
 
     def pocket_index(self, name: str) -> int:
-        """Index of the pocket called ``name``."""
+        """Index of the pocket called ``name``.
+
+        Parameters
+        ----------
+        name : str
+            A pocket name (``foot-right``...).
+
+        Returns
+        -------
+        int
+            Its index in :attr:`pockets`.
+
+        Raises
+        ------
+        UnknownName
+            If the table has no such pocket (the message lists them).
+        """
         for k, p in enumerate(self.pockets):
             if p.name == name:
                 return k
@@ -344,7 +366,18 @@ class Table:
         raise UnknownName(f"{quoted(name)} is not a pocket of this table, must be one of {names}")
 
     def pocket(self, name: str) -> Pocket:
-        """The pocket called ``name``."""
+        """The pocket called ``name`` (an unknown name raises as in :meth:`pocket_index`).
+
+        Parameters
+        ----------
+        name : str
+            A pocket name.
+
+        Returns
+        -------
+        Pocket
+            The pocket.
+        """
         return self.pockets[self.pocket_index(name)]
 
     # --------------------------------------------------------------- shapes
@@ -428,7 +461,13 @@ class Table:
 
     # -------------------------------------------------------------- markings
     def diamonds(self) -> np.ndarray:
-        """(M, 2) sight positions, set back from the noses; empty without sights."""
+        """The sight positions, set back from the noses.
+
+        Returns
+        -------
+        ndarray
+            (M, 2) positions, m; empty without sights.
+        """
         setback = self.spec.sight_setback_m
         if setback is None:
             return np.zeros((0, 2))
@@ -445,7 +484,13 @@ class Table:
         return np.array(pts, dtype=float)
 
     def strings(self) -> list[tuple[str, tuple[float, float], tuple[float, float]]]:
-        """Named lines across the table: (name, start, end)."""
+        """Named lines across the table.
+
+        Returns
+        -------
+        list of tuple
+            (name, start, end), the points in m.
+        """
         out = []
         if self.spec.head_string_x_m is not None:
             x = self.spec.head_string_x_m
@@ -456,7 +501,23 @@ class Table:
         return out
 
     def spot(self, name: str) -> tuple[float, float]:
-        """Position of the named spot."""
+        """Position of the named spot.
+
+        Parameters
+        ----------
+        name : str
+            A spot name (``foot spot``...).
+
+        Returns
+        -------
+        tuple of float
+            (x, y), m.
+
+        Raises
+        ------
+        UnknownName
+            If the table has no such spot (the message lists them).
+        """
         for s in self.spec.spots:
             if s.name == name:
                 return (s.x, s.y)
@@ -465,9 +526,19 @@ class Table:
 
     # --------------------------------------------------------------- queries
     def nose_distance(self, points: np.ndarray) -> np.ndarray:
-        """Distance from each point (N, 2) to the nearest cushion nose or jaw, m.
+        """Distance from each point to the nearest cushion nose or jaw.
 
         Exact: the nose segments and the tip discs, not a polygon approximation.
+
+        Parameters
+        ----------
+        points : ndarray
+            (N, 2) points, m (one point (2,) is read as N = 1).
+
+        Returns
+        -------
+        ndarray
+            (N,) distances, m.
         """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         best = np.full(len(pts), np.inf)
@@ -478,12 +549,37 @@ class Table:
         return best
 
     def cushion_clearance(self, points: np.ndarray) -> np.ndarray:
-        """Gap between a ball at each point and the nearest cushion, m (< 0: overlapping)."""
+        """Gap between a ball at each point and the nearest cushion.
+
+        Parameters
+        ----------
+        points : ndarray
+            (N, 2) points, m (one point (2,) is read as N = 1).
+
+        Returns
+        -------
+        ndarray
+            (N,) gaps, m (< 0: overlapping).
+        """
         return self.nose_distance(points) - self.contact_offset
 
     def is_legal(self, points: np.ndarray, tol: float = 1e-9) -> np.ndarray:
-        """Whether a ball's centre may lie at each point (N, 2): on the bed, before
-        any drop line, and clear of every cushion and jaw."""
+        """Whether a ball's centre may lie at each point.
+
+        On the bed, before any drop line, and clear of every cushion and jaw.
+
+        Parameters
+        ----------
+        points : ndarray
+            (N, 2) points, m (one point (2,) is read as N = 1).
+        tol : float, optional
+            Overlap with a cushion forgiven, m (1e-9).
+
+        Returns
+        -------
+        ndarray
+            (N,) booleans; false for a point that is not finite.
+        """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         finite = np.all(np.isfinite(pts), axis=1)
         safe = np.where(finite[:, None], pts, 0.0)
@@ -527,8 +623,27 @@ class Table:
         :func:`shapely.ops.nearest_points` on the legal region minus the other
         balls' discs; its circles are circumscribed polygons, so the spot is
         exactly legal and at most ``_SAGITTA`` of a radius (about 0.1 um)
-        farther than the exact nearest. ``None`` if nothing within ``reach``
-        (default: anywhere) is free.
+        farther than the exact nearest.
+
+        Parameters
+        ----------
+        point : sequence of float or ndarray
+            The wanted place (x, y), m.
+        others : sequence or ndarray, optional
+            (M, 2) centres of the other balls.
+        reach : float, optional
+            Farthest distance looked at, m (default: anywhere).
+
+        Returns
+        -------
+        tuple of float or None
+            The spot (x, y), m (``point`` itself if it is free); ``None`` if nothing
+            within ``reach`` is.
+
+        Raises
+        ------
+        InputError
+            If ``point`` is not finite.
         """
         tx, ty = float(point[0]), float(point[1])
         if not (math.isfinite(tx) and math.isfinite(ty)):
@@ -595,7 +710,18 @@ class Table:
         return ok
 
     def pocket_at(self, points: np.ndarray) -> np.ndarray:
-        """Index of the pocket each point lies in (past its mouth line), or -1."""
+        """Index of the pocket each point lies in (past its mouth line), or -1.
+
+        Parameters
+        ----------
+        points : ndarray
+            (N, 2) points, m (one point (2,) is read as N = 1).
+
+        Returns
+        -------
+        ndarray
+            (N,) pocket indices, -1 where none.
+        """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         out = np.full(len(pts), -1, dtype=int)
         for k, p in enumerate(self.pockets):
@@ -607,8 +733,7 @@ class Table:
 
 def _off_disc(target: tuple[float, float], near: tuple[float, float],
               disc: tuple[float, float, float]) -> tuple[float, float]:
-    """The nearest point to ``target`` on the circle ``disc`` (x, y, r),
-    toward ``near`` if ``target`` is its centre."""
+    """The nearest point to ``target`` on circle ``disc`` (x, y, r); toward ``near`` at its centre."""
     cx, cy, r = disc
     dx, dy = target[0] - cx, target[1] - cy
     d = math.hypot(dx, dy)
@@ -658,10 +783,7 @@ def _segment_distance(pts: np.ndarray, x0: float, y0: float, x1: float, y1: floa
 
 @lru_cache(maxsize=32)
 def table_for(spec: TableSpec) -> Table:
-    """The geometry of ``spec``, built once per distinct spec and then shared.
-
-    Building a :class:`Table` costs a few shapely operations; layouts that
-    share a spec (every edit of one layout does) share its geometry.
+    """The geometry of ``spec``, built once per distinct spec (a few shapely operations).
 
     Parameters
     ----------

@@ -24,8 +24,8 @@ PKG = ROOT / "shotplan"
 LAYERS: list[set[str]] = [
     {"errors", "units"},
     {"files", "equipment", "players"},
-    {"table"},
-    {"stroke", "aim"},
+    {"table", "tablefile"},
+    {"stroke", "aim", "placement"},
     {"physics"},
     {"layout"},
     {"search", "racks"},

@@ -44,8 +44,21 @@ __all__ = ["ball_ball", "ball_cushion", "ball_friction"]
 
 @jit
 def ball_friction(slip, mu_fixed):  # type: ignore[no-untyped-def]
-    """Ball-ball friction at a slip speed: ``mu_fixed`` if >= 0, else the fit
-    9.951e-3 + 0.108 exp(-1.088 v) (Marlow 1995 data, published fit 2007)."""
+    """Ball-ball friction at a slip speed.
+
+    Parameters
+    ----------
+    slip : float
+        Sliding speed at the contact, m/s.
+    mu_fixed : float
+        A fixed coefficient, used if >= 0.
+
+    Returns
+    -------
+    float
+        ``mu_fixed``, or the fit 9.951e-3 + 0.108 exp(-1.088 v) (Marlow 1995
+        data, published fit 2007).
+    """
     if mu_fixed >= 0.0:
         return mu_fixed
     return 9.951e-3 + 0.108 * math.exp(-1.088 * slip)
@@ -53,8 +66,28 @@ def ball_friction(slip, mu_fixed):  # type: ignore[no-untyped-def]
 
 @jit
 def ball_ball(i, j, pos, vel, om, prm, e, mu_fixed):  # type: ignore[no-untyped-def]
-    """Impact of balls i and j (in place). Returns the normal impulse (N s),
-    0 if they were not approaching."""
+    """Impact of balls ``i`` and ``j`` (in place).
+
+    Parameters
+    ----------
+    i, j : int
+        Ball indices, in contact.
+    pos, vel : ndarray
+        (N, 2) positions (m) and velocities (m/s) of every ball at its reference time.
+    om : ndarray
+        (N, 3) spins (wx, wy, wz), rad/s.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+    e : float
+        Ball-ball restitution.
+    mu_fixed : float
+        Ball-ball friction; below 0: :func:`ball_friction`'s fit of the slip speed.
+
+    Returns
+    -------
+    float
+        The normal impulse, N s; 0 if they were not approaching.
+    """
     R = prm[P_R]
     m = prm[P_M]
     dx = pos[j, 0] - pos[i, 0]
@@ -111,8 +144,30 @@ def ball_ball(i, j, pos, vel, om, prm, e, mu_fixed):  # type: ignore[no-untyped-
 
 @jit
 def ball_cushion(i, hx, hy, pos, vel, om, prm, e0, e_slope, mu):  # type: ignore[no-untyped-def]
-    """Impact of ball i on a cushion (or jaw) whose horizontal inward normal
-    is (hx, hy) (in place). Returns the normal impulse, 0 if not approaching."""
+    """Impact of ball ``i`` on a cushion or jaw (in place).
+
+    Parameters
+    ----------
+    i : int
+        Ball index.
+    hx, hy : float
+        The cushion's horizontal inward unit normal.
+    pos, vel : ndarray
+        (N, 2) positions (m) and velocities (m/s) of every ball at its reference time.
+    om : ndarray
+        (N, 3) spins (wx, wy, wz), rad/s.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+    e0, e_slope : float
+        Restitution at zero normal speed and its fall per m/s.
+    mu : float
+        Ball-cushion friction.
+
+    Returns
+    -------
+    float
+        The normal impulse, N s; 0 if not approaching.
+    """
     R = prm[P_R]
     m = prm[P_M]
     vh = vel[i, 0] * hx + vel[i, 1] * hy

@@ -170,8 +170,34 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om):
     """Run the simulation from t = 0 (arrays changed in place).
 
-    Returns (number of events, number of segments, status). ``st`` must hold
-    POCKETED for balls out of play; other states are set from the motion.
+    ``st`` must hold POCKETED for balls out of play; other states are set
+    from the motion.
+
+    Parameters
+    ----------
+    pos, vel : ndarray
+        (N, 2) positions (m) and velocities (m/s) of every ball at its reference time.
+    om : ndarray
+        (N, 3) spins (wx, wy, wz), rad/s.
+    st : ndarray
+        (N,) motion states (``state.REST`` ... ``state.POCKETED``).
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+    lines, circles, drops : ndarray
+        The table's nose segments, jaw tip circles and drop lines.
+    max_events : int
+        Most events recorded before the run stops.
+    ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b : ndarray
+        Filled with each event's time, kind, balls, element and the segment
+        each ball starts after it.
+    seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om : ndarray
+        Filled with the trajectory segments: start time, ball, state, position,
+        velocity and spin at the start.
+
+    Returns
+    -------
+    tuple of int
+        (number of events, number of segments, status).
     """
     n = pos.shape[0]
     tref = np.zeros(n)

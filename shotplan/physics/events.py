@@ -62,8 +62,34 @@ def _circle_quartic(c, qx, qy, vx, vy, bx, by, rr):  # type: ignore[no-untyped-d
 
 @jit
 def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  # type: ignore[no-untyped-def]
-    """Absolute time balls i and j next come into contact before
-    ``t_now + horizon``, or ``inf``."""
+    """Absolute time balls ``i`` and ``j`` next come into contact before ``t_now + horizon``.
+
+    Parameters
+    ----------
+    i, j : int
+        Ball indices.
+    t_now : float
+        The current time, s.
+    horizon : float
+        How far ahead to look, s.
+    pos, vel : ndarray
+        (N, 2) positions (m) and velocities (m/s) of every ball at its reference time.
+    om : ndarray
+        (N, 3) spins (wx, wy, wz), rad/s.
+    st : ndarray
+        (N,) motion states (``state.REST`` ... ``state.POCKETED``).
+    tref : ndarray
+        (N,) each ball's reference time, s.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+    buf : ndarray
+        Scratch room for roots (length >= 8).
+
+    Returns
+    -------
+    float
+        The time, s, or ``inf``.
+    """
     xi, yi, vxi, vyi, wxi, wyi, _ = state_at(i, t_now, pos, vel, om, st, tref, prm)
     xj, yj, vxj, vyj, wxj, wyj, _ = state_at(j, t_now, pos, vel, om, st, tref, prm)
     si = st[i]
@@ -99,11 +125,38 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
 
 @jit
 def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf):  # type: ignore[no-untyped-def]  # noqa: C901, E501
-    """Ball i's next event of its own: (absolute time, kind, element index,
-    absolute time of its next change of state). ``t_now`` must equal the
-    ball's reference time. Element: line index for cushion/jaw faces (and
-    for the corner at a jaw face's far end), 1000000 + circle index for jaw
-    tips, pocket index for a drop."""
+    """Ball ``i``'s next event of its own (a cushion, a jaw, a drop, a change of state).
+
+    Parameters
+    ----------
+    i : int
+        Ball index.
+    t_now : float
+        The current time, s; must equal the ball's reference time.
+    pos, vel : ndarray
+        (N, 2) positions (m) and velocities (m/s) of every ball at its reference time.
+    om : ndarray
+        (N, 3) spins (wx, wy, wz), rad/s.
+    st : ndarray
+        (N,) motion states (``state.REST`` ... ``state.POCKETED``).
+    tref : ndarray
+        (N,) each ball's reference time, s.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+    lines, circles, drops : ndarray
+        The table's nose segments, jaw tip circles and drop lines
+        (:attr:`shotplan.table.Table.cushion_lines` and the like).
+    buf : ndarray
+        Scratch room for roots (length >= 8).
+
+    Returns
+    -------
+    tuple
+        (absolute time, kind, element index, absolute time of its next change of
+        state). Element: line index for cushion/jaw faces (and for the corner
+        at a jaw face's far end), 1000000 + circle index for jaw tips, pocket
+        index for a drop.
+    """
     s = st[i]
     R = prm[P_R]
     if s == SPINNING:

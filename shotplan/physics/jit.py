@@ -37,7 +37,14 @@ JIT_ENABLED = os.environ.get("SHOTPLAN_NO_JIT", "") not in ("1", "true", "yes")
 
 
 def cache_dir() -> Path:
-    """The folder for compiled kernels of this exact physics source."""
+    """The folder for compiled kernels of this exact physics source.
+
+    Returns
+    -------
+    Path
+        ``$XDG_CACHE_HOME/shotplan/numba/<hash>`` (``~/.cache`` without
+        ``XDG_CACHE_HOME``), the hash taken over every file of the package.
+    """
     here = Path(__file__).resolve().parent
     digest = hashlib.sha256()
     for src in sorted(here.glob("*.py")):

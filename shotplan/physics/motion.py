@@ -44,7 +44,24 @@ W_EPS = 1e-7
 
 @jit
 def linear_accel(st, vx, vy, wx, wy, prm):  # type: ignore[no-untyped-def]
-    """Constant linear acceleration (ax, ay) of a ball in state ``st``."""
+    """Constant linear acceleration of a ball in state ``st``.
+
+    Parameters
+    ----------
+    st : int
+        Motion state.
+    vx, vy : float
+        Velocity, m/s.
+    wx, wy : float
+        Horizontal spin, rad/s.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+
+    Returns
+    -------
+    tuple of float
+        (ax, ay), m/s^2.
+    """
     if st == SLIDING:
         R = prm[P_R]
         ux = vx - R * wy
@@ -65,7 +82,18 @@ def linear_accel(st, vx, vy, wx, wy, prm):  # type: ignore[no-untyped-def]
 
 @jit
 def spin_decay_rate(prm):  # type: ignore[no-untyped-def]
-    """Deceleration of the spin about the vertical, rad/s^2."""
+    """Deceleration of the spin about the vertical.
+
+    Parameters
+    ----------
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+
+    Returns
+    -------
+    float
+        rad/s^2.
+    """
     return 2.5 * prm[P_MU_SP] * prm[P_G] / prm[P_R]
 
 
@@ -110,7 +138,25 @@ def state_at(i, t, pos, vel, om, st, tref, prm):  # type: ignore[no-untyped-def]
 
 @jit
 def advance(i, t, pos, vel, om, st, tref, prm):  # type: ignore[no-untyped-def]
-    """Move ball ``i``'s reference time to ``t`` (in place)."""
+    """Move ball ``i``'s reference time to ``t`` (in place).
+
+    Parameters
+    ----------
+    i : int
+        Ball index.
+    t : float
+        The new reference time, s (not before the old one).
+    pos, vel : ndarray
+        (N, 2) positions (m) and velocities (m/s) of every ball at its reference time.
+    om : ndarray
+        (N, 3) spins (wx, wy, wz), rad/s.
+    st : ndarray
+        (N,) motion states (``state.REST`` ... ``state.POCKETED``).
+    tref : ndarray
+        (N,) each ball's reference time, s.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+    """
     x, y, vx, vy, wx, wy, wz = state_at(i, t, pos, vel, om, st, tref, prm)
     pos[i, 0] = x
     pos[i, 1] = y
@@ -124,8 +170,22 @@ def advance(i, t, pos, vel, om, st, tref, prm):  # type: ignore[no-untyped-def]
 
 @jit
 def transition_time(i, vel, om, st, prm):  # type: ignore[no-untyped-def]
-    """Time after the ball's reference time when its state changes next
-    (``inf`` if never), from the closed forms above."""
+    """Time after the ball's reference time when its state changes next, from the closed forms above.
+
+    Parameters
+    ----------
+    i : int
+        Ball index.
+    vel, om, st
+        As in :func:`advance`.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+
+    Returns
+    -------
+    float
+        Seconds, ``inf`` if never.
+    """
     s = st[i]
     R = prm[P_R]
     if s == SLIDING:
@@ -141,8 +201,24 @@ def transition_time(i, vel, om, st, prm):  # type: ignore[no-untyped-def]
 
 @jit
 def classify(i, vel, om, st, prm):  # type: ignore[no-untyped-def]
-    """Set ball ``i``'s state from its velocity and spin (in place) and clean
-    values that are zero to rounding. Returns the new state."""
+    """Set ball ``i``'s state from its velocity and spin (in place).
+
+    Values that are zero to rounding are cleaned to zero.
+
+    Parameters
+    ----------
+    i : int
+        Ball index.
+    vel, om, st
+        As in :func:`advance`.
+    prm : ndarray
+        The parameter vector (indices ``state.P_*``).
+
+    Returns
+    -------
+    int
+        The new state.
+    """
     if st[i] == POCKETED:
         return POCKETED
     R = prm[P_R]

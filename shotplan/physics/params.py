@@ -29,6 +29,16 @@ def ball_friction_fit(slip_speed_mps: float) -> float:
     ``mu(v) = 9.951e-3 + 0.108 exp(-1.088 v)``: an exponential fitted to
     Marlow's measurements (*The Physics of Pocket Billiards*, 1995) in a
     published technical analysis of collision-induced throw (2007).
+
+    Parameters
+    ----------
+    slip_speed_mps : float
+        Sliding speed between the balls at the contact, m/s.
+
+    Returns
+    -------
+    float
+        The friction coefficient.
     """
     return 9.951e-3 + 0.108 * math.exp(-1.088 * slip_speed_mps)
 
@@ -94,8 +104,25 @@ class Physics:
                   base: Physics | None = None) -> Physics:
         """``base`` (or the defaults) with the fields of ``data`` replaced.
 
-        Unknown keys, non-numbers and values out of range raise
-        :class:`PhysicsError` naming ``where`` and what is valid.
+        Parameters
+        ----------
+        data : JSONValue
+            A mapping of :data:`PHYSICS_KEYS` to numbers (a layout's ``physics`` object).
+        where : str, optional
+            Starts every message.
+        base : Physics, optional
+            The values to start from (the defaults if ``None``).
+
+        Returns
+        -------
+        Physics
+            The changed copy.
+
+        Raises
+        ------
+        PhysicsError
+            For data that is not an object, an unknown key, a value that is not a
+            number or out of range, naming ``where`` and what is valid.
         """
         base = base or cls()
         if not isinstance(data, Mapping):
@@ -126,8 +153,20 @@ class Physics:
 
     @classmethod
     def for_table(cls, spec: TableSpec, base: Physics | None = None) -> Physics:
-        """The physics of a table: ``base`` (or defaults) with the table's
-        measured cloth and cushion values, where it has any."""
+        """The physics of a table: ``base`` (or defaults) with the table's measured values.
+
+        Parameters
+        ----------
+        spec : TableSpec
+            The table; its measured cloth and cushion values, where it has any, replace ``base``'s.
+        base : Physics, optional
+            The values to start from (the defaults if ``None``).
+
+        Returns
+        -------
+        Physics
+            The table's physics.
+        """
         p = base or cls()
         measured = {
             "cloth_sliding_friction": spec.cloth.sliding_friction,
@@ -141,11 +180,28 @@ class Physics:
         return dataclasses.replace(p, **changes)
 
     def to_dict(self) -> dict[str, JSONValue]:
-        """Every field by name."""
+        """Every field by name.
+
+        Returns
+        -------
+        dict
+            Field name -> value.
+        """
         return {f.name: getattr(self, f.name) for f in fields(self)}
 
     def cushion_e(self, normal_speed: float) -> float:
-        """Cushion restitution at a normal speed (m/s)."""
+        """Cushion restitution at a normal speed.
+
+        Parameters
+        ----------
+        normal_speed : float
+            The ball's speed into the cushion, m/s.
+
+        Returns
+        -------
+        float
+            ``cushion_restitution - cushion_restitution_slope * normal_speed``, at least 0.05.
+        """
         return max(self.cushion_restitution - self.cushion_restitution_slope * normal_speed, 0.05)
 
 

@@ -34,7 +34,22 @@ __all__ = ["poly_eval", "real_roots", "first_down_crossing"]
 
 @jit
 def poly_eval(c, n, t):  # type: ignore[no-untyped-def]
-    """Value of ``c[0] + ... + c[n] t^n`` at ``t`` (Horner)."""
+    """Value of ``c[0] + ... + c[n] t^n`` at ``t`` (Horner).
+
+    Parameters
+    ----------
+    c : ndarray
+        Coefficients, lowest power first.
+    n : int
+        Degree.
+    t : float
+        Where to evaluate.
+
+    Returns
+    -------
+    float
+        The value.
+    """
     acc = c[n]
     for k in range(n - 1, -1, -1):
         acc = acc * t + c[k]
@@ -151,10 +166,31 @@ def _roots_by_isolation(c, n, lo, hi, crit, ncrit, out, k0):  # type: ignore[no-
 
 @jit
 def real_roots(c, n, lo, hi, out):  # type: ignore[no-untyped-def]
-    """All real roots of ``c[0..n]`` (n <= 4) in ``[lo, hi]``, sorted, into
-    ``out`` (length >= 8: up to five are written before duplicates go).
-    Returns how many. Touching (double) roots are reported where the
-    polynomial reaches zero exactly or changes sign."""
+    """All real roots of ``c[0..n]`` (n <= 4) in ``[lo, hi]``, sorted, into ``out``.
+
+    Touching (double) roots are reported where the polynomial reaches zero
+    exactly or changes sign. Hand-written rather than ``numpy.roots``: it runs
+    inside the compiled event loop (numba), needs only the roots in one
+    interval, and isolates them between critical points so none is missed
+    there (``numpy.roots`` goes through complex eigenvalues and would need
+    filtering and polishing afterwards).
+
+    Parameters
+    ----------
+    c : ndarray
+        Coefficients, lowest power first.
+    n : int
+        Degree, at most 4.
+    lo, hi : float
+        The interval.
+    out : ndarray
+        Room for the roots, length >= 8 (up to five are written before duplicates go).
+
+    Returns
+    -------
+    int
+        How many roots were written.
+    """
     n = _effective_degree(c, n, lo, hi)
     if n <= 2:
         return _roots_upto2(c, n, lo, hi, out, 0)
@@ -222,7 +258,7 @@ def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
     ``p`` is a gap function (distance minus contact distance, or its square
     form): positive apart, zero in contact. If ``p(0) <= 0`` and ``p'(0) < 0``
     the contact is now (0.0). A start at ``p(0) <= 0`` moving apart (just after
-    an impact) is not a crossing. Returns ``inf`` when there is none.
+    an impact) is not a crossing.
 
     Touching at the start (``p(0) <= 0``, to rounding) and not approaching at
     first order, the pair is separating only if ``p`` actually becomes
@@ -231,6 +267,22 @@ def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
     rolling ball keeps catching up with the one it pushes), the contact
     resumes when ``p`` falls back to its starting value: that time is
     returned, or the pair would pass into each other unseen.
+
+    Parameters
+    ----------
+    c : ndarray
+        Coefficients of ``p``, lowest power first.
+    n : int
+        Degree, at most 4.
+    horizon : float
+        Latest time looked at, s.
+    out : ndarray
+        Scratch room for roots, length >= 8.
+
+    Returns
+    -------
+    float
+        The time, s, or ``inf`` when there is none.
     """
     if c[0] <= 0.0 and c[1] < 0.0:
         return 0.0

@@ -31,7 +31,7 @@ class BallSetup(Protocol):
     """What the engine needs of a layout: its table, balls, stroke and physics.
 
     :class:`shotplan.layout.Layout` is one; the engine sits below the layout
-    module and names only this protocol.
+    module and names only this protocol. A protocol: not made, only matched.
     """
 
     @property
@@ -43,10 +43,22 @@ class BallSetup(Protocol):
         """The stroke to play, or ``None``."""
 
     def positions(self) -> dict[str, tuple[float, float]]:
-        """Ball id -> (x, y) in m, in the order the balls are set up."""
+        """Ball id -> (x, y) in m, in the order the balls are set up.
+
+        Returns
+        -------
+        dict
+            The positions.
+        """
 
     def physics(self) -> Physics:
-        """The physics values to play with."""
+        """The physics values to play with.
+
+        Returns
+        -------
+        Physics
+            The values.
+        """
 
 
 @dataclass(frozen=True, slots=True)
@@ -102,21 +114,67 @@ class Run:
         return len(self.seg_t)
 
     def pocket_of(self, i: int) -> int:
-        """Pocket index ball ``i`` fell into, or -1."""
+        """Pocket index ball ``i`` fell into, or -1.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        int
+            Index into the table's pockets, -1 if the ball stayed up.
+        """
         hit = np.flatnonzero((self.event_kind == EV_POCKET) & (self.ball_a == i))
         return int(self.element[hit[0]]) if len(hit) else -1
 
     def collisions_of(self, i: int) -> np.ndarray:
-        """Indices of ball ``i``'s collisions with other balls, in order."""
+        """Indices of ball ``i``'s collisions with other balls, in order.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        ndarray
+            Event indices.
+        """
         return np.flatnonzero((self.event_kind == EV_COLLISION)
                               & ((self.ball_a == i) | (self.ball_b == i)))
 
     def other_ball(self, k: int, i: int) -> int:
-        """The ball ball ``i`` met in collision ``k``."""
+        """The ball ball ``i`` met in collision ``k``.
+
+        Parameters
+        ----------
+        k : int
+            Event index of a collision of ``i``.
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        int
+            The other ball's index.
+        """
         return int(self.ball_b[k] if self.ball_a[k] == i else self.ball_a[k])
 
     def first_collision(self, i: int) -> tuple[int, int]:
-        """(event index, other ball) of ball i's first collision, or (-1, -1)."""
+        """Ball ``i``'s first collision with another ball.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        tuple of int
+            (event index, other ball), or (-1, -1) if it met none.
+        """
         hit = self.collisions_of(i)
         if not len(hit):
             return -1, -1
@@ -124,37 +182,127 @@ class Run:
         return k, self.other_ball(k, i)
 
     def velocity_after(self, k: int, i: int) -> tuple[float, float]:
-        """Ball ``i``'s velocity just after event ``k``."""
+        """Ball ``i``'s velocity just after event ``k``.
+
+        Parameters
+        ----------
+        k : int
+            Event index (ball ``i`` takes part in it).
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        tuple of float
+            (vx, vy), m/s.
+        """
         seg = self.seg_a[k] if self.ball_a[k] == i else self.seg_b[k]
         return float(self.seg_vel[seg, 0]), float(self.seg_vel[seg, 1])
 
     def position_at_event(self, k: int, i: int) -> tuple[float, float]:
-        """Ball ``i``'s position at event ``k``."""
+        """Ball ``i``'s position at event ``k``.
+
+        Parameters
+        ----------
+        k : int
+            Event index (ball ``i`` takes part in it).
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        tuple of float
+            (x, y), m.
+        """
         seg = self.seg_a[k] if self.ball_a[k] == i else self.seg_b[k]
         return float(self.seg_pos[seg, 0]), float(self.seg_pos[seg, 1])
 
     def events_of(self, i: int) -> np.ndarray:
-        """Indices of every event ball ``i`` takes part in, in order."""
+        """Indices of every event ball ``i`` takes part in, in order.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        ndarray
+            Event indices.
+        """
         return np.flatnonzero((self.ball_a == i) | (self.ball_b == i))
 
     def next_event_of(self, i: int, k: int) -> int:
-        """Index of ball i's first event after event k, or -1."""
+        """Index of ball ``i``'s first event after event ``k``, or -1.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+        k : int
+            An event index.
+
+        Returns
+        -------
+        int
+            The next event of ``i``, -1 if none follows.
+        """
         hit = np.flatnonzero(((self.ball_a == i) | (self.ball_b == i))[k + 1:])
         return int(hit[0]) + k + 1 if len(hit) else -1
 
     def cushion_events(self, i: int) -> np.ndarray:
-        """Indices of ball ``i``'s cushion events, in order."""
+        """Indices of ball ``i``'s cushion events, in order.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        ndarray
+            Event indices.
+        """
         return np.flatnonzero((self.event_kind == EV_CUSHION) & (self.ball_a == i))
 
     def finish(self, i: int) -> tuple[float, float]:
-        """Where ball ``i`` was when the run stopped."""
+        """Where ball ``i`` was when the run stopped.
+
+        Parameters
+        ----------
+        i : int
+            Ball index.
+
+        Returns
+        -------
+        tuple of float
+            (x, y), m.
+        """
         return float(self.final[i, 0]), float(self.final[i, 1])
 
 
 class StrokePlayer:
-    """Plays strokes on one set of balls: the positions array, the
-    simulator and the cue ball's index are set up once; each stroke costs one
-    engine run, counted in :attr:`runs`."""
+    """Plays strokes on one set of balls.
+
+    The positions array, the simulator and the cue ball's index are set up
+    once; each stroke costs one engine run, counted in :attr:`runs`.
+
+    Parameters
+    ----------
+    sim : Simulator
+        The engine for the table and physics values.
+    ids : list of str
+        Ball ids, in the order of ``pos``; one must be ``cue``.
+    pos : ndarray
+        (N, 2) ball positions, m.
+    elevation : float, optional
+        Cue elevation of every stroke, degrees (unless one is given).
+
+    Raises
+    ------
+    InputError
+        If there is no cue ball.
+    """
 
     __slots__ = ("sim", "ids", "pos", "cue", "elevation", "runs")
 
@@ -178,7 +326,22 @@ class StrokePlayer:
     @classmethod
     def for_layout(cls, layout: BallSetup, physics: Physics | None = None,
                    elevation: float = 0.0) -> StrokePlayer:
-        """A player for a :class:`shotplan.layout.Layout`'s balls and table."""
+        """A player for a layout's balls and table.
+
+        Parameters
+        ----------
+        layout : BallSetup
+            A :class:`shotplan.layout.Layout` (or anything with its table, balls and physics).
+        physics : Physics, optional
+            The physics values; the layout's by default.
+        elevation : float, optional
+            Cue elevation of every stroke, degrees.
+
+        Returns
+        -------
+        StrokePlayer
+            The player.
+        """
         from .simulator import simulator_for  # the compiled engine loads on first use
 
         phys = physics if physics is not None else layout.physics()
@@ -199,12 +362,46 @@ class StrokePlayer:
 
     def play(self, direction: float, speed: float, side: float, height: float,
              elevation: float | None = None) -> Run:
-        """One stroke on the cue ball from the set-up positions."""
+        """One stroke on the cue ball from the set-up positions.
+
+        Parameters
+        ----------
+        direction : float
+            Direction, degrees counter-clockwise from +x.
+        speed : float
+            Launch speed, m/s.
+        side, height : float
+            Tip offset, ball radii.
+        elevation : float, optional
+            Cue elevation, degrees; the player's by default.
+
+        Returns
+        -------
+        Run
+            The engine's record of the run.
+        """
         self.runs += 1
         ln = self.sim.launch(Stroke(direction, speed, side, height,
                                     self.elevation if elevation is None else elevation))
         return self.sim.run_raw(self.pos, self.cue, ln.velocity, ln.spin)
 
     def pots(self, run: Run, first: int, ball: int, pocket: int) -> bool:
-        """Whether the cue ball met ``first`` first and ``ball`` fell in ``pocket``."""
+        """Whether the cue ball met ``first`` first and ``ball`` fell in ``pocket``.
+
+        Parameters
+        ----------
+        run : Run
+            A run of this player.
+        first : int
+            The ball the cue ball must meet first.
+        ball : int
+            The ball to pot.
+        pocket : int
+            Its pocket's index.
+
+        Returns
+        -------
+        bool
+            Both held.
+        """
         return run.first_collision(self.cue)[1] == first and run.pocket_of(ball) == pocket

@@ -80,7 +80,13 @@ class BallState:
     """Motion state from this instant on."""
 
     def to_dict(self) -> dict[str, float]:
-        """The ``{"x", "y", "vx", "vy", "wx", "wy", "wz"}`` object of the JSON output."""
+        """The state object of the JSON output.
+
+        Returns
+        -------
+        dict
+            ``{"x", "y", "vx", "vy", "wx", "wy", "wz"}``.
+        """
         return {"x": self.x, "y": self.y, "vx": self.vx, "vy": self.vy,
                 "wx": self.wx, "wy": self.wy, "wz": self.wz}
 
@@ -101,7 +107,13 @@ class Event:
     """State right after the event of each ball in ``balls``."""
 
     def to_dict(self) -> dict[str, JSONValue]:
-        """The event object of the JSON output."""
+        """The event object of the JSON output.
+
+        Returns
+        -------
+        dict
+            ``t``, ``kind``, ``balls`` (each ball's state after it) and, if any, ``where``.
+        """
         d: dict[str, Any] = {
             "t": self.t,
             "kind": self.kind.word,
@@ -162,6 +174,15 @@ class Simulator:
     """
 
     def __init__(self, table: Table, physics: Physics | None = None):
+        """Set up the engine's arrays for a table and physics values.
+
+        Parameters
+        ----------
+        table : Table
+            The table's geometry.
+        physics : Physics, optional
+            The physics values; the defaults for the table if ``None``.
+        """
         self.table = table
         self.physics = physics or Physics.for_table(table.spec)
         self.prm = _params_vector(table, self.physics)
@@ -175,13 +196,45 @@ class Simulator:
         return f"Simulator({self.table!r}, {self.physics!r})"
 
     def launch(self, stroke: Stroke) -> Launch:
-        """The cue ball's launch for ``stroke`` (raises :class:`StrokeError`)."""
+        """The cue ball's launch for ``stroke``.
+
+        Parameters
+        ----------
+        stroke : Stroke
+            The stroke.
+
+        Returns
+        -------
+        Launch
+            Velocity, spin and squirt just after the strike.
+
+        Raises
+        ------
+        StrokeError
+            If the tip offset is beyond the miscue limit.
+        """
         return launch(stroke, self.radius, self.mass, self.physics)
 
     def run_raw(self, positions: np.ndarray, cue_index: int, velocity: Sequence[float],
                 spin: Sequence[float], pocketed: np.ndarray | None = None) -> Run:
-        """Run from the given state; returns the engine's record of the run
-        (:class:`shotplan.physics.run.Run`, its arrays cut to what was used)."""
+        """Run the engine from the given state.
+
+        Parameters
+        ----------
+        positions : ndarray
+            (N, 2) ball positions, m.
+        cue_index : int
+            Index of the struck ball.
+        velocity, spin : sequence of float
+            Its launch velocity (vx, vy), m/s, and spin (wx, wy, wz), rad/s.
+        pocketed : ndarray, optional
+            (N,) true for balls already out of play.
+
+        Returns
+        -------
+        Run
+            The engine's record of the run, its arrays cut to what was used.
+        """
         pos = np.array(positions, dtype=float).reshape(-1, 2)
         n = len(pos)
         vel = np.zeros((n, 2))
@@ -217,7 +270,31 @@ class Simulator:
 
     def run(self, ids: Sequence[str], positions: ArrayLike, stroke: Stroke,
             cue: str = "cue") -> Outcome:
-        """Play ``stroke`` on the cue ball with the balls at ``positions``."""
+        """Play ``stroke`` on the cue ball with the balls at ``positions``.
+
+        Parameters
+        ----------
+        ids : sequence of str
+            Ball ids, in the order of ``positions``.
+        positions : array_like
+            (N, 2) ball positions, m.
+        stroke : Stroke
+            The stroke.
+        cue : str, optional
+            The id of the struck ball (``cue``).
+
+        Returns
+        -------
+        Outcome
+            The events and trajectories.
+
+        Raises
+        ------
+        LayoutError
+            If ``cue`` is not among ``ids``.
+        StrokeError
+            If the tip offset is beyond the miscue limit.
+        """
         ids = tuple(ids)
         if cue not in ids:
             raise LayoutError(f"no {cue!r} ball on the table: nothing to strike")
@@ -238,15 +315,26 @@ def simulate(layout: BallSetup, stroke: Stroke | Mapping[str, JSONValue] | None 
 
     Parameters
     ----------
-    layout
+    layout : BallSetup
         A :class:`shotplan.layout.Layout` (anything with ``table``,
         ``positions()``, ``stroke`` and ``physics()``).
-    stroke
+    stroke : Stroke or Mapping, optional
         The stroke; by default the layout's own. A mapping is read as a
         layout ``stroke`` object.
-    physics
+    physics : Physics, optional
         Physics values; by default the layout's (defaults, then the table's
         measured values, then the layout's ``physics`` object).
+
+    Returns
+    -------
+    Outcome
+        The events and trajectories.
+
+    Raises
+    ------
+    StrokeError
+        If there is no stroke, it is not a stroke, or its tip offset is beyond
+        the miscue limit.
     """
     if stroke is None:
         stroke = layout.stroke
@@ -272,6 +360,21 @@ class Outcome:
 
     def __init__(self, sim: Simulator, ids: tuple[str, ...], stroke: Stroke, launch: Launch,
                  run: Run):
+        """Wrap a run for reading by ball id.
+
+        Parameters
+        ----------
+        sim : Simulator
+            The engine that ran it.
+        ids : tuple of str
+            Ball ids, in the run's ball order.
+        stroke : Stroke
+            The stroke played.
+        launch : Launch
+            Its launch.
+        run : Run
+            The engine's record.
+        """
         self.simulator = sim
         self.ids = ids
         self.stroke = stroke
@@ -345,7 +448,18 @@ class Outcome:
         return len(self._ev[0])
 
     def first_contact(self, ball: str = "cue") -> str | None:
-        """Id of the first ball ``ball`` collides with, or None."""
+        """Id of the first ball ``ball`` collides with, or None.
+
+        Parameters
+        ----------
+        ball : str, optional
+            The ball (``cue``).
+
+        Returns
+        -------
+        str or None
+            The other ball's id; None if it met none.
+        """
         i = self.ids.index(ball)
         t, kind, a, b, *_ = self._ev
         for k in range(len(t)):
@@ -355,7 +469,13 @@ class Outcome:
 
     # ------------------------------------------------------------ states
     def pocketed(self) -> dict[str, str]:
-        """Balls that fell, with their pocket, in the order they fell."""
+        """Balls that fell, with their pocket, in the order they fell.
+
+        Returns
+        -------
+        dict
+            Ball id -> pocket name.
+        """
         t, kind, a, _b, elem, *_ = self._ev
         table = self.simulator.table
         return {self.ids[a[k]]: table.pockets[elem[k]].name
@@ -386,8 +506,16 @@ class Outcome:
         return out
 
     def final_positions(self) -> np.ndarray:
-        """(N, 2) final positions (pocketed balls where they fell; at the end
-        of the run for a ball still moving when an incomplete run stopped)."""
+        """Where every ball ended.
+
+        Pocketed balls where they fell; at the end of the run for a ball still
+        moving when an incomplete run stopped.
+
+        Returns
+        -------
+        ndarray
+            (N, 2) positions, m.
+        """
         return self.states(self.duration)[:, :2].copy()
 
     def _clamp(self, t: float) -> float:
@@ -400,7 +528,18 @@ class Outcome:
         return int(idx[max(k, 0)])
 
     def states(self, t: float) -> np.ndarray:
-        """(N, 7) x, y, vx, vy, wx, wy, wz of every ball at time t."""
+        """Every ball's full state at time ``t``.
+
+        Parameters
+        ----------
+        t : float
+            Time since the strike, s.
+
+        Returns
+        -------
+        ndarray
+            (N, 7): x, y, vx, vy, wx, wy, wz.
+        """
         t = self._clamp(t)
         segs = np.array([self._segments_at(i, t) for i in range(len(self.ids))], dtype=np.int64)
         out = np.zeros((len(self.ids), 7))
@@ -410,12 +549,36 @@ class Outcome:
         return out
 
     def positions(self, t: float) -> dict[str, tuple[float, float]]:
-        """Every ball's position at time t, s."""
+        """Every ball's position at time ``t``.
+
+        Parameters
+        ----------
+        t : float
+            Time since the strike, s.
+
+        Returns
+        -------
+        dict
+            Ball id -> (x, y), m.
+        """
         arr = self.states(t)
         return {bid: (float(arr[i, 0]), float(arr[i, 1])) for i, bid in enumerate(self.ids)}
 
     def state_of(self, ball: str, t: float) -> BallState:
-        """One ball's full state at time t."""
+        """One ball's full state at time ``t``.
+
+        Parameters
+        ----------
+        ball : str
+            The ball's id.
+        t : float
+            Time since the strike, s.
+
+        Returns
+        -------
+        BallState
+            Position, velocity, spin and motion state.
+        """
         i = self.ids.index(ball)
         t = self._clamp(t)
         s = self._segments_at(i, t)
@@ -426,8 +589,20 @@ class Outcome:
         return BallState(x, y, vx, vy, wx, wy, wz, MotionState(int(self._seg_state[s])))
 
     def path(self, ball: str, points_per_curve: int = 24) -> np.ndarray:
-        """(M, 2) polyline of a ball's path: exact at every event, sampled
-        along the curved (sliding) parts."""
+        """A polyline of a ball's path: exact at every event, sampled along the curved (sliding) parts.
+
+        Parameters
+        ----------
+        ball : str
+            The ball's id.
+        points_per_curve : int, optional
+            Samples along each curved segment (24).
+
+        Returns
+        -------
+        ndarray
+            (M, 2) points, m.
+        """
         i = self.ids.index(ball)
         idx = self._by_ball[i]
         seg_list: list[int] = []
@@ -454,13 +629,26 @@ class Outcome:
         return pts[keep]
 
     def moved(self) -> list[str]:
-        """Ids of the balls that moved."""
+        """Ids of the balls that moved.
+
+        Returns
+        -------
+        list of str
+            In ball order.
+        """
         return [bid for i, bid in enumerate(self.ids) if len(self._by_ball[i]) > 1]
 
     def energy_changes(self) -> np.ndarray:
-        """Change of kinetic energy (J) of the balls involved, across each
-        event: the state just before (the old segment evaluated at the event
-        time) against the state just after. Impacts can only remove energy."""
+        """Change of kinetic energy of the balls involved, across each event.
+
+        The state just before (the old segment evaluated at the event time)
+        against the state just after. Impacts can only remove energy.
+
+        Returns
+        -------
+        ndarray
+            One value per event, J.
+        """
         m = self.simulator.mass
         R = self.simulator.radius
         inertia = 0.4 * m * R * R
@@ -492,7 +680,14 @@ class Outcome:
 
     # ---------------------------------------------------------- output
     def to_dict(self) -> dict[str, JSONValue]:
-        """The ``--json`` output: events and where each ball ended."""
+        """The ``--json`` output: events and where each ball ended.
+
+        Returns
+        -------
+        dict
+            ``events``, ``balls`` (where each ended), ``launch``, ``complete``,
+            ``duration_s`` and, for an incomplete run, ``reason``.
+        """
         return {
             "events": [e.to_dict() for e in self.events],
             "balls": self.final,

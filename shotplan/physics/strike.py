@@ -52,15 +52,51 @@ class Launch:
 
 
 def squirt_angle(side: float, ball_mass: float, end_mass: float) -> float:
-    """Squirt angle (rad) for a side offset in ball radii; positive for
-    right english (the ball goes left of the cue line)."""
+    """Squirt angle for a side offset.
+
+    Parameters
+    ----------
+    side : float
+        Side offset, ball radii (positive: right english).
+    ball_mass : float
+        Ball mass, kg.
+    end_mass : float
+        The cue's effective end mass, kg.
+
+    Returns
+    -------
+    float
+        Radians; positive for right english (the ball goes left of the cue line).
+    """
     a = side
     s = 2.5 * a * math.sqrt(max(1.0 - a * a, 0.0))
     return math.atan(s / (1.0 + ball_mass / end_mass + 2.5 * (1.0 - a * a)))
 
 
 def launch(stroke: Stroke, radius: float, mass: float, physics: Physics) -> Launch:
-    """The cue ball's launch for a stroke; refuses offsets beyond the miscue limit."""
+    """The cue ball's launch for a stroke.
+
+    Parameters
+    ----------
+    stroke : Stroke
+        Direction, speed, tip offset and elevation.
+    radius : float
+        Ball radius, m.
+    mass : float
+        Ball mass, kg.
+    physics : Physics
+        Cue and tip values (miscue limit, end mass...).
+
+    Returns
+    -------
+    Launch
+        Velocity, spin and squirt just after the strike.
+
+    Raises
+    ------
+    StrokeError
+        If the tip offset is beyond the miscue limit.
+    """
     offset = math.hypot(stroke.side, stroke.height)
     if offset > physics.miscue_limit + 1e-12:
         raise StrokeError(
