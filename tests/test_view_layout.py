@@ -120,8 +120,8 @@ def test_the_key_help_fits_the_window(size):
 
 
 def test_long_hints_wrap_to_the_table_width():
-    from shotplan.view.frame import wrap_px
     from shotplan.view.draw import Painter
+    from shotplan.view.frame import wrap_px
 
     font = Painter().font(14)
     text = "not aimed yet: click an object ball, then a pocket, or drag on the cloth to aim the cue"
@@ -201,7 +201,7 @@ def test_a_ball_off_the_table_is_shown_at_the_edge_and_can_be_dragged_back(tmp_p
     assert {p.ball for p in app.state.problems()} == {"3", "5"}
     table = app.state.table
     R = table.ball_radius
-    shown = app.shown_positions()
+    shown = app.pointer.shown_positions()
     # Hand-worked: the nearest point a radius inside the cloth's rectangle.
     assert shown["3"] == pytest.approx((table.length - R, 0.5))
     assert shown["5"] == pytest.approx((1.5, R))
@@ -211,7 +211,7 @@ def test_a_ball_off_the_table_is_shown_at_the_edge_and_can_be_dragged_back(tmp_p
     # The ball is drawn inside the table area, where the pointer can take it.
     px = app.transform.to_screen(*shown["3"])
     assert pygame.Rect(app.panels.regions.table).collidepoint(px)
-    assert app.ball_at(px) == "3"
+    assert app.pointer.ball_at(px) == "3"
     drag(app, px, app.transform.to_screen(1.6, 0.9))
     x, y = app.state.layout.position("3")
     assert math.dist((x, y), (1.6, 0.9)) < 0.01

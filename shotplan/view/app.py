@@ -23,7 +23,6 @@ from __future__ import annotations
 
 import math
 import os
-from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
@@ -32,7 +31,6 @@ import pygame_gui
 from pygame_gui.elements import UIWindow
 from pygame_gui.windows import UIConfirmationDialog, UIMessageWindow
 
-from ..aim import direction_deg
 from ..equipment import TableSpec
 from ..errors import ShotplanError
 from ..files.write import atomic_path, check_output_path
@@ -47,8 +45,9 @@ from .draw import Painter, TableCache, rgb
 from .frame import BACKGROUND, draw_help, draw_loading, draw_notes, fit_screen
 from .keeping import Keeper
 from .keys import binding_for
-from .layers import shown_positions, view_shapes
+from .layers import view_shapes
 from .panels import MIN_SIZE, Panels, PathDialog
+from .pointer import TablePointer
 from .predict import Predictor
 from .recovery import Recovered, Session, default_recovery_dir
 from .state import Playback, PocketAim, ViewState
@@ -62,9 +61,6 @@ DEFAULT_SIZE = (1280, 800)
 
 AUTOSAVE_DELAY_S = 0.5
 """The recovery file is written this long after the last edit (view time, s)."""
-
-DRAG_PX = 4
-"""A press becomes a drag once the pointer has moved this far, px."""
 
 DIAGRAM_SUFFIXES = (".png", ".svg", ".pdf")
 """What Export writes."""
@@ -83,17 +79,6 @@ def theme_resource() -> pygame_gui.PackageResource:
         ``shotplan/view/theme.json``, package data.
     """
     return pygame_gui.PackageResource(package="shotplan.view", resource="theme.json")
-
-
-@dataclass
-class _Press:
-    """A pointer gesture in progress on the table."""
-
-    kind: str  # "ball", "cloth" or "aim"
-    start: tuple[int, int]
-    ball: str | None = None
-    offset: tuple[float, float] = (0.0, 0.0)
-    moved: bool = False
 
 
 class App:
@@ -144,8 +129,8 @@ class App:
         self.hover_ball: str | None = None
         self._note_until = 0.0
         self._started = False
-        self._press: _Press | None = None
-        self._drag_target: tuple[float, float] | None = None
+        self.pointer = TablePointer(self)
+        """The pointer's gestures on the table."""
         self._tip_drag = False
         self._dialogs: dict[Any, str] = {}
         self._last_rev = self.state.revision
@@ -161,7 +146,13 @@ class App:
 
     # ------------------------------------------------------------- set-up
     def start(self, size: tuple[int, int] | None = None) -> None:
-        """Build the widgets (pygame's display and fonts must be initialised)."""
+        """Build the widgets (pygame's display and fonts must be initialised).
+
+        Parameters
+        ----------
+        size : (int, int), optional
+            Window size, px (default: the size given at construction).
+        """
         if self._started:
             return
         if size is not None:
@@ -180,7 +171,13 @@ class App:
             self._message("Could not open the layout", self.state.load_message)
 
     def resize(self, size: tuple[int, int]) -> None:
-        """Fit everything to a new window size."""
+        """Fit everything to a new window size.
+
+        Parameters
+        ----------
+        size : (int, int)
+            The new window size, px (at least 320 x 240 is used).
+        """
         self.size = (max(int(size[0]), 320), max(int(size[1]), 240))
         if not self._started:
             return
@@ -220,7 +217,15 @@ class App:
 
     # ----------------------------------------------------------- messages
     def say(self, text: str, seconds: float = 6.0) -> None:
-        """Show ``text`` in the status line for a while."""
+        """Show ``text`` in the status line for a while.
+
+        Parameters
+        ----------
+        text : str
+            The message.
+        seconds : float
+            How long it stays, s of view time.
+        """
         self.note = text
         self._note_until = self.now + seconds
 
@@ -240,7 +245,13 @@ class App:
 
     # ----------------------------------------------------------- recovery
     def answer_recovery(self, restore: bool) -> None:
-        """Restore the unsaved work asked about, or discard it (see :class:`Keeper`)."""
+        """Restore the unsaved work asked about, or discard it (see :class:`Keeper`).
+
+        Parameters
+        ----------
+        restore : bool
+            True restores, False discards.
+        """
         self.keeper.answer(restore, self.state, self.manager if self._started else None,
                            self.size)
 
@@ -255,7 +266,18 @@ class App:
     # -------------------------------------------------------------- files
     def open_file(self, path: str | os.PathLike[str]) -> bool:
         """Open a layout; a file with problems opens with them shown, one that
-        cannot be read leaves the current layout and says why."""
+        cannot be read leaves the current layout and says why.
+
+        Parameters
+        ----------
+        path : str or path-like
+            The file.
+
+        Returns
+        -------
+        bool
+            Whether it worked (a failure is shown in a message box).
+        """
         try:
             layout = load_layout(path, strict=False)
         except ShotplanError as e:
@@ -272,7 +294,18 @@ class App:
         return True
 
     def save_file(self, path: str | os.PathLike[str] | None = None) -> bool:
-        """Save the layout with the stroke set up (to its own file if no path)."""
+        """Save the layout with the stroke set up (to its own file if no path).
+
+        Parameters
+        ----------
+        path : str or path-like, optional
+            Where to save; ``None`` saves to the layout's own file (or asks for one).
+
+        Returns
+        -------
+        bool
+            Whether it was saved (a failure is shown in a message box).
+        """
         target = path if path is not None else self.state.path
         if target is None:
             self.file_dialog("save-as")
@@ -289,7 +322,18 @@ class App:
 
     def export_file(self, path: str | os.PathLike[str]) -> bool:
         """Write the view (the layout, the predicted paths, the ghost ball and
-        the window) as PNG, SVG or PDF, by the file's suffix."""
+        the window) as PNG, SVG or PDF, by the file's suffix.
+
+        Parameters
+        ----------
+        path : str or path-like
+            The file.
+
+        Returns
+        -------
+        bool
+            Whether it worked (a failure is shown in a message box).
+        """
         try:
             out = check_output_path(path, DIAGRAM_SUFFIXES)
             from ..render.export import write_scene
@@ -310,7 +354,13 @@ class App:
         return True
 
     def file_dialog(self, purpose: str) -> None:
-        """Open the dialog to pick a file: ``open``, ``save-as`` or ``export``."""
+        """Open the dialog to pick a file: ``open``, ``save-as`` or ``export``.
+
+        Parameters
+        ----------
+        purpose : str
+            ``open``, ``save-as`` or ``export``.
+        """
         assert self.manager is not None
         st = self.state
         here = Path(st.path).resolve().parent if st.path else Path.cwd()
@@ -341,18 +391,34 @@ class App:
 
     # ------------------------------------------------------------ actions
     def do(self, action: str, value: Any = None) -> None:
-        """Carry out one action (a button, a key, a widget's value)."""
+        """Carry out one action (a button, a key, a widget's value).
+
+        Parameters
+        ----------
+        action : str
+            A name of :data:`~shotplan.view.actions.ACTIONS`; an unknown one is
+            said in the status line.
+        value : object, optional
+            The action's value (a slider's, a key's).
+        """
         act = ACTIONS.get(action)
+        if act is None:
+            self.say(f"{action!r} is not an action of the view".strip("'\""))
+            return
         try:
-            if act is None:
-                raise ShotplanError(f"{action!r} is not an action of the view")
             act(self, value)
-        except (ShotplanError, KeyError) as e:
+        except (ShotplanError, KeyError) as e:  # said, not raised: the view goes on
             self.say(str(e).strip("'\""))
 
     def tip_preset(self, tip: str) -> None:
         """Set the tip for ``tip`` (``centre``, ``follow``, ``stun``, ``draw``)
-        at the speed and distance of the shot set up, within the miscue limit."""
+        at the speed and distance of the shot set up, within the miscue limit.
+
+        Parameters
+        ----------
+        tip : str
+            ``centre``, ``follow``, ``stun`` or ``draw``.
+        """
         st = self.state
         side = st.settings.side
         limit = st.miscue_limit
@@ -367,7 +433,17 @@ class App:
 
     # ------------------------------------------------------------- events
     def process_event(self, event: pygame.event.Event) -> bool:
-        """Handle one event; True if the view used it."""
+        """Handle one event; True if the view used it.
+
+        Parameters
+        ----------
+        event : Event
+            A pygame event.
+
+        Returns
+        -------
+        bool
+        """
         self.start()
         assert self.manager is not None and self.panels is not None
         if event.type == pygame.QUIT:
@@ -378,7 +454,7 @@ class App:
             return True
         if event.type == pygame.MOUSEMOTION:
             self.hover_pos = (int(event.pos[0]), int(event.pos[1]))
-            if not self._in_table(self.hover_pos):
+            if not self.pointer.inside(self.hover_pos):
                 self.hover_ball = None
         if self.help_visible and event.type in (pygame.KEYDOWN, pygame.MOUSEBUTTONDOWN):
             self.help_visible = False
@@ -399,9 +475,9 @@ class App:
             return consumed
         if event.type in (pygame.MOUSEBUTTONDOWN, pygame.MOUSEBUTTONUP, pygame.MOUSEMOTION,
                           pygame.MOUSEWHEEL):
-            if consumed and event.type != pygame.MOUSEBUTTONUP and self._press is None:
+            if consumed and event.type != pygame.MOUSEBUTTONUP and self.pointer.press is None:
                 return True
-            return self._table_mouse(event) or consumed
+            return self.pointer.handle(event) or consumed
         if event.type == pygame.KEYDOWN and not consumed:
             return self._key(event)
         if event.type == pygame.KEYUP:
@@ -443,127 +519,6 @@ class App:
             return True
         return False
 
-    # pointer on the table
-    def ball_at(self, pos: tuple[float, float]) -> str | None:
-        """The ball under the window position ``pos`` (the nearest within its radius plus a few px)."""
-        t = self.transform
-        x, y = t.to_table(*pos)
-        reach = self.state.table.ball_radius + t.metres(DRAG_PX)
-        best, best_d = None, math.inf
-        for b, (bx, by) in self.shown_positions().items():
-            d = math.hypot(bx - x, by - y)
-            if d <= reach and d < best_d:
-                best, best_d = b, d
-        return best
-
-    def shown_positions(self) -> dict[str, tuple[float, float]]:
-        """Where each ball is drawn: where it stands, or, off the table, at the
-        cloth's edge (:func:`shotplan.view.layers.shown_positions`)."""
-        return shown_positions(self.state.table, self.state.layout.positions())[0]
-
-    def pocket_at(self, pos: tuple[float, float]) -> str | None:
-        """The pocket under the window position ``pos``, if any."""
-        t = self.transform
-        x, y = t.to_table(*pos)
-        for p in self.state.table.pockets:
-            c = ((p.mouth_centre[0] + p.drop_centre[0]) / 2, (p.mouth_centre[1] + p.drop_centre[1]) / 2)
-            if math.hypot(x - c[0], y - c[1]) <= max(0.75 * p.mouth_width_m, t.metres(16)):
-                return p.name
-        return None
-
-    def _in_table(self, pos: tuple[int, int]) -> bool:
-        assert self.panels is not None
-        return pygame.Rect(*self.panels.regions.table).collidepoint(pos)
-
-    def _aim_toward(self, pos: tuple[int, int]) -> None:
-        st = self.state
-        if "cue" not in st.layout.ball_ids:
-            self.say("no cue ball on the table: add one (Insert)")
-            return
-        cue = st.layout.position("cue")
-        x, y = self.transform.to_table(*pos)
-        if math.hypot(x - cue[0], y - cue[1]) < 1e-4:
-            return
-        st.aim_free(direction_deg(cue, (x, y)), coalesce="aim-drag")
-
-    def _table_mouse(self, event: pygame.event.Event) -> bool:
-        handler = {pygame.MOUSEWHEEL: self._wheel, pygame.MOUSEMOTION: self._pointer_move,
-                   pygame.MOUSEBUTTONDOWN: self._pointer_down,
-                   pygame.MOUSEBUTTONUP: self._pointer_up}.get(event.type)
-        return handler(event) if handler is not None else False
-
-    def _wheel(self, event: pygame.event.Event) -> bool:
-        if self.hover_pos is not None and self._in_table(self.hover_pos):
-            return self.state.nudge_aim(0.1 * event.y, coalesce="wheel")
-        return False
-
-    def _pointer_move(self, event: pygame.event.Event) -> bool:
-        pos = (int(event.pos[0]), int(event.pos[1]))
-        self.hover_pos = pos
-        press = self._press
-        if press is None:
-            self.hover_ball = self.ball_at(pos) if self._in_table(pos) else None
-            return False
-        if not press.moved and math.dist(pos, press.start) >= DRAG_PX:
-            press.moved = True
-            if press.kind == "cloth":
-                press.kind = "aim"
-        if press.moved and press.kind == "ball":
-            x, y = self.transform.to_table(*pos)
-            self._drag_target = (x + press.offset[0], y + press.offset[1])
-        elif press.moved and press.kind == "aim":
-            self._aim_toward(pos)
-        return True
-
-    def _pointer_down(self, event: pygame.event.Event) -> bool:
-        st = self.state
-        pos = (int(event.pos[0]), int(event.pos[1]))
-        if not self._in_table(pos) or event.button not in (1, 3):
-            return False
-        if self.playback.active:
-            self.playback.reset()  # editing shows the balls where they stand
-        mods = pygame.key.get_mods()
-        if event.button == 3 or (mods & pygame.KMOD_CTRL):
-            self._press = _Press("aim", pos, moved=True)
-            self._aim_toward(pos)
-            return True
-        ball = self.ball_at(pos)
-        if ball is not None:
-            bx, by = self.shown_positions()[ball]
-            x, y = self.transform.to_table(*pos)
-            self._press = _Press("ball", pos, ball, (bx - x, by - y))
-            return True
-        pocket = self.pocket_at(pos)
-        if pocket is not None and st.selection is not None and st.selection != "cue":
-            st.aim_at_pocket(st.selection, pocket)
-            self.say(f"aiming the {st.selection} at the {pocket} pocket")
-            return True
-        self._press = _Press("cloth", pos)
-        return True
-
-    def _pointer_up(self, event: pygame.event.Event) -> bool:
-        st = self.state
-        press, self._press = self._press, None
-        if press is None:
-            return False
-        if press.kind == "ball" and press.moved:
-            self._apply_drag(press)
-        elif press.kind == "ball":
-            st.select(press.ball)
-            if press.ball != "cue":
-                self.say(f"ball {press.ball} selected: click a pocket to aim it there")
-        elif press.kind == "cloth" and not press.moved:
-            st.select(None)
-        st.end_gesture()
-        return True
-
-    def _apply_drag(self, press: _Press) -> None:
-        if self._drag_target is not None and press.ball is not None:
-            spot = self.state.move_ball(press.ball, self._drag_target, coalesce="drag")
-            if spot is None:
-                self.say("no free place there")
-        self._drag_target = None
-
     # keys
     def _key(self, event: pygame.event.Event) -> bool:
         binding = binding_for(event.key, event.mod, getattr(event, "unicode", ""))
@@ -573,7 +528,13 @@ class App:
         return True
 
     def cycle_ball(self, step: int) -> None:
-        """Select the next (``step`` 1) or previous (-1) object ball."""
+        """Select the next (``step`` 1) or previous (-1) object ball.
+
+        Parameters
+        ----------
+        step : int
+            1 for the next, -1 for the previous (wrapping round).
+        """
         balls = self.state.object_balls
         if not balls:
             return
@@ -582,7 +543,13 @@ class App:
         self.state.select(balls[k % len(balls)])
 
     def cycle_pocket(self, step: int) -> None:
-        """Aim the selected ball at the next (``step`` 1) or previous (-1) pocket."""
+        """Aim the selected ball at the next (``step`` 1) or previous (-1) pocket.
+
+        Parameters
+        ----------
+        step : int
+            1 for the next, -1 for the previous (wrapping round).
+        """
         st = self.state
         ball = st.selection if st.selection not in (None, "cue") else (
             st.aim.ball if isinstance(st.aim, PocketAim) else None)
@@ -599,7 +566,13 @@ class App:
     # ------------------------------------------------------------- update
     def update(self, dt: float) -> None:
         """Advance the view by ``dt`` seconds: apply the drag, bring the
-        prediction up to date, move the animation, autosave, refresh the widgets."""
+        prediction up to date, move the animation, autosave, refresh the widgets.
+
+        Parameters
+        ----------
+        dt : float
+            The time step, s (negative counts as 0).
+        """
         self.start()
         assert self.manager is not None and self.panels is not None
         dt = max(0.0, float(dt))
@@ -607,13 +580,9 @@ class App:
         self._modal()  # notices a question closed unanswered
         self._note_edit()  # edits made by the events since the last frame
         self.now += dt
-        if self._press is not None and self._press.kind == "ball" and self._drag_target is not None:
-            assert self._press.ball is not None
-            if st.move_ball(self._press.ball, self._drag_target, coalesce="drag") is None:
-                self.say("no free place there")
-            self._drag_target = None
+        self.pointer.follow_drag()
         self._note_edit()
-        dragging = self._press is not None and self._press.moved
+        dragging = self.pointer.dragging
         self.predictor.update(st, self.now, dragging)
         self.playback.advance(dt, self.predictor.duration)
         self._autosave()
@@ -635,21 +604,37 @@ class App:
             self.playback.reset()  # the shot shown is no longer the one set up
 
     def settle(self, max_seconds: float = 30.0) -> None:
-        """Update until the prediction and the proposals are complete."""
+        """Update until the prediction and the proposals are complete.
+
+        Parameters
+        ----------
+        max_seconds : float
+            The longest to wait for the search, s.
+        """
         self.update(0.0)
         self.predictor.settle(self.state, self.now, max_seconds)
         self.update(0.0)
 
     # --------------------------------------------------------------- text
     def title_text(self) -> str:
-        """The layout's title (or file name), and whether it is unsaved."""
+        """The layout's title (or file name), and whether it is unsaved.
+
+        Returns
+        -------
+        str
+        """
         return title_text(self.state)
 
     def status_text(self) -> str:
-        """Pointer position in mm and diamonds, and the last message."""
+        """Pointer position in mm and diamonds, and the last message.
+
+        Returns
+        -------
+        str
+        """
         parts = []
         pos = self.hover_pos
-        if pos is not None and self._in_table(pos):
+        if pos is not None and self.pointer.inside(pos):
             parts.append(pointer_words(*self.transform.to_table(*pos), self.state.table))
         if self.note:
             parts.append(self.note)
@@ -658,7 +643,13 @@ class App:
         return "     |     ".join(parts)
 
     def aim_html(self) -> str:
-        """What the aim box says: the aim, the cut, the window, the outcome."""
+        """What the aim box says: the aim, the cut, the window, the outcome.
+
+        Returns
+        -------
+        str
+            pygame_gui HTML.
+        """
         return aim_html(self.state, self.predictor)
 
     # --------------------------------------------------------------- draw
@@ -678,7 +669,13 @@ class App:
         return shapes
 
     def draw(self, surface: pygame.Surface) -> None:
-        """Draw the whole window onto ``surface``."""
+        """Draw the whole window onto ``surface``.
+
+        Parameters
+        ----------
+        surface : Surface
+            The window, or any surface of the window's size.
+        """
         self.start()
         assert self.manager is not None and self.panels is not None
         size = surface.get_size()
@@ -732,7 +729,18 @@ class App:
 
     # ---------------------------------------------------------------- run
     def screenshot(self, path: str | os.PathLike[str]) -> Path:
-        """Render the first frame (prediction and proposals complete) to a PNG."""
+        """Render the first frame (prediction and proposals complete) to a PNG.
+
+        Parameters
+        ----------
+        path : str or path-like
+            A ``.png`` file; checked before anything is drawn.
+
+        Returns
+        -------
+        Path
+            The file written.
+        """
         out = check_output_path(path, (".png",))
         self.start()
         self.settle()

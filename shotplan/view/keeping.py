@@ -171,7 +171,17 @@ class Keeper:
 
     def button(self, element: object) -> str | None:
         """``restore`` or ``discard`` if ``element`` is that button of the
-        question, else ``None``."""
+        question, else ``None``.
+
+        Parameters
+        ----------
+        element : object
+            The widget a button event came from.
+
+        Returns
+        -------
+        str or None
+        """
         d = self.dialog
         if d is None:
             return None
@@ -203,14 +213,26 @@ class Keeper:
 
     def saved(self, state: ViewState) -> None:
         """The layout was saved: the recovery file goes (unless the question
-        about old work is still open)."""
+        about old work is still open).
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+        """
         if self.session is not None and self.recovered is None:
             self.session.discard()
             self.autosaved_rev = state.revision
 
     def close(self, state: ViewState) -> None:
         """Write what is unsaved (or remove the file if all is saved) and let
-        the file go: a later start offers it back."""
+        the file go: a later start offers it back.
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+        """
         self.autosave(state, due=True)
         if self._claim is not None:  # asked, never answered: offered again next time
             self._claim.release()
