@@ -16,8 +16,11 @@ aim for throw and squirt with the simulator.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TypeAlias
+
+import numpy as np
 
 __all__ = [
     "ghost_ball",
@@ -31,7 +34,7 @@ __all__ = [
     "mirror_point",
 ]
 
-Point = Any
+Point: TypeAlias = "Sequence[float] | np.ndarray"
 """A point: a pair of floats or a length-2 array (m)."""
 
 

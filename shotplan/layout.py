@@ -148,7 +148,7 @@ class Layout:
     """(ball id, (x, y) in m) pairs in file order."""
     stroke: Stroke | None = None
     """The stroke to play, or ``None``."""
-    physics_overrides: tuple[tuple[str, Any], ...] = field(default=())
+    physics_overrides: tuple[tuple[str, JSONValue], ...] = field(default=())
     """The layout's ``physics`` object as given, as (key, value) pairs."""
     title: str = ""
     """A short title (diagram heading)."""

@@ -11,7 +11,7 @@ import dataclasses
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 from ..errors import LayoutError, quoted
 
@@ -221,7 +221,7 @@ class TableSpec:
     """Radius of the D (snooker), m."""
     source: str = ""
     """Where the numbers come from, in words."""
-    overrides: tuple[tuple[str, Any], ...] = field(default=())
+    overrides: tuple[tuple[str, float], ...] = field(default=())
     """The measured overrides applied to the preset, as (key, value) pairs."""
 
     # ----------------------------------------------------------------- build
