@@ -17,7 +17,8 @@ from test_docstrings import _module_problems  # noqa: E402
 from shotplan.equipment import TableSpec  # noqa: E402
 from shotplan.table import Table  # noqa: E402
 
-DOCUMENTED = ["app", "frame", "words", "keeping", "pointer"]
+DOCUMENTED = ["app", "frame", "words", "keeping", "pointer", "layers", "draw", "predict", "transform",
+              "keys", "actions", "command"]
 
 
 @pytest.mark.parametrize("name", DOCUMENTED)

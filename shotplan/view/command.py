@@ -31,7 +31,13 @@ _HEADLESS_DRIVERS = ("dummy", "offscreen")
 
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
-    """Add ``view`` to the ``shotplan`` command."""
+    """Add ``view`` to the ``shotplan`` command.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The ``shotplan`` command's subcommands.
+    """
     p = sub.add_parser(
         "view", help="open the table view: place balls, aim, see the paths, play the shot",
         description="Open the table view: the table to scale, balls to drag, aim at a ball "
@@ -51,7 +57,12 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
 
 def display_available() -> bool:
     """Whether a window can be opened: a display named in the environment (on
-    Linux and the BSDs) and an SDL video driver that shows windows."""
+    Linux and the BSDs) and an SDL video driver that shows windows.
+
+    Returns
+    -------
+    bool
+    """
     driver = os.environ.get("SDL_VIDEODRIVER", "").strip().lower()
     if driver in _HEADLESS_DRIVERS:
         return False
@@ -61,7 +72,24 @@ def display_available() -> bool:
 
 
 def run_view(args: argparse.Namespace) -> int:
-    """Run ``shotplan view``; returns the exit code."""
+    """Run ``shotplan view``; returns the exit code.
+
+    Parameters
+    ----------
+    args : Namespace
+        The parsed ``view`` options.
+
+    Returns
+    -------
+    int
+        The exit code.
+
+    Raises
+    ------
+    InputError
+        No display to open a window on (without ``--screenshot``), or a bad
+        layout or table (one line on stderr, exit code 2).
+    """
     from ..files.write import check_output_path
     from ..layout import load_layout, load_table
 

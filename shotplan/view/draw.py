@@ -44,13 +44,33 @@ see-through is worth (paths are drawn at 0.9)."""
 
 
 def rgb(colour: str) -> tuple[int, int, int]:
-    """``'#rrggbb'`` as an (r, g, b) tuple."""
+    """``'#rrggbb'`` as an (r, g, b) tuple.
+
+    Parameters
+    ----------
+    colour : str
+        ``'#rrggbb'``.
+
+    Returns
+    -------
+    (int, int, int)
+    """
     return (int(colour[1:3], 16), int(colour[3:5], 16), int(colour[5:7], 16))
 
 
 def ui_font_path(bold: bool = False) -> str | None:
     """Path of the sans-serif font pygame_gui ships (so the table's labels and
-    the widgets share one face), or ``None`` to fall back to pygame's own."""
+    the widgets share one face), or ``None`` to fall back to pygame's own.
+
+    Parameters
+    ----------
+    bold : bool
+        The bold face.
+
+    Returns
+    -------
+    str or None
+    """
     name = "NotoSans-Bold.ttf" if bold else "NotoSans-Regular.ttf"
     try:
         path = resources.files("pygame_gui.data") / name
@@ -67,6 +87,25 @@ def dash_segments(
     Lengths are in the points' own unit (pixels here). The pattern carries on
     across corners, so a dashed path reads as one line. Returns each dash as a
     list of points (at least two).
+
+    Parameters
+    ----------
+    points : array-like, shape (N, 2)
+        The polyline.
+    dash : float
+        Length of a dash, more than 0.
+    gap : float
+        Length of a gap, 0 or more.
+
+    Returns
+    -------
+    list of list of (float, float)
+        The dashes; empty for fewer than two points.
+
+    Raises
+    ------
+    ValueError
+        A dash of 0 or less, or a negative gap.
     """
     if dash <= 0 or gap < 0:
         raise ValueError(f"dash {dash!r} must be > 0 and gap {gap!r} >= 0")
@@ -123,7 +162,19 @@ class Painter:
 
     # ------------------------------------------------------------ text
     def font(self, size_px: int, bold: bool = False) -> pygame.font.Font:
-        """The UI face at ``size_px`` (cached)."""
+        """The UI face at ``size_px`` (cached).
+
+        Parameters
+        ----------
+        size_px : int
+            Text size, px (at least 1 is used).
+        bold : bool
+            The bold face.
+
+        Returns
+        -------
+        Font
+        """
         key = (max(int(size_px), 1), bool(bold))
         font = self._fonts.get(key)
         if font is None:
@@ -135,7 +186,24 @@ class Painter:
         return font
 
     def text_surface(self, text: str, size_px: int, colour: str, bold: bool = False) -> pygame.Surface:
-        """Rendered text (cached: labels repeat every frame)."""
+        """Rendered text (cached: labels repeat every frame).
+
+        Parameters
+        ----------
+        text : str
+            The line.
+        size_px : int
+            Text size, px.
+        colour : str
+            ``'#rrggbb'``.
+        bold : bool
+            The bold face.
+
+        Returns
+        -------
+        Surface
+            With per-pixel alpha.
+        """
         key = (text, int(size_px), bool(bold), colour)
         surf = self._texts.get(key)
         if surf is None:
@@ -147,16 +215,51 @@ class Painter:
 
     # ----------------------------------------------------------- shapes
     def draw(self, surface: pygame.Surface, shapes: Iterable[Shape], transform: Transform) -> None:
-        """Draw ``shapes`` in layer order (ties keep their order)."""
+        """Draw ``shapes`` in layer order (ties keep their order).
+
+        Parameters
+        ----------
+        surface : Surface
+            Where to draw.
+        shapes : iterable of Shape
+            What to draw.
+        transform : Transform
+            Table metres to the surface's pixels.
+        """
         for shape in sorted(shapes, key=lambda s: s.layer):
             self.draw_shape(surface, shape, transform)
 
     def draw_scene(self, surface: pygame.Surface, scene: Scene, transform: Transform) -> None:
-        """Draw every shape of ``scene`` (its title and note are the caller's)."""
+        """Draw every shape of ``scene`` (its title and note are the caller's).
+
+        Parameters
+        ----------
+        surface : Surface
+            Where to draw.
+        scene : Scene
+            What to draw.
+        transform : Transform
+            Table metres to the surface's pixels.
+        """
         self.draw(surface, scene.sorted_shapes(), transform)
 
     def draw_shape(self, surface: pygame.Surface, shape: Shape, transform: Transform) -> None:
-        """Draw one shape."""
+        """Draw one shape.
+
+        Parameters
+        ----------
+        surface : Surface
+            Where to draw.
+        shape : Shape
+            What to draw.
+        transform : Transform
+            Table metres to the surface's pixels.
+
+        Raises
+        ------
+        TypeError
+            Not one of the scene's shape types.
+        """
         if isinstance(shape, PolygonShape):
             self._polygon(surface, shape, transform)
         elif isinstance(shape, CircleShape):
@@ -326,6 +429,11 @@ class TableCache:
     ``surface(scene, transform, size, background)`` returns a Surface of
     ``size`` with the background and the scene drawn; the same arguments
     return the same Surface without drawing anything.
+
+    Parameters
+    ----------
+    painter : Painter
+        Draws the table.
     """
 
     def __init__(self, painter: Painter):
@@ -338,7 +446,23 @@ class TableCache:
 
     def surface(self, scene: Scene, transform: Transform, size: tuple[int, int],
                 background: str) -> pygame.Surface:
-        """The cached Surface, drawn again only if an argument changed."""
+        """The cached Surface, drawn again only if an argument changed.
+
+        Parameters
+        ----------
+        scene : Scene
+            The static table.
+        transform : Transform
+            Table metres to the surface's pixels.
+        size : (int, int)
+            The surface's size, px.
+        background : str
+            ``'#rrggbb'`` behind the table.
+
+        Returns
+        -------
+        Surface
+        """
         key = (transform, tuple(size), background)
         if self._surface is None or key != self._key or scene is not self._scene:
             surf = pygame.Surface(size)

@@ -49,7 +49,21 @@ class Binding:
     chars: str = ""
 
     def matches(self, key: int, ctrl: bool, shift: bool, char: str) -> bool:
-        """Whether a press of ``key`` (typing ``char``) with these modifiers triggers it."""
+        """Whether a press of ``key`` (typing ``char``) with these modifiers triggers it.
+
+        Parameters
+        ----------
+        key : int
+            pygame's key code.
+        ctrl, shift : bool
+            Whether Ctrl (or Cmd) and Shift are held.
+        char : str
+            The character typed, if any.
+
+        Returns
+        -------
+        bool
+        """
         if char and char in self.chars:
             return True
         if key not in self.keys:
@@ -133,7 +147,21 @@ _BY_CHAR: dict[str, Binding] = {c: b for b in KEY_MAP for c in b.chars}
 
 def binding_for(key: int, mods: int, char: str = "") -> Binding | None:
     """The binding a press of ``key`` with modifier bits ``mods`` (typing
-    ``char``) triggers, or ``None``."""
+    ``char``) triggers, or ``None``.
+
+    Parameters
+    ----------
+    key : int
+        pygame's key code.
+    mods : int
+        pygame's modifier bits.
+    char : str
+        The character typed, if any.
+
+    Returns
+    -------
+    Binding or None
+    """
     ctrl = bool(mods & (pygame.KMOD_CTRL | pygame.KMOD_META))
     shift = bool(mods & pygame.KMOD_SHIFT)
     if char in _BY_CHAR:

@@ -15,7 +15,7 @@ import dataclasses
 import functools
 import math
 from collections.abc import Iterable, Mapping, Sequence
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ..render.overlays import ghost_ball_shape, marker_shape, outcome_shapes, path_shapes, window_shape
 from ..render.palette import BALL_COLOURS, STRIPE_IDS
@@ -24,6 +24,10 @@ from ..render.table_shapes import ball_shapes
 from ..table import Table
 from .predict import AimGeometry, Predictor
 from .state import PocketAim, ViewState
+
+if TYPE_CHECKING:
+    from ..physics import Outcome
+    from ..search import Shot
 
 __all__ = [
     "ACCENT",
@@ -95,7 +99,19 @@ def path_styles(balls: Sequence[str], cue_id: str = "cue") -> dict[str, PathStyl
     colour made light enough to read on its dark halo; a striped ball's path
     in dashes over white; a ball whose style would match another's (two
     reds, an unknown id) gets a lighter shade, or the other pattern, or, if
-    every variant is taken, the one least like the others."""
+    every variant is taken, the one least like the others.
+
+    Parameters
+    ----------
+    balls : sequence of str
+        The moving balls, in order.
+    cue_id : str
+        The cue ball's id.
+
+    Returns
+    -------
+    dict of str to PathStyle
+    """
     out: dict[str, PathStyle] = {}
     for b in balls:
         if b == cue_id:
@@ -124,6 +140,18 @@ def shown_positions(table: Table, positions: Mapping[str, tuple[float, float]]
     A ball whose centre lies off the cloth's rectangle (a layout written by
     hand, or for another table) is drawn at the nearest place on the cloth's
     edge, a ball's radius inside it, so that it can be seen and dragged back.
+
+    Parameters
+    ----------
+    table : Table
+        The table.
+    positions : mapping of str to (float, float)
+        Ball id -> centre, m.
+
+    Returns
+    -------
+    (dict of str to (float, float), set of str)
+        Where each ball is drawn, and the ids of those off the table.
     """
     R = table.ball_radius
     L, W = table.length, table.width
@@ -142,7 +170,23 @@ def off_table_layer(table: Table, positions: Mapping[str, tuple[float, float]],
                     shown: Mapping[str, tuple[float, float]], off: Iterable[str]) -> list[Shape]:
     """For each ball off the table (see :func:`shown_positions`): a dashed red
     ring where it is drawn, an arrow toward where it really is, and the words
-    ``off the table``."""
+    ``off the table``.
+
+    Parameters
+    ----------
+    table : Table
+        The table.
+    positions : mapping of str to (float, float)
+        Ball id -> centre, m.
+    shown : mapping of str to (float, float)
+        Where each ball is drawn (:func:`shown_positions`).
+    off : iterable of str
+        The balls off the table.
+
+    Returns
+    -------
+    list of Shape
+    """
     R = table.ball_radius
     out: list[Shape] = []
     for b in sorted(off):
@@ -176,7 +220,23 @@ def _ball(ball: str, x: float, y: float, radius: float, problem: bool) -> tuple[
 def balls_layer(positions: Mapping[str, tuple[float, float]], radius: float,
                 problem_balls: Iterable[str] = (), hidden: Iterable[str] = ()) -> list[Shape]:
     """Every ball at its position, those in ``problem_balls`` outlined in red,
-    those in ``hidden`` (pocketed, in an animation) left out."""
+    those in ``hidden`` (pocketed, in an animation) left out.
+
+    Parameters
+    ----------
+    positions : mapping of str to (float, float)
+        Ball id -> centre, m.
+    radius : float
+        Ball radius, m.
+    problem_balls : iterable of str
+        Balls outlined in red.
+    hidden : iterable of str
+        Balls left out.
+
+    Returns
+    -------
+    list of Shape
+    """
     bad = set(problem_balls)
     skip = set(hidden)
     out: list[Shape] = []
@@ -206,12 +266,26 @@ def _path_shapes(ball: str, points: Any, style: PathStyle, mm_per_px: float) -> 
     return out
 
 
-def prediction_layer(outcome: Any, table: Table, mm_per_px: float = 0.0) -> list[Shape]:
+def prediction_layer(outcome: Outcome, table: Table, mm_per_px: float = 0.0) -> list[Shape]:
     """The simulated stroke: each moving ball's path in its own style
     (:func:`path_styles`), contact and cushion markers, a ring where each ball
     stops, and a mark at each pocket a ball falls into (``scratch`` for the
     cue ball). ``mm_per_px`` (the screen's scale) keeps the paths and their
-    halos a few pixels wide at any zoom."""
+    halos a few pixels wide at any zoom.
+
+    Parameters
+    ----------
+    outcome : Outcome
+        The simulated stroke.
+    table : Table
+        The table.
+    mm_per_px : float
+        Millimetres of table per screen pixel (0: no minimum width).
+
+    Returns
+    -------
+    list of Shape
+    """
     R = table.ball_radius
     # The markers come from the scene; the paths and their end rings are
     # drawn here in the view's own colours.
@@ -246,9 +320,23 @@ def prediction_layer(outcome: Any, table: Table, mm_per_px: float = 0.0) -> list
     return shapes
 
 
-def window_layer(window: Any, cue: tuple[float, float], radius: float) -> list[Shape]:
+def window_layer(window: Shot, cue: tuple[float, float], radius: float) -> list[Shape]:
     """A shot's window as a wedge from the cue ball, long enough to reach the
-    ghost ball; a window too thin to see is widened about its middle to 0.2 deg."""
+    ghost ball; a window too thin to see is widened about its middle to 0.2 deg.
+
+    Parameters
+    ----------
+    window : Shot
+        The shot whose window is drawn.
+    cue : (float, float)
+        The cue ball's centre, m.
+    radius : float
+        Ball radius, m.
+
+    Returns
+    -------
+    list of Shape
+    """
     reach = max(float(window.cue_distance_m), 4.0 * radius)
     lo, hi = float(window.window_low_deg), float(window.window_high_deg)
     if hi - lo < 0.2:
@@ -259,7 +347,19 @@ def window_layer(window: Any, cue: tuple[float, float], radius: float) -> list[S
 
 def aim_layer(geometry: AimGeometry, radius: float) -> list[Shape]:
     """The ghost ball, the aim line into it, the object ball's line to the
-    pocket, the contact point and a label with the cut and the ball-hit fraction."""
+    pocket, the contact point and a label with the cut and the ball-hit fraction.
+
+    Parameters
+    ----------
+    geometry : AimGeometry
+        The aim (ghost ball, object ball, pocket target, cut).
+    radius : float
+        Ball radius, m.
+
+    Returns
+    -------
+    list of Shape
+    """
     R = radius
     g, o = geometry.ghost, geometry.object_ball
     out: list[Shape] = [ghost_ball_shape(g, R)]
@@ -313,7 +413,23 @@ def _label_direction(geometry: AimGeometry) -> tuple[tuple[float, float], str]:
 def cue_layer(cue: tuple[float, float], direction_deg: float, radius: float,
               elevation_deg: float = 0.0) -> list[Shape]:
     """The cue behind the cue ball along ``direction_deg``: a light shaft and
-    its chalked tip, drawn a little way back from the ball."""
+    its chalked tip, drawn a little way back from the ball.
+
+    Parameters
+    ----------
+    cue : (float, float)
+        The cue ball's centre, m.
+    direction_deg : float
+        The cue's direction, degrees from +x.
+    radius : float
+        Ball radius, m.
+    elevation_deg : float
+        The cue's elevation (a raised cue is drawn shorter).
+
+    Returns
+    -------
+    list of Shape
+    """
     u = (math.cos(math.radians(direction_deg)), math.sin(math.radians(direction_deg)))
     gap = 1.6 * radius
     tip_len = 0.012
@@ -333,7 +449,25 @@ def selection_layer(table: Table, positions: Mapping[str, tuple[float, float]],
                     invite_pockets: bool) -> list[Shape]:
     """Rings: the selected ball (brass), the ball under the pointer (chalk),
     the pocket aimed at (brass) and, while an object ball is selected, every
-    pocket (dashed: click one to aim at it)."""
+    pocket (dashed: click one to aim at it).
+
+    Parameters
+    ----------
+    table : Table
+        The table.
+    positions : mapping of str to (float, float)
+        Ball id -> centre, m.
+    selected, hover : str, optional
+        The selected ball and the ball under the pointer.
+    aimed_pocket : str, optional
+        The pocket aimed at.
+    invite_pockets : bool
+        Ring every pocket (an object ball is selected, none aimed at).
+
+    Returns
+    -------
+    list of Shape
+    """
     R = table.ball_radius
     out: list[Shape] = []
     if selected is not None and selected in positions:

@@ -19,7 +19,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import pygame
 import pygame_gui
@@ -39,6 +39,11 @@ from pygame_gui.windows import UIFileDialog
 from ..stroke import speed_word
 from .draw import rgb
 from .state import ELEVATION_RANGE_DEG, SPEED_RANGE_MPS, Playback
+
+if TYPE_CHECKING:
+    from ..search import Rejected, Shot
+    from .predict import Predictor
+    from .state import ViewState
 
 __all__ = [
     "Regions",
@@ -296,12 +301,12 @@ SHOT_COLUMNS = shot_columns()
 """The heading over the shots list's columns, for ball ids of up to four characters."""
 
 
-def ball_width(shots: Sequence[Any]) -> int:
+def ball_width(shots: Sequence[Shot]) -> int:
     """The ball column's width for ``shots`` (at least 4 characters)."""
     return max([4] + [len("-".join(s.balls)) for s in shots])
 
 
-def proposal_text(k: int, shot: Any, ball_width: int = 4) -> str:
+def proposal_text(k: int, shot: Shot, ball_width: int = 4) -> str:
     """One line of the shots list, under :func:`shot_columns`: number, the
     kind with the rails in turn (their initials: ``bank FH`` goes off the
     foot rail, then the head rail), the balls, the pocket, the cut angle and
@@ -313,7 +318,7 @@ def proposal_text(k: int, shot: Any, ball_width: int = 4) -> str:
             f"{shot.cut_angle_deg:3.0f} {shot.window_deg:6.2f}")
 
 
-def no_shot_text(rejected: Sequence[Any], most: int = 4, object_balls: int = 1) -> str:
+def no_shot_text(rejected: Sequence[Rejected], most: int = 4, object_balls: int = 1) -> str:
     """Why the search found no shot (pygame_gui HTML): the reasons it gave,
     the most frequent first, each with how many candidates it turned down
     (or, with no ``object_balls``, that there is nothing to pot)."""
@@ -631,7 +636,7 @@ class Panels:
                    for s in (self.speed_slider, self.elevation_slider, self.time_slider))
 
     # -------------------------------------------------------------- show
-    def sync(self, state: Any, predictor: Any, playback: Playback, status: str, title: str,
+    def sync(self, state: ViewState, predictor: Predictor, playback: Playback, status: str, title: str,
              aim_html: str, now: float = 0.0, busy: bool = False) -> None:
         """Show the model's values (only what changed is redrawn); ``busy``
         (a drag in progress) lets the aim text refresh at a few hertz only."""

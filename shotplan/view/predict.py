@@ -26,6 +26,7 @@ from typing import Any
 
 from ..aim import aim_at, contact_fraction
 from ..errors import ShotplanError
+from ..physics import Outcome
 from ..search import KINDS, Rejected, Shot, find_shots
 from .state import FreeAim, PocketAim, ViewState
 
@@ -77,7 +78,7 @@ class Predictor:
         self.budget_s = budget_s
         self.window_interval_s = window_interval_s
         self.settle_s = settle_s
-        self.outcome: Any = None
+        self.outcome: Outcome | None = None
         """The simulated stroke (:class:`shotplan.physics.Outcome`), or ``None``."""
         self.message = ""
         """Why there is no outcome, or an empty string."""
@@ -105,7 +106,17 @@ class Predictor:
 
     # ------------------------------------------------------------- queries
     def busy(self, state: ViewState) -> bool:
-        """Whether more work is waiting (the proposals are not all searched yet)."""
+        """Whether more work is waiting (the proposals are not all searched yet).
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+
+        Returns
+        -------
+        bool
+        """
         return self._playable(state) and not state.proposals_done
 
     @staticmethod
@@ -113,7 +124,13 @@ class Predictor:
         return not state.problems() and "cue" in state.layout.ball_ids
 
     def pocket_times(self) -> dict[str, float]:
-        """When each pocketed ball fell, s."""
+        """When each pocketed ball fell, s.
+
+        Returns
+        -------
+        dict of str to float
+            Ball id -> time, s; empty without a prediction.
+        """
         if self.outcome is None:
             return {}
         return {e.balls[0]: e.t for e in self.outcome.events if e.kind.word == "pocket"}
@@ -124,7 +141,17 @@ class Predictor:
         return float(self.outcome.duration) if self.outcome is not None else 0.0
 
     def in_window(self, state: ViewState) -> bool | None:
-        """Whether the cue direction in use lies inside the window (None: no window)."""
+        """Whether the cue direction in use lies inside the window (None: no window).
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+
+        Returns
+        -------
+        bool or None
+        """
         d = state.direction_deg
         if self.window is None or d is None:
             return None
@@ -138,6 +165,19 @@ class Predictor:
 
         ``now`` is the view's clock (s); ``dragging`` is true while the
         pointer holds a ball or the cue.
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+        now : float
+            The view's clock, s.
+        dragging : bool
+            Whether the pointer holds a ball or the cue.
+
+        Returns
+        -------
+        bool
         """
         changed = False
         layout = state.layout
@@ -197,7 +237,17 @@ class Predictor:
         return changed
 
     def settle(self, state: ViewState, now: float = 0.0, max_seconds: float = 30.0) -> None:
-        """Update until nothing is waiting (for screenshots and tests)."""
+        """Update until nothing is waiting (for screenshots and tests).
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+        now : float
+            The view's clock, s.
+        max_seconds : float
+            The longest to wait, s of wall time.
+        """
         t0 = time.perf_counter()
         budget = self.budget_s
         self.budget_s = max(budget, 0.05)

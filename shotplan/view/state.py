@@ -23,7 +23,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -33,6 +33,9 @@ from ..physics.params import Physics
 from ..racks import new_layout, rack, start_spot
 from ..stroke import MAX_SPEED_MPS, Stroke
 from ..table import Table
+
+if TYPE_CHECKING:
+    from ..search import Rejected, Shot
 
 __all__ = [
     "SPEED_RANGE_MPS",
@@ -468,7 +471,8 @@ class ViewState:
         """Not aimed."""
         return self._apply(None, aim=None)
 
-    def set_proposals(self, shots: Sequence[Any], done: bool, rejected: Sequence[Any] = ()) -> None:
+    def set_proposals(self, shots: Sequence[Shot], done: bool,
+                      rejected: Sequence[Rejected] = ()) -> None:
         """Replace the proposals and the candidates turned down (the predictor
         calls this; not an edit)."""
         self.proposals = tuple(shots)

@@ -22,9 +22,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from ..units import to_diamonds  # re-exported: the view's status line uses it
 
@@ -67,6 +67,15 @@ class Transform:
             (left, top, width, height) in px.
         margin_px
             Clear space kept on every side, px (reduced if the viewport is tiny).
+
+        Returns
+        -------
+        Transform
+
+        Raises
+        ------
+        ValueError
+            Bounds that are not finite or have no width or height.
         """
         xmin, ymin, xmax, ymax = (float(v) for v in bounds)
         if not (xmax > xmin and ymax > ymin) or not all(map(math.isfinite, (xmin, ymin, xmax, ymax))):
@@ -87,23 +96,67 @@ class Transform:
 
     # ---------------------------------------------------------- points
     def to_screen(self, x: float, y: float) -> tuple[float, float]:
-        """Screen position (px, float) of the table point (x, y) in m."""
+        """Screen position (px, float) of the table point (x, y) in m.
+
+        Parameters
+        ----------
+        x, y : float
+            The table point, m.
+
+        Returns
+        -------
+        (float, float)
+            px.
+        """
         return (self.origin_x + self.scale * x, self.origin_y - self.scale * y)
 
     def to_table(self, px: float, py: float) -> tuple[float, float]:
-        """Table point (m) under the screen position (px, py)."""
+        """Table point (m) under the screen position (px, py).
+
+        Parameters
+        ----------
+        px, py : float
+            The screen position, px.
+
+        Returns
+        -------
+        (float, float)
+            m.
+        """
         return ((px - self.origin_x) / self.scale, (self.origin_y - py) / self.scale)
 
-    def to_screen_array(self, points: Any) -> np.ndarray:
-        """(N, 2) screen positions of (N, 2) table points."""
+    def to_screen_array(self, points: ArrayLike) -> np.ndarray:
+        """(N, 2) screen positions of (N, 2) table points.
+
+        Parameters
+        ----------
+        points : array-like, shape (N, 2)
+            Table points, m.
+
+        Returns
+        -------
+        ndarray, shape (N, 2)
+            px.
+        """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         out = np.empty_like(pts)
         out[:, 0] = self.origin_x + self.scale * pts[:, 0]
         out[:, 1] = self.origin_y - self.scale * pts[:, 1]
         return out
 
-    def to_table_array(self, points: Any) -> np.ndarray:
-        """(N, 2) table points of (N, 2) screen positions."""
+    def to_table_array(self, points: ArrayLike) -> np.ndarray:
+        """(N, 2) table points of (N, 2) screen positions.
+
+        Parameters
+        ----------
+        points : array-like, shape (N, 2)
+            Screen positions, px.
+
+        Returns
+        -------
+        ndarray, shape (N, 2)
+            m.
+        """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
         out = np.empty_like(pts)
         out[:, 0] = (pts[:, 0] - self.origin_x) / self.scale
@@ -112,15 +165,42 @@ class Transform:
 
     # --------------------------------------------------------- lengths
     def px(self, length_m: float) -> float:
-        """A table length in pixels."""
+        """A table length in pixels.
+
+        Parameters
+        ----------
+        length_m : float
+            A length, m.
+
+        Returns
+        -------
+        float
+            px.
+        """
         return length_m * self.scale
 
     def metres(self, length_px: float) -> float:
-        """A screen length in metres of table."""
+        """A screen length in metres of table.
+
+        Parameters
+        ----------
+        length_px : float
+            A length, px.
+
+        Returns
+        -------
+        float
+            m.
+        """
         return length_px / self.scale
 
     def screen_rect(self) -> tuple[int, int, int, int]:
-        """(left, top, width, height) in whole pixels of the fitted ``bounds``."""
+        """(left, top, width, height) in whole pixels of the fitted ``bounds``.
+
+        Returns
+        -------
+        (int, int, int, int)
+        """
         xmin, ymin, xmax, ymax = self.bounds
         x0, y0 = self.to_screen(xmin, ymax)
         x1, y1 = self.to_screen(xmax, ymin)
@@ -128,7 +208,17 @@ class Transform:
         return (left, top, math.ceil(x1) - left, math.ceil(y1) - top)
 
     def contains(self, px: float, py: float) -> bool:
-        """Whether the screen position lies over the fitted bounds."""
+        """Whether the screen position lies over the fitted bounds.
+
+        Parameters
+        ----------
+        px, py : float
+            The screen position, px.
+
+        Returns
+        -------
+        bool
+        """
         x, y = self.to_table(px, py)
         xmin, ymin, xmax, ymax = self.bounds
         return xmin <= x <= xmax and ymin <= y <= ymax
