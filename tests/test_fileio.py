@@ -311,3 +311,64 @@ def test_killed_writes_leave_the_old_or_the_new_file_whole(tmp_path):
     assert last.wait(60) == 0
     assert _png_whole(out)
     assert _temps(tmp_path) == []
+
+
+# ------------------------------------------------------------- JSON reading
+def test_parse_json_refuses_what_no_field_can_mean_and_names_the_field():
+    # Our own rule (files/read.py): NaN, Infinity, numbers past 1e9 in size and
+    # repeated keys are refused with the field they are in; 1e9 itself is kept.
+    from shotplan.files.read import parse_json
+
+    assert parse_json('{"a": [1e9, -1000000000]}', "f.json") == {"a": [1e9, -1000000000]}
+    cases = {
+        '{"balls": {"1": [NaN, 0]}}': "f.json: balls.1[0]: NaN is not a number",
+        '{"a": {"b": -Infinity}}': "f.json: a.b: -Infinity is not a number",
+        '{"a": 1.5e9}': "f.json: a: 1.5e9 is too large",
+        '{"a": 1, "a": 2}': "f.json: the field 'a' appears twice",
+        '{"x": {"odd key": 1e400}}': 'f.json: x["odd key"]: 1e400 is too large',
+        "  ": "f.json: the file is empty",
+        '{"a": }': "f.json: line 1, column 7: not valid JSON",
+    }
+    for text, start in cases.items():
+        with pytest.raises(LayoutError) as e:
+            parse_json(text, "f.json")
+        assert str(e.value).startswith(start), (text, str(e.value))
+        assert "\n" not in str(e.value)
+
+
+def test_read_json_file_names_a_byte_that_is_not_utf8(tmp_path):
+    # 0xff never occurs in UTF-8 (RFC 3629, section 1).
+    from shotplan.files.read import read_json_file
+
+    p = tmp_path / "bad.json"
+    p.write_bytes(b'{"a": "\xff"}')
+    with pytest.raises(LayoutError, match=r"bad\.json: not UTF-8 text \(byte 0xff at offset 7\)"):
+        read_json_file(p)
+
+
+def test_value_words_as_messages_quote_them():
+    # JSON's own names for its kinds (RFC 8259, section 3), in our words.
+    from shotplan.files.read import field_path, show_value, value_kind
+
+    assert [value_kind(v) for v in (True, None, {}, [], "x", 2.5, 3)] == [
+        "true/false", "null", "an object", "a list", "a string", "a number", "a number"]
+    assert show_value([1, "é"]) == '[1, "é"]'
+    assert show_value(list(range(200))).endswith("...")
+    assert field_path("", "balls") == "balls"
+    assert field_path("balls", "3") == "balls.3"
+    assert field_path("balls", "cue ball") == 'balls["cue ball"]'
+    assert field_path("balls", "a\nb") == 'balls["a\\nb"]'
+
+
+def test_check_format_and_version_say_what_is_valid():
+    from shotplan.files.read import check_format, check_version
+
+    check_format({"format": "shotplan-drill"}, "d.json", "shotplan-drill", "drill")
+    with pytest.raises(LayoutError, match=r'd\.json: format: missing, a drill file has '
+                                          r'"format": "shotplan-drill"'):
+        check_format({}, "d.json", "shotplan-drill", "drill")
+    with pytest.raises(LayoutError, match=r"d\.json: version: true is not a version number"):
+        check_version({"version": True}, "d.json", 1, "drill")
+    with pytest.raises(LayoutError, match=r"version: 2 is not supported, this shotplan reads "
+                                          r"drill version 1"):
+        check_version({"version": 2}, "d.json", 1, "drill")

@@ -551,3 +551,56 @@ def test_bad_profiles_are_one_line(table, fragment, tmp_path):
     assert fragment in str(info.value) and "\n" not in str(info.value)
     assert "secret" not in str(info.value) and "something-else" not in str(info.value)
     assert str(info.value).startswith(str(path))
+
+
+# ------------------------------------------------------- tables in files
+def test_a_table_object_round_trips_and_refuses_a_built_table():
+    from shotplan.tablefile import table_from_object, table_to_object
+
+    spec = TableSpec.preset("pool-8ft").with_overrides({"cloth_sliding_friction": 0.21})
+    obj = table_to_object(spec)
+    assert obj == {"preset": "pool-8ft", "cloth_sliding_friction": 0.21}
+    assert table_from_object(obj, "t") == spec
+    assert table_to_object(TableSpec.preset("snooker")) == "snooker"
+    import dataclasses
+
+    odd = dataclasses.replace(TableSpec.preset("pool-9ft"), length_m=2.0)  # not preset + overrides
+    with pytest.raises(LayoutError, match="cannot be written: it is not a preset with measured"):
+        table_to_object(odd)
+    with pytest.raises(LayoutError, match=r"^t\.preset: missing, must be one of pool-9ft"):
+        table_from_object({"length_m": 2.5}, "t")
+
+
+def test_a_profile_object_needs_its_header_and_a_table():
+    from shotplan.tablefile import PROFILE_FORMAT, table_from_profile
+
+    good = {"format": PROFILE_FORMAT, "version": 1, "table": {"preset": "pool-9ft"}}
+    assert table_from_profile(good, "p.json") == TableSpec.preset("pool-9ft")
+    with pytest.raises(LayoutError, match=r"^p\.json: table: missing, a table profile holds"):
+        table_from_profile({"format": PROFILE_FORMAT, "version": 1}, "p.json")
+    with pytest.raises(LayoutError, match=r"^p\.json: table: null, a table profile holds"):
+        table_from_profile({"format": PROFILE_FORMAT, "version": 1, "table": None}, "p.json")
+    with pytest.raises(LayoutError, match=r"^p\.json: version: 3 is not supported"):
+        table_from_profile({**good, "version": 3}, "p.json")
+
+
+def test_placement_faults_by_hand():
+    # Hand-worked on the 9-ft pool table (WPA: ball 57.15 mm, nose at 63.5 % of
+    # the ball's height, from memory of the WPA band 62.5-64.5 %): the nose
+    # meets the ball 36.29 - 28.575 = 7.715 mm above its centre, so a centre
+    # must stay sqrt(28.575^2 - 7.715^2) = 27.51 mm from the nose. A centre
+    # 10 mm from the right rail's nose overlaps it by 17.5 mm.
+    from shotplan.placement import mm_text, placement_fault, position_text
+    from shotplan.table import table_for
+
+    geo = table_for(pool9())
+    assert table_for(pool9()) is geo  # one geometry per spec
+    assert placement_fault(geo, np.array([0.5, 0.01])) == (
+        "[0.5, 0.01] overlaps the right rail cushion by 17.5 mm (a ball's centre must be at "
+        "least 27.5 mm from the cushion nose)")
+    assert placement_fault(geo, np.array([0.5, -0.5])) == (
+        "[0.5, -0.5] is off the table (the table is 2.54 x 1.27 m)")
+    assert placement_fault(geo, np.array([0.0, 0.0])) == (
+        "[0.0, 0.0] is in the head-right pocket (past its drop line)")
+    assert position_text((1.234567, 0.5)) == "[1.2346, 0.5]"
+    assert mm_text(0.01751) == "17.5" and mm_text(0.00004) == "0.04"
