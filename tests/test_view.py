@@ -24,8 +24,8 @@ from shotplan.layout import Layout, load_layout
 from shotplan.render.scene import CircleShape
 from shotplan.table import Table
 from shotplan.view.app import App
+from shotplan.view.controls import face_to_tip, slider_to_speed, speed_bands, speed_to_slider
 from shotplan.view.draw import dash_segments
-from shotplan.view.panels import face_to_tip, slider_to_speed, speed_bands, speed_to_slider
 from shotplan.view.recovery import read_recovery
 from shotplan.view.state import FreeAim, PocketAim, ViewState
 

@@ -18,7 +18,7 @@ from shotplan.equipment import TableSpec  # noqa: E402
 from shotplan.table import Table  # noqa: E402
 
 DOCUMENTED = ["app", "frame", "words", "keeping", "pointer", "layers", "draw", "predict", "transform",
-              "keys", "actions", "command"]
+              "keys", "actions", "command", "state", "panels", "controls", "playback", "recovery"]
 
 
 @pytest.mark.parametrize("name", DOCUMENTED)

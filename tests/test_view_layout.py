@@ -20,15 +20,9 @@ from shotplan.render.palette import BALL_COLOURS, STRIPE_IDS
 from shotplan.render.scene import TextShape
 from shotplan.search import find_shots
 from shotplan.view.app import App
+from shotplan.view.controls import MIN_SIZE, ball_width, proposal_text, shot_columns, toolbar_layout
 from shotplan.view.layers import _HALO, path_styles, shown_positions
-from shotplan.view.panels import (
-    MIN_SIZE,
-    PathDialog,
-    ball_width,
-    proposal_text,
-    shot_columns,
-    toolbar_layout,
-)
+from shotplan.view.panels import PathDialog
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json"
@@ -355,8 +349,8 @@ def test_the_view_draws_the_paths_in_those_styles(tmp_path):
 def test_the_window_opens_inside_a_small_screen():
     # A window larger than its screen hides its own panels: the view opens at
     # most 92 % of the desktop, never below the smallest size it lays out.
+    from shotplan.view.controls import MIN_SIZE
     from shotplan.view.frame import fit_screen
-    from shotplan.view.panels import MIN_SIZE
 
     assert fit_screen((1280, 800), [(1920, 1080)]) == (1280, 800)
     assert fit_screen((1280, 800), [(1100, 800)]) == (1012, 736)

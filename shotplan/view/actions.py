@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import TYPE_CHECKING, Any
 
-from .state import Playback
+from .playback import Playback
 
 if TYPE_CHECKING:
     from .app import App

@@ -41,16 +41,18 @@ from ..render.scene import Scene, Shape
 from ..render.table_shapes import layout_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
+from .controls import MIN_SIZE
 from .draw import Painter, TableCache, rgb
 from .frame import BACKGROUND, draw_help, draw_loading, draw_notes, fit_screen
 from .keeping import Keeper
 from .keys import binding_for
 from .layers import view_shapes
-from .panels import MIN_SIZE, Panels, PathDialog
+from .panels import Panels, PathDialog
+from .playback import Playback
 from .pointer import TablePointer
 from .predict import Predictor
 from .recovery import Recovered, Session, default_recovery_dir
-from .state import Playback, PocketAim, ViewState
+from .state import PocketAim, ViewState
 from .transform import Transform
 from .words import aim_html, escape_markup, pointer_words, title_text
 

@@ -13,9 +13,9 @@ from collections.abc import Sequence
 import pygame
 
 from ..layout import Problem
+from .controls import MIN_SIZE
 from .draw import Painter, rgb
 from .keys import HELP_ROWS
-from .panels import MIN_SIZE
 from .words import WARN
 
 __all__ = ["BACKGROUND", "help_box", "fit_screen", "blit_text", "wrap_px", "fit_px",

@@ -15,9 +15,7 @@ under the slider where their ranges lie.
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
-from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -37,312 +35,33 @@ from pygame_gui.elements import (
 from pygame_gui.windows import UIFileDialog
 
 from ..stroke import speed_word
-from .draw import rgb
-from .state import ELEVATION_RANGE_DEG, SPEED_RANGE_MPS, Playback
+from .controls import (
+    MIN_SIZE,
+    RAIL_LEGEND,
+    SHOT_COLUMNS,
+    SLIDER_STEPS,
+    TIP_PRESETS,
+    TOOLBAR,
+    ball_width,
+    band_strip,
+    draw_face,
+    face_to_tip,
+    no_shot_text,
+    proposal_text,
+    regions,
+    shot_columns,
+    slider_to_speed,
+    speed_to_slider,
+    toolbar_layout,
+)
+from .playback import Playback
+from .state import ELEVATION_RANGE_DEG, SPEED_RANGE_MPS
 
 if TYPE_CHECKING:
-    from ..search import Rejected, Shot
     from .predict import Predictor
     from .state import ViewState
 
-__all__ = [
-    "Regions",
-    "regions",
-    "panel_width",
-    "toolbar_layout",
-    "MIN_SIZE",
-    "SHOT_COLUMNS",
-    "shot_columns",
-    "ball_width",
-    "RAIL_LEGEND",
-    "no_shot_text",
-    "Panels",
-    "RecoveryDialog",
-    "PathDialog",
-    "speed_to_slider",
-    "slider_to_speed",
-    "speed_bands",
-    "face_to_tip",
-    "draw_face",
-    "proposal_text",
-    "TOOLBAR",
-]
-
-TOOLBAR_ROW_H = 38
-"""Height of one row of toolbar buttons, px (the toolbar wraps onto more rows in a narrow window)."""
-TOOLBAR_H = TOOLBAR_ROW_H + 6
-"""The toolbar's height with one row, px."""
-STATUS_H = 28
-PANEL_W = (330, 380)
-"""The stroke panel's least and greatest width, px (30 % of the window between)."""
-PLAYBAR_H = 46
-TITLE_MIN_W = 150
-"""The layout's title gets a toolbar row of its own when less than this is left beside the buttons."""
-MIN_SIZE = (800, 600)
-"""The smallest window everything is laid out for, px; a smaller window shows its top-left part."""
-SLIDER_STEPS = 1000
-"""Positions of the speed and time sliders (0 to SLIDER_STEPS)."""
-
-TOOLBAR: tuple[tuple[str, str], ...] = (
-    ("open", "Open"), ("save", "Save"), ("save-as", "Save as"), ("export", "Export"),
-    ("", ""), ("undo", "Undo"), ("redo", "Redo"),
-    ("", ""), ("rack-8", "8-ball rack"), ("rack-9", "9-ball rack"), ("clear", "Clear"),
-    ("add", "Add ball"), ("remove", "Remove ball"),
-    ("", ""), ("help", "Keys"),
-)
-"""Toolbar buttons: (action, label); an empty pair is a gap between groups."""
-
-TIP_PRESETS: tuple[tuple[str, str], ...] = (
-    ("centre", "Centre"), ("follow", "Follow"), ("stun", "Stun"), ("draw", "Draw"))
-"""Tip buttons beside the cue-ball face: (tip choice, label)."""
-
-
-@dataclass(frozen=True, slots=True)
-class Regions:
-    """Where each part of the window is, as (left, top, width, height) in px."""
-
-    toolbar: tuple[int, int, int, int]
-    """The button row along the top."""
-    table: tuple[int, int, int, int]
-    """The table area."""
-    playbar: tuple[int, int, int, int]
-    """The play controls under the table."""
-    panel: tuple[int, int, int, int]
-    """The stroke panel on the right."""
-    status: tuple[int, int, int, int]
-    """The status line along the bottom."""
-
-
-def panel_width(window_width: int) -> int:
-    """The stroke panel's width in a window ``window_width`` px wide."""
-    return min(max(round(0.3 * window_width), PANEL_W[0]), PANEL_W[1])
-
-
-def regions(size: Sequence[int], toolbar_h: int = TOOLBAR_H) -> Regions:
-    """The parts of a window of ``size`` (width, height) px, under a toolbar
-    ``toolbar_h`` px high (see :func:`toolbar_layout`)."""
-    w, h = max(int(size[0]), MIN_SIZE[0]), max(int(size[1]), MIN_SIZE[1])
-    body = h - toolbar_h - STATUS_H
-    pw = panel_width(w)
-    left_w = w - pw
-    return Regions(
-        toolbar=(0, 0, w, toolbar_h),
-        table=(0, toolbar_h, left_w, body - PLAYBAR_H),
-        playbar=(0, toolbar_h + body - PLAYBAR_H, left_w, PLAYBAR_H),
-        panel=(left_w, toolbar_h, pw, body),
-        status=(0, h - STATUS_H, w, STATUS_H),
-    )
-
-
-def toolbar_layout(width: int, button_widths: Sequence[int], gaps: Sequence[bool] = (),
-                   title_min: int = TITLE_MIN_W
-                   ) -> tuple[list[tuple[int, int, int, int]], tuple[int, int, int, int], int]:
-    """Place the toolbar's buttons in rows across ``width`` px.
-
-    ``gaps[k]`` true puts a group gap before button ``k``; a group that does
-    not fit on the row moves to the next one whole (a group wider than a row
-    is split). The title goes on the last row if ``title_min`` px are left
-    there, else on a row of its own. Returns the buttons' rects and the
-    title's (left, top, width, height), and the toolbar's height, px.
-    """
-    pad, space, group = 8, 4, 10
-    groups: list[list[int]] = []
-    for k in range(len(button_widths)):
-        if not groups or (k < len(gaps) and gaps[k]):
-            groups.append([])
-        groups[-1].append(k)
-    rects: list[tuple[int, int, int, int]] = [(0, 0, 0, 0)] * len(button_widths)
-    row, x = 0, pad
-    bh = TOOLBAR_ROW_H - 8
-    for members in groups:
-        need = sum(button_widths[k] for k in members) + space * (len(members) - 1)
-        start = x + (group if x > pad else 0)
-        if start + need > width - pad and x > pad:
-            row, start = row + 1, pad
-        x = start
-        for k in members:
-            bw = button_widths[k]
-            if x + bw > width - pad and x > pad:
-                row, x = row + 1, pad
-            rects[k] = (x, 4 + row * TOOLBAR_ROW_H, bw, bh)
-            x += bw + space
-    left = x + group - space if x > pad else pad
-    if width - pad - left < title_min:
-        row, left = row + 1, pad
-    title = (left, 4 + row * TOOLBAR_ROW_H, width - pad - left, bh)
-    return rects, title, (row + 1) * TOOLBAR_ROW_H + 6
-
-
-# ------------------------------------------------------------- speed scale
-def speed_to_slider(speed_mps: float) -> int:
-    """Slider position (0 to :data:`SLIDER_STEPS`) of a speed, on the log scale."""
-    lo, hi = SPEED_RANGE_MPS
-    v = min(max(speed_mps, lo), hi)
-    return round(SLIDER_STEPS * math.log(v / lo) / math.log(hi / lo))
-
-
-def slider_to_speed(position: float) -> float:
-    """Speed (m/s) at a slider position, rounded to what the label shows (0.01 m/s)."""
-    lo, hi = SPEED_RANGE_MPS
-    f = min(max(float(position), 0.0), SLIDER_STEPS) / SLIDER_STEPS
-    return round(lo * (hi / lo) ** f, 2)
-
-
-def speed_bands(lo: float, hi: float) -> list[tuple[str, float, float]]:
-    """The trade's speed words over ``lo``..``hi`` m/s: (word, from, to) in order.
-
-    The edges are found from :func:`shotplan.stroke.speed_word` itself (by
-    bisection), so the slider always agrees with the words used elsewhere.
-    """
-    out: list[tuple[str, float, float]] = []
-    start, word = lo, speed_word(lo)
-    steps = 400
-    prev = lo
-    for k in range(1, steps + 1):
-        v = lo * (hi / lo) ** (k / steps)
-        w = speed_word(v)
-        if w != word:
-            a, b = prev, v
-            for _ in range(40):
-                m = 0.5 * (a + b)
-                if speed_word(m) == word:
-                    a = m
-                else:
-                    b = m
-            out.append((word, start, b))
-            start, word = b, w
-        prev = v
-    out.append((word, start, hi))
-    return out
-
-
-# --------------------------------------------------------- cue-ball face
-def face_to_tip(pos: Sequence[float], centre: Sequence[float], radius_px: float) -> tuple[float, float]:
-    """Tip offset (side, height) in ball radii for a click at ``pos`` on a face
-    of ``radius_px`` centred at ``centre``: right of centre is right english,
-    above is follow, as the player sees the ball from behind the cue."""
-    return ((pos[0] - centre[0]) / radius_px, (centre[1] - pos[1]) / radius_px)
-
-
-def draw_face(size: int, side: float, height: float, limit: float, font: pygame.font.Font
-              ) -> pygame.Surface:
-    """The cue-ball face: the ball, its centre lines, the natural-roll line
-    (0.4 R above centre), the miscue-limit circle and the tip where it strikes
-    (drawn to scale: a 13 mm tip on a 57 mm ball)."""
-    surf = pygame.Surface((size, size), pygame.SRCALPHA)
-    c = size / 2.0
-    r = size / 2.0 - 14
-    pygame.draw.aacircle(surf, rgb("#efece3"), (c, c), r)
-    pygame.draw.aacircle(surf, rgb("#b9b5aa"), (c, c), r, 2)
-    grid = rgb("#c9c5ba")
-    pygame.draw.line(surf, grid, (c - r + 4, c), (c + r - 4, c), 1)
-    pygame.draw.line(surf, grid, (c, c - r + 4), (c, c + r - 4), 1)
-    roll = c - 0.4 * r
-    half = math.sqrt(max(r * r - (0.4 * r) ** 2, 0.0)) - 4
-    for x in range(int(c - half), int(c + half), 6):
-        pygame.draw.line(surf, rgb("#7fa7c9"), (x, roll), (min(x + 3, c + half), roll), 1)
-    # Miscue limit: dashed.
-    lim = limit * r
-    n = 48
-    for k in range(0, n, 2):
-        a0, a1 = 2 * math.pi * k / n, 2 * math.pi * (k + 1) / n
-        pygame.draw.aaline(surf, rgb("#c8553d"), (c + lim * math.cos(a0), c + lim * math.sin(a0)),
-                           (c + lim * math.cos(a1), c + lim * math.sin(a1)), 2)
-    tip = (c + side * r, c - height * r)
-    tip_r = max(5.0, r * 0.0065 / 0.028575)
-    pygame.draw.aacircle(surf, rgb("#4f7aa8"), tip, tip_r)
-    pygame.draw.aacircle(surf, rgb("#1f3550"), tip, tip_r, 2)
-    ink = rgb("#d8d4c9")
-    for text, (lx, ly) in (("follow", (c, -1.0)), ("draw", (c, size - 13.0)),
-                           ("L", (1.0, c - 8)), ("R", (size - 1.0, c - 8))):
-        img = font.render(text, True, ink)
-        if text == "R":
-            lx -= img.get_width()
-        elif text in ("follow", "draw"):
-            lx -= img.get_width() / 2
-        surf.blit(img, (lx, ly))
-    return surf
-
-
-def _band_strip(width: int, height: int, lo: float, hi: float, font: pygame.font.Font,
-                track: tuple[float, float]) -> pygame.Surface:
-    """The trade's speed words laid out under the slider's track, alternately on
-    two rows so that each word has the room of two ranges."""
-    surf = pygame.Surface((width, height), pygame.SRCALPHA)
-    x0, x1 = track
-    ink, tick = rgb("#b8b4aa"), rgb("#5b605d")
-    row_h = height / 2.0
-    for k, (word, a, b) in enumerate(speed_bands(lo, hi)):
-        pa = x0 + (x1 - x0) * math.log(a / lo) / math.log(hi / lo)
-        pb = x0 + (x1 - x0) * math.log(b / lo) / math.log(hi / lo)
-        top = (k % 2) * row_h
-        pygame.draw.line(surf, tick, (pa, top + 2), (pb - 2, top + 2), 1)
-        pygame.draw.line(surf, tick, (pa, top), (pa, top + 5), 1)
-        img = font.render(word, True, ink)
-        x = min(max((pa + pb - img.get_width()) / 2, 0), width - img.get_width())
-        surf.blit(img, (x, top + 3))
-    return surf
-
-
-_KIND_SHORT = {"combination": "combo"}
-"""Kinds written shorter in the list's narrow column (the trade says combo too)."""
-
-RAIL_LEGEND = "F H L R: off the foot, head, left, right rail \u00b7 angles in \u00b0"
-"""The key under the shots list."""
-
-
-def shot_columns(ball_width: int = 4) -> str:
-    """The heading over the shots list's columns, for a ball column
-    ``ball_width`` characters wide (the rows come from :func:`proposal_text`)."""
-    return f"{'#':>2} {'shot':<7} {'ball':<{ball_width}} {'pocket':<10} {'cut':>3} {'window':>6}"
-
-
-SHOT_COLUMNS = shot_columns()
-"""The heading over the shots list's columns, for ball ids of up to four characters."""
-
-
-def ball_width(shots: Sequence[Shot]) -> int:
-    """The ball column's width for ``shots`` (at least 4 characters)."""
-    return max([4] + [len("-".join(s.balls)) for s in shots])
-
-
-def proposal_text(k: int, shot: Shot, ball_width: int = 4) -> str:
-    """One line of the shots list, under :func:`shot_columns`: number, the
-    kind with the rails in turn (their initials: ``bank FH`` goes off the
-    foot rail, then the head rail), the balls, the pocket, the cut angle and
-    the window (degrees)."""
-    balls = "-".join(shot.balls)
-    via = "".join(r.split()[0][0].upper() for r in shot.rails)
-    kind = _KIND_SHORT.get(shot.kind, shot.kind) + (f" {via}" if via else "")
-    return (f"{k:>2} {kind:<7} {balls:<{ball_width}} {shot.pocket:<10} "
-            f"{shot.cut_angle_deg:3.0f} {shot.window_deg:6.2f}")
-
-
-def no_shot_text(rejected: Sequence[Rejected], most: int = 4, object_balls: int = 1) -> str:
-    """Why the search found no shot (pygame_gui HTML): the reasons it gave,
-    the most frequent first, each with how many candidates it turned down
-    (or, with no ``object_balls``, that there is nothing to pot)."""
-    if not object_balls:
-        return "<b>No object ball on the table.</b> Add one (Add ball, or Insert) or rack."
-    if not rejected:
-        return "<b>No shot found.</b> Nothing was tried: the table has no pockets."
-    counts: dict[str, int] = {}
-    for r in rejected:
-        counts[str(r.reason)] = counts.get(str(r.reason), 0) + 1
-    ranked = sorted(counts.items(), key=lambda kv: (-kv[1], kv[0]))
-    lines = [f"<b>No shot found.</b> {len(rejected)} tried, turned down because:"]
-    for reason, n in ranked[:most]:
-        lines.append(f"{n} \u00d7 {_html(reason)}")
-    if len(ranked) > most:
-        rest = sum(n for _, n in ranked[most:])
-        lines.append(f"{rest} for {len(ranked) - most} other reason"
-                     f"{'s' if len(ranked) - most > 1 else ''}")
-    return "<br>".join(lines)
-
-
-def _html(text: str) -> str:
-    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
-
+__all__ = ["Panels", "RecoveryDialog", "PathDialog"]
 
 class PathDialog(UIFileDialog):
     """pygame_gui's file dialog, where Return in the path field saves (or
@@ -350,7 +69,18 @@ class PathDialog(UIFileDialog):
     still opens that folder in the list."""
 
     def process_event(self, event: pygame.event.Event) -> bool:
-        """Handle one event (see :class:`pygame_gui.windows.UIFileDialog`)."""
+        """Handle one event (see :class:`pygame_gui.windows.UIFileDialog`).
+
+        Parameters
+        ----------
+        event : Event
+            A pygame event.
+
+        Returns
+        -------
+        bool
+            Whether it was used.
+        """
         if event.type == pygame_gui.UI_TEXT_ENTRY_FINISHED and \
                 event.ui_element is self.file_path_text_line:
             text = self.file_path_text_line.get_text().strip()
@@ -373,7 +103,17 @@ class PathDialog(UIFileDialog):
 
 
 class RecoveryDialog(UIWindow):
-    """Asks whether to restore the unsaved work found at start."""
+    """Asks whether to restore the unsaved work found at start.
+
+    Parameters
+    ----------
+    manager : UIManager
+        Where it opens.
+    size : (int, int)
+        The window's size, px (it opens in the middle).
+    text : str
+        The question, pygame_gui HTML.
+    """
 
     def __init__(self, manager: pygame_gui.UIManager, size: Sequence[int], text: str):
         w, h = 500, 270
@@ -478,7 +218,7 @@ class Panels:
         track = (arrow + 10, iw - arrow - 10)  # centres of the thumb at both ends
         band_h = 36
         self.bands = UIImage(pygame.Rect(12, y, iw, band_h),
-                             _band_strip(iw, band_h, *SPEED_RANGE_MPS, self._small, track), m,
+                             band_strip(iw, band_h, *SPEED_RANGE_MPS, self._small, track), m,
                              container=side)
         y += band_h + (4 if roomy else 2)
         self.tip_label = UILabel(pygame.Rect(12, y, iw, 22), "", m, container=side)
@@ -559,7 +299,12 @@ class Panels:
         self._built.append(self.status)
 
     def widgets(self) -> dict[str, Any]:
-        """Every widget laid out by :meth:`build`, by name (for checks of the layout)."""
+        """Every widget laid out by :meth:`build`, by name (for checks of the layout).
+
+        Returns
+        -------
+        dict of str to UIElement
+        """
         out: dict[str, Any] = {f"button {a}": b for a, b in self.buttons.items()}
         out.update({f"tip {t}": b for t, b in self.tip_buttons.items()})
         for name in ("title_label", "speed_label", "speed_slider", "bands", "tip_label", "face",
@@ -570,7 +315,13 @@ class Panels:
         return out
 
     def resize(self, size: Sequence[int]) -> None:
-        """Build again for a new window size."""
+        """Build again for a new window size.
+
+        Parameters
+        ----------
+        size : (int, int)
+            The window's size, px.
+        """
         self.size = (int(size[0]), int(size[1]))
         self.build()
 
@@ -581,25 +332,68 @@ class Panels:
         return pygame.Rect(*self.face_origin, self.face_size, self.face_size)
 
     def face_tip(self, pos: Sequence[float]) -> tuple[float, float]:
-        """Tip offset for a pointer at ``pos`` (window px) on the face."""
+        """Tip offset for a pointer at ``pos`` (window px) on the face.
+
+        Parameters
+        ----------
+        pos : (float, float)
+            Window position, px.
+
+        Returns
+        -------
+        (float, float)
+            ``(side, height)``, ball radii.
+        """
         r = self.face_size / 2.0 - 14
         c = (self.face_origin[0] + self.face_size / 2.0, self.face_origin[1] + self.face_size / 2.0)
         return face_to_tip(pos, c, r)
 
     def face_point(self, side: float, height: float) -> tuple[float, float]:
-        """Window position of a tip offset on the face (the inverse of :meth:`face_tip`)."""
+        """Window position of a tip offset on the face (the inverse of :meth:`face_tip`).
+
+        Parameters
+        ----------
+        side, height : float
+            The tip offset, ball radii.
+
+        Returns
+        -------
+        (float, float)
+            Window position, px.
+        """
         r = self.face_size / 2.0 - 14
         c = (self.face_origin[0] + self.face_size / 2.0, self.face_origin[1] + self.face_size / 2.0)
         return (c[0] + side * r, c[1] - height * r)
 
     def over_widgets(self, pos: Sequence[int]) -> bool:
-        """Whether ``pos`` lies on the toolbar, the panel, the play bar or the status line."""
+        """Whether ``pos`` lies on the toolbar, the panel, the play bar or the status line.
+
+        Parameters
+        ----------
+        pos : (int, int)
+            Window position, px.
+
+        Returns
+        -------
+        bool
+        """
         reg = self.regions
         return any(pygame.Rect(*r).collidepoint(pos)
                    for r in (reg.toolbar, reg.panel, reg.playbar, reg.status))
 
-    def handle(self, event: pygame.event.Event) -> tuple[str, Any] | None:
-        """The action a widget event asks for, or ``None``."""
+    def handle(self, event: pygame.event.Event) -> tuple[str, object] | None:
+        """The action a widget event asks for, or ``None``.
+
+        Parameters
+        ----------
+        event : Event
+            A pygame event.
+
+        Returns
+        -------
+        (str, object) or None
+            The action's name and value (see :meth:`App.do`).
+        """
         if event.type == pygame_gui.UI_BUTTON_PRESSED:
             el = event.ui_element
             for action, button in self.buttons.items():
@@ -631,7 +425,12 @@ class Panels:
         return None
 
     def slider_held(self) -> bool:
-        """Whether the pointer holds a slider's thumb (its value is then the user's)."""
+        """Whether the pointer holds a slider's thumb (its value is then the user's).
+
+        Returns
+        -------
+        bool
+        """
         return any(s.sliding_button is not None and s.sliding_button.held
                    for s in (self.speed_slider, self.elevation_slider, self.time_slider))
 
@@ -639,7 +438,25 @@ class Panels:
     def sync(self, state: ViewState, predictor: Predictor, playback: Playback, status: str, title: str,
              aim_html: str, now: float = 0.0, busy: bool = False) -> None:
         """Show the model's values (only what changed is redrawn); ``busy``
-        (a drag in progress) lets the aim text refresh at a few hertz only."""
+        (a drag in progress) lets the aim text refresh at a few hertz only.
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+        predictor : Predictor
+            The prediction.
+        playback : Playback
+            The animation's place.
+        status, title : str
+            The status line and the title.
+        aim_html : str
+            The aim box (pygame_gui HTML).
+        now : float
+            The view's clock, s.
+        busy : bool
+            A drag is in progress.
+        """
         s = state.settings
         self.speed_label.set_text(f"Speed {s.speed_mps:.2f} m/s \u00b7 {speed_word(s.speed_mps)}")
         if not _held(self.speed_slider) and \

@@ -79,7 +79,12 @@ class Recovered:
 
 
 def default_recovery_dir() -> Path:
-    """``$XDG_STATE_HOME/shotplan``, or ``~/.local/state/shotplan`` if unset (or not absolute)."""
+    """``$XDG_STATE_HOME/shotplan``, or ``~/.local/state/shotplan`` if unset (or not absolute).
+
+    Returns
+    -------
+    Path
+    """
     base = os.environ.get("XDG_STATE_HOME", "")
     root = Path(base) if base and Path(base).is_absolute() else Path.home() / ".local" / "state"
     return root / "shotplan"
@@ -87,7 +92,12 @@ def default_recovery_dir() -> Path:
 
 def default_recovery_path() -> Path:
     """The single recovery file of earlier versions (``recovery.json`` in the
-    recovery folder): still offered back if one is left, never written."""
+    recovery folder): still offered back if one is left, never written.
+
+    Returns
+    -------
+    Path
+    """
     return default_recovery_dir() / LEGACY_NAME
 
 
@@ -184,7 +194,13 @@ class Session:
                 raise LayoutError(f"{self.lock_path}: held by another view")
 
     def write(self, state: ViewState) -> None:
-        """Write the state's unsaved work to this session's file."""
+        """Write the state's unsaved work to this session's file.
+
+        Parameters
+        ----------
+        state : ViewState
+            The view's model.
+        """
         self._hold()
         write_recovery(self.path, state)
 
@@ -216,7 +232,13 @@ class Claim:
     """Its lock file, open and locked."""
 
     def release(self, remove: bool = False) -> None:
-        """Let the file go; with ``remove``, delete it (and its lock file) first."""
+        """Let the file go; with ``remove``, delete it (and its lock file) first.
+
+        Parameters
+        ----------
+        remove : bool
+            Delete the file first.
+        """
         if remove:
             discard_recovery(self.path)
             with contextlib.suppress(OSError):
@@ -227,7 +249,20 @@ class Claim:
 def left_over(folder: str | os.PathLike[str], own: Path | None = None) -> list[Path]:
     """Recovery files in ``folder`` that might be left over (regular files,
     oldest first, not ``own``); whether their view still runs is for
-    :func:`claim` to find out."""
+    :func:`claim` to find out.
+
+    Parameters
+    ----------
+    folder : str or path-like
+        The recovery folder.
+    own : Path, optional
+        This view's own file, left out.
+
+    Returns
+    -------
+    list of Path
+        Oldest first.
+    """
     root = Path(folder)
     if not root.is_dir():
         return []
@@ -246,7 +281,17 @@ def left_over(folder: str | os.PathLike[str], own: Path | None = None) -> list[P
 
 def claim(path: Path) -> Claim | None:
     """Take the lock of a left-over recovery file: ``None`` if its view still
-    runs (or another start claimed it first, or it has gone meanwhile)."""
+    runs (or another start claimed it first, or it has gone meanwhile).
+
+    Parameters
+    ----------
+    path : Path
+        A left-over recovery file.
+
+    Returns
+    -------
+    Claim or None
+    """
     try:
         lock = _try_lock(_lock_path(path))
     except OSError:
@@ -261,12 +306,22 @@ def claim(path: Path) -> Claim | None:
 
 def checked_source(source: str | None) -> tuple[str | None, str]:
     """The ``source`` of a recovery file as a Save target, checked like a path
-    the user types: (the path, ``""``) if usable, else (``None``, why not)."""
+    the user types: (the path, ``""``) if usable, else (``None``, why not).
+
+    Parameters
+    ----------
+    source : str, optional
+        The file the work came from.
+
+    Returns
+    -------
+    (str or None, str)
+    """
     if source is None:
         return None, ""
+    if "\x00" in source or not source.strip():
+        return None, f"{source!r} is not a usable file name"
     try:
-        if "\x00" in source or not source.strip():
-            raise LayoutError(f"{source!r} is not a usable file name")
         check_output_path(source, (".json",))
     except (ShotplanError, OSError, ValueError) as e:
         return None, str(e)
@@ -283,7 +338,15 @@ def _aim_to_json(aim: Any) -> Any:
 
 
 def write_recovery(path: str | os.PathLike[str], state: ViewState) -> None:
-    """Write the state's unsaved work to ``path`` atomically (its folder is made if missing)."""
+    """Write the state's unsaved work to ``path`` atomically (its folder is made if missing).
+
+    Parameters
+    ----------
+    path : str or path-like
+        The recovery file.
+    state : ViewState
+        The view's model.
+    """
     p = Path(path)
     p.parent.mkdir(parents=True, exist_ok=True)
     doc = {
@@ -303,7 +366,22 @@ def write_recovery(path: str | os.PathLike[str], state: ViewState) -> None:
 def read_recovery(path: str | os.PathLike[str]) -> Recovered | None:
     """The recovery file's content, ``None`` if there is none; raises
     :class:`~shotplan.errors.LayoutError` (one line, naming the field) if it
-    cannot be read."""
+    cannot be read.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The recovery file.
+
+    Returns
+    -------
+    Recovered or None
+
+    Raises
+    ------
+    LayoutError
+        A file that is not a recovery file of this version, or a bad field.
+    """
     p = Path(path)
     if not p.exists():
         return None
@@ -364,7 +442,13 @@ def _aim(d: Any, where: str) -> FreeAim | PocketAim | None:
 
 
 def discard_recovery(path: str | os.PathLike[str]) -> None:
-    """Remove the recovery file (nothing happens if there is none)."""
+    """Remove the recovery file (nothing happens if there is none).
+
+    Parameters
+    ----------
+    path : str or path-like
+        The recovery file.
+    """
     with contextlib.suppress(FileNotFoundError):
         Path(path).unlink()
 
@@ -372,7 +456,19 @@ def discard_recovery(path: str | os.PathLike[str]) -> None:
 def set_aside(path: str | os.PathLike[str], tag: str = "bad") -> Path | None:
     """Rename a recovery file to ``<name>.<tag>``, or ``<name>.<tag>.2``,
     ``.3``... if that is taken: kept, never deleted and never over another
-    (so nothing is lost); returns the new name, or ``None`` if that failed."""
+    (so nothing is lost); returns the new name, or ``None`` if that failed.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The recovery file.
+    tag : str
+        The suffix of the new name.
+
+    Returns
+    -------
+    Path or None
+    """
     p = Path(path)
     for k in range(1, 10000):
         new = p.with_name(f"{p.name}.{tag}" + (f".{k}" if k > 1 else ""))

@@ -46,7 +46,6 @@ __all__ = [
     "FreeAim",
     "Aim",
     "Snapshot",
-    "Playback",
     "ViewState",
     "clamp_tip",
 ]
@@ -78,13 +77,33 @@ class StrokeSettings:
     """Cue elevation, degrees."""
 
     def stroke(self, direction_deg: float) -> Stroke:
-        """The full stroke in ``direction_deg``."""
+        """The full stroke in ``direction_deg``.
+
+        Parameters
+        ----------
+        direction_deg : float
+            The cue's direction, degrees from +x.
+
+        Returns
+        -------
+        Stroke
+        """
         return Stroke(float(direction_deg), self.speed_mps, self.side, self.height,
                       self.elevation_deg)
 
     @classmethod
     def of(cls, stroke: Stroke) -> StrokeSettings:
-        """The settings of a stroke."""
+        """The settings of a stroke.
+
+        Parameters
+        ----------
+        stroke : Stroke
+            A stroke.
+
+        Returns
+        -------
+        StrokeSettings
+        """
         return cls(stroke.speed_mps, stroke.side, stroke.height, stroke.elevation_deg)
 
 
@@ -134,57 +153,20 @@ class Snapshot:
     """The aim."""
 
 
-class Playback:
-    """Where the animation of the predicted shot is: its time, whether it runs, how fast.
-
-    ``rate`` 1 is real time; 0.25 plays four times slower.
-    """
-
-    RATES: tuple[tuple[str, float], ...] = (
-        ("real time", 1.0), ("1/2 speed", 0.5), ("1/4 speed", 0.25), ("1/10 speed", 0.1))
-    """The speed choices offered, with their rates."""
-
-    def __init__(self) -> None:
-        self.t = 0.0
-        self.playing = False
-        self.rate = 1.0
-
-    @property
-    def active(self) -> bool:
-        """Whether the balls are shown moved (playing, or stopped part-way)."""
-        return self.playing or self.t > 0.0
-
-    def toggle(self, duration: float) -> None:
-        """Play or pause; playing from the end starts again."""
-        if self.playing:
-            self.playing = False
-            return
-        if self.t >= duration:
-            self.t = 0.0
-        self.playing = duration > 0.0
-
-    def reset(self) -> None:
-        """Back to the start, stopped (the balls at their places)."""
-        self.t = 0.0
-        self.playing = False
-
-    def advance(self, dt: float, duration: float) -> None:
-        """Move on by ``dt`` seconds of wall time (``rate`` times as much shot time)."""
-        if not self.playing:
-            return
-        self.t = min(self.t + dt * self.rate, duration)
-        if self.t >= duration:
-            self.playing = False
-
-    def scrub(self, fraction: float, duration: float) -> None:
-        """Jump to ``fraction`` (0 to 1) of the shot, stopped."""
-        self.playing = False
-        self.t = min(max(float(fraction), 0.0), 1.0) * max(duration, 0.0)
-
-
-# ------------------------------------------------------------ placement
 def clamp_tip(side: float, height: float, limit: float) -> tuple[float, float]:
-    """A tip offset moved onto the miscue-limit circle if it lies outside it."""
+    """A tip offset moved onto the miscue-limit circle if it lies outside it.
+
+    Parameters
+    ----------
+    side, height : float
+        The tip offset, ball radii.
+    limit : float
+        The miscue limit, ball radii.
+
+    Returns
+    -------
+    (float, float)
+    """
     r = math.hypot(side, height)
     if r <= limit or r == 0.0:
         return (float(side), float(height))
@@ -241,7 +223,12 @@ class ViewState:
 
     # ------------------------------------------------------------ queries
     def snapshot(self) -> Snapshot:
-        """The current layout, settings and aim."""
+        """The current layout, settings and aim.
+
+        Returns
+        -------
+        Snapshot
+        """
         return Snapshot(self.layout, self.settings, self.aim)
 
     @property
@@ -255,13 +242,23 @@ class ViewState:
         return self.layout.geometry
 
     def problems(self) -> list[Problem]:
-        """The layout's problems (worked out once per layout)."""
+        """The layout's problems (worked out once per layout).
+
+        Returns
+        -------
+        list of Problem
+        """
         if self._problems is None or self._problems[0] is not self.layout:
             self._problems = (self.layout, self.layout.problems())
         return self._problems[1]
 
     def physics(self) -> Physics:
-        """The layout's physics values (worked out once per table and overrides)."""
+        """The layout's physics values (worked out once per table and overrides).
+
+        Returns
+        -------
+        Physics
+        """
         key = (self.layout.table, self.layout.physics_overrides)
         if self._physics is None or self._physics[0] != key:
             self._physics = (key, self.layout.physics())
@@ -287,12 +284,22 @@ class ViewState:
         return None
 
     def stroke(self) -> Stroke | None:
-        """The stroke now set up, or ``None`` if the cue is not aimed."""
+        """The stroke now set up, or ``None`` if the cue is not aimed.
+
+        Returns
+        -------
+        Stroke or None
+        """
         d = self.direction_deg
         return None if d is None else self.settings.stroke(d)
 
     def layout_to_save(self) -> Layout:
-        """The layout with the stroke now set up (what Save writes)."""
+        """The layout with the stroke now set up (what Save writes).
+
+        Returns
+        -------
+        Layout
+        """
         return self.layout.with_stroke(self.stroke())
 
     # ------------------------------------------------------------ editing
@@ -327,7 +334,13 @@ class ViewState:
         self._coalesce = None
 
     def undo(self) -> bool:
-        """Step back one edit; False if there is none."""
+        """Step back one edit; False if there is none.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         if not self.undo_stack:
             return False
         self.redo_stack.append(self.snapshot())
@@ -336,7 +349,13 @@ class ViewState:
         return True
 
     def redo(self) -> bool:
-        """Step forward one undone edit; False if there is none."""
+        """Step forward one undone edit; False if there is none.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         if not self.redo_stack:
             return False
         self.undo_stack.append(self.snapshot())
@@ -345,7 +364,13 @@ class ViewState:
         return True
 
     def select(self, ball: str | None) -> None:
-        """Select a ball (or nothing); not an edit."""
+        """Select a ball (or nothing); not an edit.
+
+        Parameters
+        ----------
+        ball : str, optional
+            A ball on the table; anything else selects nothing.
+        """
         self.selection = ball if ball is None or ball in self.layout.ball_ids else None
 
     # balls
@@ -356,7 +381,21 @@ class ViewState:
     def move_ball(self, ball: str, xy: Sequence[float], coalesce: str | None = None
                   ) -> tuple[float, float] | None:
         """Move ``ball`` as near ``xy`` as it may lie (see :meth:`shotplan.table.Table.nearest_legal_spot`);
-        returns where it went, or ``None`` if there was no room."""
+        returns where it went, or ``None`` if there was no room.
+
+        Parameters
+        ----------
+        ball : str
+            The ball.
+        xy : (float, float)
+            Where it is wanted, m.
+        coalesce : str, optional
+            Edits in a row with the same key are one undo step (a drag).
+
+        Returns
+        -------
+        (float, float) or None
+        """
         self.layout.position(ball)  # raises LayoutError if absent
         spot = self.table.nearest_legal_spot(xy, self._others(ball))
         if spot is None:
@@ -366,7 +405,13 @@ class ViewState:
 
     def next_ball_id(self) -> str | None:
         """The id an added ball gets: the cue ball if missing, else the lowest
-        of the table's ball set not on the table; ``None`` if all are there."""
+        of the table's ball set not on the table; ``None`` if all are there.
+
+        Returns
+        -------
+        str or None
+            ``None`` when every ball of the set is on the table.
+        """
         present = set(self.layout.ball_ids)
         ids = self.layout.table.ball.ids
         if "cue" in ids and "cue" not in present:
@@ -378,7 +423,25 @@ class ViewState:
 
     def add_ball(self, ball: str | None = None, xy: Sequence[float] | None = None) -> str:
         """Add a ball (by default the next free id, near the foot spot or, for
-        the cue ball, the head spot) at the nearest free legal place; returns its id."""
+        the cue ball, the head spot) at the nearest free legal place; returns its id.
+
+        Parameters
+        ----------
+        ball : str, optional
+            Its id (default: the next free one).
+        xy : (float, float), optional
+            Where it is wanted, m.
+
+        Returns
+        -------
+        str
+
+        Raises
+        ------
+        LayoutError
+            Every ball of the set is on the table, the id is taken, or there is no
+            free place.
+        """
         ball = ball if ball is not None else self.next_ball_id()
         if ball is None:
             raise LayoutError("every ball of this table's set is already on the table")
@@ -394,7 +457,18 @@ class ViewState:
         return ball
 
     def remove_ball(self, ball: str) -> bool:
-        """Take ``ball`` off the table (an aim that uses it goes too)."""
+        """Take ``ball`` off the table (an aim that uses it goes too).
+
+        Parameters
+        ----------
+        ball : str
+            The ball.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         self.layout.position(ball)
         aim = self.aim
         if isinstance(aim, PocketAim) and (ball in aim.sequence or ball == "cue"):
@@ -409,7 +483,18 @@ class ViewState:
     def set_rack(self, kind: str) -> bool:
         """Rack the balls as the trade does (``8-ball`` or ``9-ball``), cue ball
         on the head spot. A new layout: titled after the rack, the old title
-        and note (which described other balls) dropped."""
+        and note (which described other balls) dropped.
+
+        Parameters
+        ----------
+        kind : str
+            ``8-ball`` or ``9-ball``.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         balls = rack(kind, self.layout.table)
         layout = Layout(self.layout.table, tuple(balls.items()), self.layout.stroke,
                         self.layout.physics_overrides, f"{kind} rack", "")
@@ -418,7 +503,13 @@ class ViewState:
 
     def clear(self) -> bool:
         """Take every object ball off; the cue ball stays (or comes back to the
-        head spot). The title and the note go with the balls they described."""
+        head spot). The title and the note go with the balls they described.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         cue = dict(self.layout.balls).get("cue")
         if cue is None:
             cue = new_layout(self.layout.table).position("cue")
@@ -430,57 +521,172 @@ class ViewState:
 
     # stroke settings
     def set_speed(self, speed_mps: float, coalesce: str | None = None) -> bool:
-        """Set the launch speed (kept within :data:`SPEED_RANGE_MPS`)."""
+        """Set the launch speed (kept within :data:`SPEED_RANGE_MPS`).
+
+        Parameters
+        ----------
+        speed_mps : float
+            The speed, m/s.
+        coalesce : str, optional
+            Edits in a row with the same key are one undo step (a drag).
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         lo, hi = SPEED_RANGE_MPS
         v = min(max(float(speed_mps), lo), min(hi, MAX_SPEED_MPS))
         return self._apply(coalesce, settings=_replace(self.settings, speed_mps=v))
 
     def set_tip(self, side: float, height: float, coalesce: str | None = None) -> bool:
-        """Set the tip offset (ball radii), moved inside the miscue limit if beyond it."""
+        """Set the tip offset (ball radii), moved inside the miscue limit if beyond it.
+
+        Parameters
+        ----------
+        side, height : float
+            The tip offset, ball radii (+ right, + above centre).
+        coalesce : str, optional
+            Edits in a row with the same key are one undo step (a drag).
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         s, h = clamp_tip(float(side), float(height), self.miscue_limit)
         return self._apply(coalesce, settings=_replace(self.settings, side=s, height=h))
 
     def set_elevation(self, elevation_deg: float, coalesce: str | None = None) -> bool:
-        """Set the cue elevation (kept within :data:`ELEVATION_RANGE_DEG`)."""
+        """Set the cue elevation (kept within :data:`ELEVATION_RANGE_DEG`).
+
+        Parameters
+        ----------
+        elevation_deg : float
+            The cue's elevation, degrees.
+        coalesce : str, optional
+            Edits in a row with the same key are one undo step (a drag).
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         lo, hi = ELEVATION_RANGE_DEG
         e = min(max(float(elevation_deg), lo), hi)
         return self._apply(coalesce, settings=_replace(self.settings, elevation_deg=e))
 
     # aim
     def aim_at_pocket(self, ball: str, pocket: str) -> bool:
-        """Aim ``ball`` (an object ball) straight at ``pocket``."""
+        """Aim ``ball`` (an object ball) straight at ``pocket``.
+
+        Parameters
+        ----------
+        ball : str
+            An object ball on the table.
+        pocket : str
+            A pocket's name.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+
+        Raises
+        ------
+        LayoutError
+            The cue ball, or a ball not on the table.
+        """
         if ball == "cue" or ball not in self.layout.ball_ids:
             raise LayoutError(f"{ball!r} is not an object ball on the table")
         self.table.pocket_index(pocket)  # KeyError names the valid pockets
         return self._apply(None, aim=PocketAim(ball, pocket))
 
     def aim_free(self, direction_deg: float, coalesce: str | None = None) -> bool:
-        """Aim the cue by hand in ``direction_deg`` (kept within -180..180)."""
+        """Aim the cue by hand in ``direction_deg`` (kept within -180..180).
+
+        Parameters
+        ----------
+        direction_deg : float
+            The cue's direction, degrees from +x.
+        coalesce : str, optional
+            Edits in a row with the same key are one undo step (a drag).
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         d = (float(direction_deg) + 180.0) % 360.0 - 180.0
         return self._apply(coalesce, aim=FreeAim(d))
 
     def nudge_aim(self, delta_deg: float, coalesce: str | None = "nudge") -> bool:
         """Turn the cue by ``delta_deg`` (counter-clockwise +); an aim at a
-        pocket becomes a free aim from its current direction."""
+        pocket becomes a free aim from its current direction.
+
+        Parameters
+        ----------
+        delta_deg : float
+            The turn, degrees.
+        coalesce : str, optional
+            Edits in a row with the same key are one undo step (a drag).
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         d = self.direction_deg
         if d is None:
             return False
         return self.aim_free(d + delta_deg, coalesce)
 
     def clear_aim(self) -> bool:
-        """Not aimed."""
+        """Not aimed.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+        """
         return self._apply(None, aim=None)
 
     def set_proposals(self, shots: Sequence[Shot], done: bool,
                       rejected: Sequence[Rejected] = ()) -> None:
         """Replace the proposals and the candidates turned down (the predictor
-        calls this; not an edit)."""
+        calls this; not an edit).
+
+        Parameters
+        ----------
+        shots : sequence of Shot
+            The proposals, best first.
+        done : bool
+            Whether the search has finished.
+        rejected : sequence of Rejected
+            The candidates turned down.
+        """
         self.proposals = tuple(shots)
         self.proposals_done = done
         self.rejections = tuple(rejected)
 
     def choose_proposal(self, index: int) -> bool:
-        """Load the aim and the stroke of proposal ``index`` (0 = best)."""
+        """Load the aim and the stroke of proposal ``index`` (0 = best).
+
+        Parameters
+        ----------
+        index : int
+            The proposal, from 0.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+
+        Raises
+        ------
+        InputError
+            No proposal of that number.
+        """
         if not 0 <= index < len(self.proposals):
             raise InputError(f"proposal {index + 1} does not exist, there are "
                              f"{len(self.proposals)}")
@@ -495,7 +701,17 @@ class ViewState:
 
     # ------------------------------------------------------------- files
     def replace_layout(self, layout: Layout, path: str | None, load_message: str = "") -> None:
-        """Open ``layout`` as a new document: history cleared, nothing unsaved."""
+        """Open ``layout`` as a new document: history cleared, nothing unsaved.
+
+        Parameters
+        ----------
+        layout : Layout
+            The layout.
+        path : str, optional
+            Its file.
+        load_message : str
+            A message about its loading.
+        """
         fresh = ViewState(layout, path, load_message)
         self.layout, self.settings, self.aim = fresh.layout, fresh.settings, fresh.aim
         self.path, self.load_message = path, load_message
@@ -511,14 +727,28 @@ class ViewState:
         self.revision += 1
 
     def restore_snapshot(self, snap: Snapshot, path: str | None) -> None:
-        """Take back recovered work: its layout, settings and aim, still unsaved."""
+        """Take back recovered work: its layout, settings and aim, still unsaved.
+
+        Parameters
+        ----------
+        snap : Snapshot
+            The recovered work.
+        path : str, optional
+            Where Save writes it.
+        """
         self.replace_layout(snap.layout, path)
         self.settings, self.aim = snap.settings, snap.aim
         self._unsaved = True  # recovered work is unsaved until it is saved
         self.revision += 1
 
     def mark_saved(self, path: str) -> None:
-        """The current state was written to ``path``."""
+        """The current state was written to ``path``.
+
+        Parameters
+        ----------
+        path : str
+            The file written.
+        """
         self.path = path
         self._saved = self.snapshot()
         self._unsaved = False
