@@ -56,7 +56,7 @@ from .state import PocketAim, ViewState
 from .transform import Transform
 from .words import aim_html, escape_markup, pointer_words, title_text
 
-__all__ = ["App", "DEFAULT_SIZE", "theme_resource", "DEFAULT_RECOVERY"]
+__all__ = ["App", "DEFAULT_SIZE", "theme_resource", "DEFAULT_RECOVERY", "UsualPlace"]
 
 DEFAULT_SIZE = (1280, 800)
 """The window's size when it opens, px."""
@@ -67,8 +67,11 @@ AUTOSAVE_DELAY_S = 0.5
 DIAGRAM_SUFFIXES = (".png", ".svg", ".pdf")
 """What Export writes."""
 
-_DEFAULT: Any = object()
-DEFAULT_RECOVERY: Any = _DEFAULT
+class UsualPlace:
+    """The type of :data:`DEFAULT_RECOVERY`: stands for the usual folder."""
+
+
+DEFAULT_RECOVERY = UsualPlace()
 """Pass as ``recovery_dir`` to use :func:`shotplan.view.recovery.default_recovery_dir`."""
 
 
@@ -109,7 +112,8 @@ class App:
 
     def __init__(self, layout: Layout | None = None, path: str | None = None, *,
                  table: str = "pool-9ft", load_message: str = "",
-                 recovery_dir: Any = DEFAULT_RECOVERY, offer_recovery: bool = True,
+                 recovery_dir: str | os.PathLike[str] | UsualPlace | None = DEFAULT_RECOVERY,
+                 offer_recovery: bool = True,
                  size: tuple[int, int] = DEFAULT_SIZE):
         if layout is None:
             layout = new_layout(TableSpec.preset(table))
@@ -121,7 +125,7 @@ class App:
         self.now = 0.0
         """The view's clock: the sum of the time steps given to :meth:`update`, s."""
         self.help_visible = False
-        folder = default_recovery_dir() if recovery_dir is _DEFAULT else recovery_dir
+        folder = default_recovery_dir() if isinstance(recovery_dir, UsualPlace) else recovery_dir
         self.keeper = Keeper(folder, self.state.revision, self.say)
         """Unsaved work: this view's recovery file and the question about others'."""
         self.offer_recovery = offer_recovery
@@ -392,7 +396,7 @@ class App:
         self._dialogs[dialog] = "confirm-open"
 
     # ------------------------------------------------------------ actions
-    def do(self, action: str, value: Any = None) -> None:
+    def do(self, action: str, value: object = None) -> None:
         """Carry out one action (a button, a key, a widget's value).
 
         Parameters
