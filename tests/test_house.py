@@ -43,15 +43,10 @@ KNOWN_UPWARD: set[tuple[str, str]] = set()
 """Upward imports still to be removed (module, imported part); empty when the
 house is in order."""
 
-KNOWN_PRIVATE: set[tuple[str, str]] = {
-    ("cli.cushion", "_emit_json"), ("cli.drills", "_emit_json"), ("cli.drills", "_int_in"),
-    ("cli.drills", "_playable"), ("cli.study", "_emit_json"),
-}
+KNOWN_PRIVATE: set[tuple[str, str]] = set()
 """Private names still imported across modules (module, name)."""
 
-KNOWN_LONG: set[str] = {
-    "cli.study",
-}
+KNOWN_LONG: set[str] = set()
 """Modules still above :data:`MAX_LINES`."""
 
 

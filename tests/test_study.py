@@ -5,7 +5,6 @@ tests/reference/test_study_reference.py."""
 from __future__ import annotations
 
 import csv
-import io
 import json
 import math
 from pathlib import Path
@@ -14,7 +13,7 @@ import pytest
 
 from shotplan.aim import cut_angle_deg
 from shotplan.cli import main
-from shotplan.cli.study import ProgressBar, load_table
+from shotplan.cli.common import load_table
 from shotplan.equipment import TableSpec
 from shotplan.errors import InputError
 from shotplan.search import find_shots
@@ -169,39 +168,10 @@ def test_aim_table_rows_in_cut_order():
     assert {w for w, _ in table.named} == {"full", "three-quarter", "half", "quarter"}
 
 
-# ---------------------------------------------------------------- progress
-class _Stream(io.StringIO):
-    def __init__(self, tty: bool):
-        super().__init__()
-        self._tty = tty
-
-    def isatty(self) -> bool:
-        return self._tty
-
-
-def test_progress_bar_updates_in_place_on_a_terminal():
-    s = _Stream(True)
-    bar = ProgressBar("study window", stream=s, min_interval_s=0.0)
-    for k in range(1, 5):
-        bar(k, 4)
-    bar.close()
-    text = s.getvalue()
-    assert "\n" not in text and text.count("\r") >= 5
-    assert "4/4" in text and text.endswith("\r")
-
-
-def test_progress_bar_is_silent_in_a_pipe():
-    s = _Stream(False)
-    bar = ProgressBar("study window", stream=s)
-    bar(1, 2)
-    bar.close()
-    assert s.getvalue() == ""
-
-
 # -------------------------------------------------------------------- CLI
 def test_cli_window_writes_png_csv_and_json(tmp_path, capsys):
     png, table = tmp_path / "w.png", tmp_path / "w.csv"
-    code, out, err = run(capsys, "window", "--distances", "0.4", "0.8", "--step", "30",
+    code, out, err = run(capsys, "window", "--distances", "0.4,0.8", "--step", "30",
                          "--max", "60", "-o", str(png), "--csv", str(table), "--json")
     assert code == 0, err
     doc = json.loads(out)
@@ -211,7 +181,7 @@ def test_cli_window_writes_png_csv_and_json(tmp_path, capsys):
     assert png.read_bytes().startswith(PNG)
     rows = list(csv.DictReader(table.open()))
     assert len(rows) == len(doc["points"])
-    assert {r["tip"] for r in rows} == {"stun", "rolling"}
+    assert {r["tip"] for r in rows} == {"stun", "follow"}
     # every plotted number is in the CSV
     for r, p in zip(rows, doc["points"], strict=True):
         assert float(r["window_deg"]) == pytest.approx(p["window_deg"])
@@ -219,7 +189,7 @@ def test_cli_window_writes_png_csv_and_json(tmp_path, capsys):
 
 
 def test_cli_window_table_on_the_terminal(capsys):
-    code, out, err = run(capsys, "window", "--distances", "0.5", "--tip", "stun", "--step", "40",
+    code, out, err = run(capsys, "window", "--distances", "0.5", "--tips", "stun", "--step", "40",
                          "--max", "80", "--speed", "medium")
     assert code == 0, err
     assert "window against cut angle" in out
@@ -231,7 +201,7 @@ def test_cli_window_table_on_the_terminal(capsys):
 
 def test_cli_window_against_approach_svg(tmp_path, capsys):
     svg = tmp_path / "a.svg"
-    code, out, err = run(capsys, "window", "--against", "approach", "--tip", "stun",
+    code, out, err = run(capsys, "window", "--against", "approach", "--tips", "stun",
                          "--step", "30", "--max", "60", "-o", str(svg))
     assert code == 0, err
     assert "foot-right" in out and "side-right" in out
@@ -242,10 +212,10 @@ def test_cli_window_against_approach_svg(tmp_path, capsys):
 
 def test_cli_throw_and_deflection_and_aim(tmp_path, capsys):
     t_csv = tmp_path / "t.csv"
-    code, out, err = run(capsys, "throw", "--spin", "stun,rolling", "--speed", "slow", "3",
+    code, out, err = run(capsys, "throw", "--spins", "stun,follow", "--speeds", "slow,3",
                          "--step", "30", "--max", "60", "--csv", str(t_csv))
     assert code == 0, err
-    assert "stun:" in out and "rolling:" in out
+    assert "stun:" in out and "follow:" in out
     rows = list(csv.DictReader(t_csv.open()))
     assert len(rows) == 2 * 2 * 3
     assert {float(r["speed_mps"]) for r in rows} == {0.9, 3.0}
@@ -282,11 +252,11 @@ def test_cli_reads_a_table_profile_and_a_layout(tmp_path, capsys):
     wrapped.write_text(json.dumps({"table": {"preset": "pool-7ft", "cushion_restitution": 0.8}}))
     spec = load_table(str(wrapped))
     assert spec.name == "pool-7ft" and dict(spec.overrides)["cushion_restitution"] == 0.8
-    code, out, err = run(capsys, "window", "--table", str(profile), "--tip", "stun",
+    code, out, err = run(capsys, "window", "--table", str(profile), "--tips", "stun",
                          "--distances", "0.5", "--step", "60", "--max", "60", "--json")
     assert code == 0, err
     wide = json.loads(out)["points"][0]["window_deg"]
-    code, out, err = run(capsys, "window", "--tip", "stun", "--distances", "0.5", "--step", "60",
+    code, out, err = run(capsys, "window", "--tips", "stun", "--distances", "0.5", "--step", "60",
                          "--max", "60", "--json")
     narrow = json.loads(out)["points"][0]["window_deg"]
     assert wide > narrow  # a wider mouth forgives more
@@ -295,7 +265,7 @@ def test_cli_reads_a_table_profile_and_a_layout(tmp_path, capsys):
 def test_cli_physics_file(tmp_path, capsys):
     phys = tmp_path / "p.json"
     phys.write_text(json.dumps({"ball_restitution": 1.0, "ball_friction": 0.0}))
-    code, out, err = run(capsys, "deflection", "--spin", "stun", "--step", "30", "--max", "60",
+    code, out, err = run(capsys, "deflection", "--spins", "stun", "--step", "30", "--max", "60",
                          "--physics", str(phys), "--json")
     assert code == 0, err
     doc = json.loads(out)
@@ -309,8 +279,8 @@ def test_cli_physics_file(tmp_path, capsys):
     (("window", "--pocket", "nowhere"), "'nowhere' is not a pocket"),
     (("window", "--distances", "-1"), "--distances"),
     (("window", "--speed", "zoom"), "not a speed"),
-    (("window", "--speed", "1", "2"), "takes one value"),
-    (("window", "--tip", "masse"), "not a study tip"),
+    (("window", "--speed", "1,2"), "takes one value"),
+    (("window", "--tips", "masse"), "not a study tip"),
     (("window", "--step", "0"), "step"),
     (("window", "--max", "120"), "largest angle"),
     (("window", "-o", "chart.txt"), "unsupported file type"),
@@ -319,10 +289,10 @@ def test_cli_physics_file(tmp_path, capsys):
     (("window", "--table", "missing.json"), "no such file"),
     (("window", "--set", "bogus=1"), "unknown field 'bogus'"),
     (("window", "--set", "ball_restitution"), "KEY=VALUE"),
-    (("throw", "--distances", "0.3", "0.6"), "takes one value"),
+    (("throw", "--distance", "0.3,0.6"), "takes one value"),
     (("throw", "--pocket", "foot-right", "--pocket", "side-right"), "takes one pocket"),
-    (("throw", "--spin", "swerve"), "not a throw-study spin"),
-    (("deflection", "--spin", "inside"), "not a deflection-study spin"),
+    (("throw", "--spins", "swerve"), "not a throw-study spin"),
+    (("deflection", "--spins", "inside"), "not a deflection-study spin"),
     (("aim", "--max", "95"), "out of range"),
     (("window", "--table", "carom"), "no pockets"),
     (("window", "--cut", "30"), "--cut fixes the cut of an approach sweep"),

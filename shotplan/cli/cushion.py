@@ -11,72 +11,33 @@
     the cautions for table work. ``-o`` writes a multi-page PDF, or one
     PNG/SVG figure.
 
-Figures are matplotlib figures on the Agg canvas (no pyplot state); every
-file goes through :func:`shotplan.files.write.atomic_write_bytes`. Heavy imports happen
-inside the run functions so that other commands stay fast.
+The figures come from :mod:`shotplan.render.charts`; progress is the one
+bar of :mod:`shotplan.cli.progress`. Heavy imports happen inside the run
+functions so that other commands stay fast.
 """
 
 from __future__ import annotations
 
 import argparse
 import sys
-from collections.abc import Sequence
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING
 
 from ..errors import InputError
+from .common import EXIT_OK, FIGURE_SUFFIXES, emit_json
+from .options import deprecated, number
+from .progress import progress_bar
 
-__all__ = ["add_subcommands", "FIGURE_SUFFIXES"]
+if TYPE_CHECKING:
+    from ..cushion import Estimate, FitResult, ModelFit
 
-FIGURE_SUFFIXES = (".png", ".svg", ".pdf")
-"""File types of ``--plot`` and of the report, by suffix."""
+__all__ = ["add_subcommands", "fit_lines"]
 
 _PROFILE_SUFFIXES = (".json",)
 
-# Colours of our own: profile in a deep teal, the plain preset in warm grey,
-# one hue per speed from a sequential ramp, outliers in vermilion.
-_PROFILE = "#0f6b6b"
-_PRESET = "#8a7f72"
-_OUTLIER = "#d1495b"
-_SPEED_COLOURS = ("#9ecae1", "#4292c6", "#2171b5", "#08306b")
-_BAND = "#e8dcc0"
-
-
-# ------------------------------------------------------------------ progress
-class _Progress:
-    """A progress bar on stderr, updated in place, only when stderr is a terminal."""
-
-    def __init__(self, label: str):
-        self.label = label
-        self.active = sys.stderr.isatty()
-        self.shown = False
-
-    def __call__(self, done: int, total: int) -> None:
-        if not self.active:
-            return
-        fraction = done / max(total, 1)
-        n = int(round(20 * min(max(fraction, 0.0), 1.0)))
-        sys.stderr.write(f"\r{self.label} [{'#' * n}{'.' * (20 - n)}] "
-                         f"{100 * fraction:3.0f}%")
-        sys.stderr.flush()
-        self.shown = True
-
-    def close(self) -> None:
-        if self.shown:
-            sys.stderr.write("\r" + " " * (len(self.label) + 52) + "\r")
-            sys.stderr.flush()
-
-
 # ------------------------------------------------------------------- parsers
-def _speed(text: str) -> float:
-    try:
-        value = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{text!r} is not a number") from None
-    if not 0.0 < value <= 15.0:
-        raise argparse.ArgumentTypeError(f"{text} m/s is out of range, must be above 0 and at "
-                                         "most 15")
-    return value
+_speed = number("a number", above=0.0, most=15.0)
+"""A launch speed, m/s: above 0, at most 15."""
 
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
@@ -143,7 +104,6 @@ def _run_missing(args: argparse.Namespace) -> int:
 def _run_fit(args: argparse.Namespace) -> int:
     from ..cushion import finite_json, fit_measurements, read_measurements, write_profile
     from ..files.write import check_output_path
-    from .main import _emit_json
 
     # Every output checked before any work, so a bad name costs nothing.
     out = check_output_path(args.output, _PROFILE_SUFFIXES) if args.output else None
@@ -154,42 +114,47 @@ def _run_fit(args: argparse.Namespace) -> int:
         if out is not None and Path(given).resolve() == out.resolve():
             raise InputError(f"{str(out)!r}: -o would overwrite the measurement file")
     measurements = read_measurements(args.data)
-    bar = _Progress("fitting")
-    try:
+    for name in measurements.old_spin_files:
+        deprecated(f"{name}: spin rolling", "spin follow")
+    with progress_bar("fitting") as bar:
         result = fit_measurements(measurements, args.table, restitution=args.restitution,
                                   drop_outliers=args.drop_outliers,
                                   firm_speed_mps=args.firm_speed, progress=bar)
-    finally:
-        bar.close()
     for w in result.warnings:
         print(f"warning: {w}", file=sys.stderr)
-    figure = _fit_figure(result) if plot is not None else None
+    figure = None
+    if plot is not None:  # drawn before anything is written
+        from ..render.charts import fit_figure
+
+        figure = fit_figure(result)
     if out is not None:
         write_profile(result, out)
     if plot is not None and figure is not None:
-        _write_figures([figure], plot)
+        from ..render.export import write_figures
+
+        write_figures([figure], plot)
     if args.json:
         doc = result.to_dict()
         doc["profile_file"] = str(out) if out is not None else None
         doc["plot_file"] = str(plot) if plot is not None else None
-        _emit_json(finite_json(doc))
-        return 0
-    for line in _fit_lines(result):
+        emit_json(finite_json(doc))
+        return EXIT_OK
+    for line in fit_lines(result):
         print(line)
     if out is not None:
         print(f"wrote {out} (paste its \"table\" object into a layout to simulate this table)")
     if plot is not None:
         print(f"wrote {plot}")
-    return 0
+    return EXIT_OK
 
 
-def _pm(e: Any, digits: int = 4, degenerate: bool = False) -> str:
+def _pm(e: Estimate, digits: int = 4, degenerate: bool = False) -> str:
     if degenerate:
         return f"{e.value:.{digits}g} (standard error not estimable)"
     return f"{e.value:.{digits}g} +- {e.se:.2g}"
 
 
-def _spread_words(fit: Any) -> str:
+def _spread_words(fit: ModelFit) -> str:
     words = {"speed_out_relative": ("speed out", 100.0, "%"),
              "angle_out_deg": ("angle out", 1.0, " deg"),
              "distance_relative": ("distance", 100.0, "%")}
@@ -198,7 +163,20 @@ def _spread_words(fit: Any) -> str:
     return ", ".join(parts) if parts else f"{fit.sigma:.3g} {fit.residual_unit}"
 
 
-def _fit_lines(result: Any) -> list[str]:
+def fit_lines(result: FitResult) -> list[str]:
+    """The lines ``cushion fit`` prints: each kind's model and values, the
+    outliers, the notes and the rebound test.
+
+    Parameters
+    ----------
+    result : FitResult
+        The fit.
+
+    Returns
+    -------
+    list of str
+        The lines.
+    """
     from ..cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
 
     files = ", ".join(f"{f} ({k.replace('_', '-')})" for f, k in result.files)
@@ -250,332 +228,25 @@ def _fit_lines(result: Any) -> list[str]:
 def _run_report(args: argparse.Namespace) -> int:
     from ..cushion import BANK_SPEED_MPS, finite_json, load_profile, profile_report
     from ..files.write import check_output_path
-    from .main import _emit_json
 
     out = check_output_path(args.output, FIGURE_SUFFIXES) if args.output else None
     if out is not None and out.resolve() == Path(args.profile).resolve():
         raise InputError(f"{str(out)!r}: -o would overwrite the profile")
     profile = load_profile(args.profile)
-    bar = _Progress("report")
-    try:
+    with progress_bar("report") as bar:
         report = profile_report(profile, firm_speed_mps=args.firm_speed,
                                 bank_speed_mps=args.bank_speed or BANK_SPEED_MPS, progress=bar)
-    finally:
-        bar.close()
     if out is not None:
-        if out.suffix.lower() == ".pdf":
-            _write_figures(_report_pages(report), out)
-        else:
-            _write_figures([_report_summary_figure(report)], out)
+        from ..render.charts import write_report
+
+        write_report(report, out)
     if args.json:
         doc = report.to_dict()
         doc["report_file"] = str(out) if out is not None else None
-        _emit_json(finite_json(doc))
-        return 0
+        emit_json(finite_json(doc))
+        return EXIT_OK
     for line in report.lines():
         print(line)
     if out is not None:
         print(f"wrote {out}")
-    return 0
-
-
-# ------------------------------------------------------------------- figures
-def _new_figure(size_in: tuple[float, float]) -> Any:
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.figure import Figure
-
-    fig = Figure(figsize=size_in, facecolor="#ffffff")
-    FigureCanvasAgg(fig)
-    return fig
-
-
-def _write_figures(figures: Sequence[Any], path: Path) -> None:
-    """One figure as PNG/SVG/PDF, or several as a multi-page PDF; atomic."""
-    import io
-
-    from ..files.write import atomic_write_bytes
-
-    fmt = path.suffix.lower().lstrip(".")
-    if len(figures) > 1 and fmt != "pdf":
-        raise InputError(f"{str(path)!r}: several pages need a .pdf file")
-    meta = {"png": {"Software": "shotplan"}, "svg": {"Date": None, "Creator": "shotplan"},
-            "pdf": {"Creator": "shotplan", "Producer": "shotplan", "CreationDate": None}}[fmt]
-    buf = io.BytesIO()  # the bytes first, then the file: nothing half-made on disk
-    if fmt == "pdf":
-        from matplotlib.backends.backend_pdf import PdfPages
-
-        with PdfPages(buf, metadata=meta) as pdf:
-            for fig in figures:
-                pdf.savefig(fig)
-    else:
-        figures[0].savefig(buf, format=fmt, dpi=150, metadata=meta)
-    atomic_write_bytes(path, buf.getvalue())
-
-
-def _identity(ax: Any, values: Sequence[float]) -> None:
-    lo, hi = min(values), max(values)
-    pad = 0.05 * (hi - lo or 1.0)
-    ax.plot([lo - pad, hi + pad], [lo - pad, hi + pad], color="#bbbbbb", lw=1, zorder=0)
-
-
-def _rebound_panels(ax_angle: Any, ax_speed: Any, rows: Sequence[Any], title: str) -> None:
-    """Measured against model for rebound rows: angle out and speed out."""
-    for spin, marker in (("stun", "o"), ("rolling", "^")):
-        for outlier in (False, True):
-            pick = [r for r in rows if dict(r.measured)["spin"] == spin and r.outlier == outlier]
-            if not pick:
-                continue
-            colour = _OUTLIER if outlier else (_PROFILE if spin == "stun" else "#3a86c8")
-            label = f"{spin}" + (" (outlier)" if outlier else "")
-            for ax, key in ((ax_angle, "angle_out_deg"), (ax_speed, "speed_out_mps")):
-                ax.scatter([dict(r.measured)[key] for r in pick],
-                           [dict(r.predicted)[key] for r in pick], s=18, marker=marker,
-                           color=colour, label=label, zorder=3)
-    for ax, key, unit in ((ax_angle, "angle_out_deg", "angle out, deg from the cushion line"),
-                          (ax_speed, "speed_out_mps", "speed out, m/s")):
-        vals = [float(dict(r.measured)[key]) for r in rows] + [
-            float(dict(r.predicted)[key]) for r in rows]
-        _identity(ax, vals)
-        ax.set_xlabel(f"measured {unit}")
-        ax.set_ylabel(f"model {unit}")
-        ax.grid(alpha=0.3)
-    ax_angle.set_title(f"{title}: angle", fontsize=10)
-    ax_speed.set_title(f"{title}: speed", fontsize=10)
-    ax_angle.legend(fontsize=7, loc="upper left")
-
-
-def _rollout_panel(ax: Any, fit: Any, sliding: float, rolling_res: float, gravity: float,
-                   title: str) -> None:
-    import numpy as np
-
-    from ..cushion import rollout_distance
-
-    rows = fit.rows
-    vmax = max(float(dict(r.measured)["launch_speed_mps"]) for r in rows)
-    vs = np.linspace(0.0, 1.1 * vmax, 100)
-    for spin, style in (("rolling", "-"), ("stun", "--")):
-        if any(dict(r.measured)["spin"] == spin for r in rows):
-            ax.plot(vs, rollout_distance(vs, spin == "rolling", sliding, rolling_res, gravity),
-                    style, color=_PROFILE, lw=1.5, label=f"model, {spin}")
-    for outlier in (False, True):
-        pick = [r for r in rows if r.outlier == outlier]
-        if pick:
-            ax.scatter([dict(r.measured)["launch_speed_mps"] for r in pick],
-                       [dict(r.measured)["distance_m"] for r in pick], s=18,
-                       color=_OUTLIER if outlier else "#222222",
-                       label="measured (outlier)" if outlier else "measured", zorder=3)
-    ax.set_xlabel("launch speed, m/s")
-    ax.set_ylabel("distance to rest, m")
-    ax.set_title(title, fontsize=10)
-    ax.grid(alpha=0.3)
-    ax.legend(fontsize=7)
-
-
-def _test_panel(ax: Any, rows: Sequence[Any], title: str, curve: Any = None) -> None:
-    from ..cushion import STANDARD_MAX_LENGTHS, STANDARD_MIN_LENGTHS
-
-    ax.axhspan(STANDARD_MIN_LENGTHS, STANDARD_MAX_LENGTHS, color=_BAND, zorder=0,
-               label="standard: 4 to 4.5 lengths")
-    if curve is not None:
-        speeds, lengths, label, colour, style = curve
-        ax.plot(speeds, lengths, style, color=colour, lw=1.5, label=label)
-    if rows:
-        ax.scatter([dict(r.measured)["launch_speed_mps"] for r in rows],
-                   [dict(r.measured)["table_lengths"] for r in rows], s=18, color="#222222",
-                   label="measured", zorder=3)
-        ax.scatter([dict(r.measured)["launch_speed_mps"] for r in rows],
-                   [dict(r.predicted)["table_lengths"] for r in rows], s=30, marker="x",
-                   color=_PROFILE, label="simulated", zorder=4)
-    ax.set_xlabel("launch speed, m/s")
-    ax.set_ylabel("table lengths to rest")
-    ax.set_title(title, fontsize=10)
-    ax.grid(alpha=0.3)
-    ax.legend(fontsize=7)
-
-
-def _fit_figure(result: Any) -> Any:
-    """Measured against model for every kind of rows in a fit."""
-    from ..physics import Physics
-
-    panels = []
-    if result.rebound is not None:
-        panels.append("rebound")
-    if result.rollout is not None:
-        panels.append("rollout")
-    if result.rebound_test is not None:
-        panels.append("rebound_test")
-    fig = _new_figure((10.0, 4.0 * len(panels) + 0.6))
-    grid = fig.add_gridspec(len(panels), 2, hspace=0.45, wspace=0.3, top=0.93, bottom=0.08)
-    fig.suptitle(f"Measured against model, {result.preset}", fontsize=12)
-    phys = Physics.for_table(result.spec())
-    for i, kind in enumerate(panels):
-        if kind == "rebound":
-            _rebound_panels(fig.add_subplot(grid[i, 0]), fig.add_subplot(grid[i, 1]),
-                            result.rebound.all_rows.rows, "rebounds")
-        elif kind == "rollout":
-            _rollout_panel(fig.add_subplot(grid[i, :]), result.rollout.all_rows,
-                           phys.cloth_sliding_friction, phys.cloth_rolling_resistance,
-                           phys.gravity, "roll-outs")
-        else:
-            _test_panel(fig.add_subplot(grid[i, :]), result.rebound_test.all_rows.rows,
-                        "standard rebound test (table lengths)")
-    return fig
-
-
-def _curve_panel(ax: Any, curves: Sequence[Any], spin: str, rolled: bool) -> None:
-    for k, c in enumerate(c for c in curves if c.spin == spin):
-        colour = _SPEED_COLOURS[k % len(_SPEED_COLOURS)]
-        prof = c.profile_rolled_deg if rolled else c.profile_out_deg
-        pre = c.preset_rolled_deg if rolled else c.preset_out_deg
-        label = f"{c.speed_mps:g} m/s" + (" (extrapolated)" if c.extrapolated else "")
-        ax.plot(c.angle_in_deg, prof, "--" if c.extrapolated else "-", color=colour, lw=1.6,
-                label=label)
-        ax.plot(c.angle_in_deg, pre, ":", color=colour, lw=1.2)
-    ax.plot([0, 90], [0, 90], color="#bbbbbb", lw=1, zorder=0, label="mirror")
-    ax.set_xlim(0, 90)
-    ax.set_xlabel("incoming angle, deg from the cushion line")
-    ax.set_ylabel("outgoing angle, deg")
-    when = "once rolling again" if rolled else "right off the cushion"
-    ax.set_title(f"{spin} ball, {when}", fontsize=10)
-    ax.grid(alpha=0.3)
-
-
-def _curves_figure(report: Any) -> Any:
-    fig = _new_figure((8.27, 8.5))
-    top = report.rebound_test.measured_up_to_mps
-    beyond = (f"; profile dashed above the measured {top:.2f} m/s (extrapolated)"
-              if top is not None and any(c.extrapolated for c in report.curves) else "")
-    fig.suptitle("Rebound angle against incoming angle: profile (solid), preset (dotted)"
-                 + beyond, fontsize=11 if not beyond else 9)
-    grid = fig.add_gridspec(2, 2, hspace=0.35, wspace=0.3, top=0.92, bottom=0.07)
-    for i, rolled in enumerate((False, True)):
-        for j, spin in enumerate(("stun", "rolling")):
-            ax = fig.add_subplot(grid[i, j])
-            _curve_panel(ax, report.curves, spin, rolled)
-            if i == 0 and j == 0:
-                ax.legend(fontsize=7, loc="upper left")
-    return fig
-
-
-def _test_curves(ax: Any, report: Any) -> None:
-    t = report.rebound_test
-    _test_panel(ax, [c for chk in report.checks if chk.kind == "rebound_test" for c in chk.rows],
-                "standard rebound test, simulated",
-                (t.speeds_mps, t.profile_lengths, "profile", _PROFILE, "-"))
-    ax.plot(t.speeds_mps, t.preset_lengths, ":", color=_PRESET, lw=1.5, label="preset")
-    ax.axvline(t.firm_speed_mps, color="#444444", lw=0.8, ls="--",
-               label=f"firm stroke ({t.firm_speed_mps:g} m/s, our reading)")
-    top = t.measured_up_to_mps
-    if top is not None and top < float(max(t.speeds_mps)):
-        # Launches above every measured cushion speed: the profile's curve
-        # there is an extrapolation of the fitted law; shade it and say so.
-        ax.axvspan(top, float(max(t.speeds_mps)), color="#dddddd", alpha=0.6, lw=0, zorder=0,
-                   label=f"profile extrapolated (measured up to {top:.2f} m/s)")
-    ax.legend(fontsize=7, loc="lower right")
-
-
-def _text_figure(title: str, lines: Sequence[str]) -> Any:
-    import textwrap
-
-    fig = _new_figure((8.27, 11.69))
-    fig.text(0.07, 0.95, title, fontsize=14, weight="bold", va="top")
-    wrapped = []
-    for line in lines:
-        indent = len(line) - len(line.lstrip())
-        wrapped.extend(textwrap.wrap(line, 95, subsequent_indent=" " * (indent + 2)) or [""])
-    fig.text(0.07, 0.91, "\n".join(wrapped), fontsize=8.5, va="top", family="monospace",
-             linespacing=1.45)
-    return fig
-
-
-def _bank_figure(report: Any) -> Any:
-    from ..physics import simulate
-    from ..render.export import render_figure
-    from ..render.scene import Layer, PolylineShape, layout_scene, shot_scene
-
-    b = report.bank
-    layout = b.layout
-    if b.profile_shot is None:
-        scene = layout_scene(layout, title="One-rail bank", note="no pocketing aim found on the "
-                                                                 "profile's table")
-    else:
-        outcome = simulate(layout, b.profile_shot.stroke())
-        d = b.to_dict()
-        note = (f"Profile aim {d['profile_aim_deg']:.2f} deg"
-                + (f", preset aim {d['preset_aim_deg']:.2f} deg ({d['difference_deg']:+.2f} "
-                   f"deg); grey dashes: the object ball on the preset" if b.preset_shot else "")
-                + f". {b.speed_mps:g} m/s, stun.")
-        scene = shot_scene(layout, outcome, b.profile_shot,
-                           title=f"One-rail bank into {b.pocket}, profile and preset", note=note)
-        if b.preset_shot is not None:
-            pre = simulate(layout.with_table(report.profile.preset), b.preset_shot.stroke())
-            pts = pre.path(b.ball)
-            if len(pts) > 1:
-                scene = scene.with_shapes(PolylineShape(
-                    tuple((float(x), float(y)) for x, y in pts), colour="#b8b0a4",
-                    line_width_mm=6.0, dash=True, layer=Layer.PATH, alpha=0.9))
-    return render_figure(scene, dpi=150, width_in=8.0)
-
-
-def _report_pages(report: Any) -> list[Any]:
-    from matplotlib.figure import Figure
-
-    pages: list[Figure] = [_text_figure(f"Table profile report: {report.profile.name}",
-                                        report.lines())]
-    checks = {c.kind: c for c in report.checks}
-    if checks:
-        from ..physics import Physics
-
-        n = len(checks)
-        fig = _new_figure((8.27, 3.6 * n + 0.8))
-        fig.suptitle("Measured rows against the profile", fontsize=11)
-        grid = fig.add_gridspec(n, 2, hspace=0.5, wspace=0.3, top=0.92, bottom=0.08)
-        phys = Physics.for_table(report.profile.spec)
-        for i, (kind, chk) in enumerate(checks.items()):
-            if kind == "rebound":
-                _rebound_panels(fig.add_subplot(grid[i, 0]), fig.add_subplot(grid[i, 1]),
-                                chk.rows, "rebounds")
-            elif kind == "rollout":
-                _rollout_panel(fig.add_subplot(grid[i, :]), chk, phys.cloth_sliding_friction,
-                               phys.cloth_rolling_resistance, phys.gravity, "roll-outs")
-            else:
-                _test_panel(fig.add_subplot(grid[i, :]), chk.rows, "rebound test rows")
-        pages.append(fig)
-    pages.append(_curves_figure(report))
-    fig = _new_figure((8.27, 5.5))
-    _test_curves(fig.add_subplot(1, 1, 1), report)
-    pages.append(fig)
-    if report.bank is not None:
-        pages.append(_bank_figure(report))
-    return pages
-
-
-def _report_summary_figure(report: Any) -> Any:
-    """The report as one figure (PNG/SVG): curves, the rebound test, the text."""
-    import textwrap
-
-    fig = _new_figure((11.0, 14.0))
-    fig.suptitle(f"Table profile report: {report.profile.name}", fontsize=13)
-    grid = fig.add_gridspec(3, 2, height_ratios=(1.0, 1.0, 1.15), hspace=0.38, wspace=0.28,
-                            top=0.95, bottom=0.02)
-    ax = fig.add_subplot(grid[0, 0])
-    _curve_panel(ax, report.curves, "stun", False)
-    ax.legend(fontsize=7, loc="upper left")
-    _curve_panel(fig.add_subplot(grid[0, 1]), report.curves, "rolling", False)
-    _test_curves(fig.add_subplot(grid[1, 0]), report)
-    rebound_checks = [c for c in report.checks if c.kind == "rebound"]
-    ax = fig.add_subplot(grid[1, 1])
-    if rebound_checks:
-        dummy = _new_figure((1, 1)).add_subplot(1, 1, 1)  # the speed panel is left out here
-        _rebound_panels(ax, dummy, rebound_checks[0].rows, "measured rebounds")
-    else:
-        _curve_panel(ax, report.curves, "rolling", True)
-    text_ax = fig.add_subplot(grid[2, :])
-    text_ax.set_axis_off()
-    wrapped = []
-    for line in report.lines():
-        indent = len(line) - len(line.lstrip())
-        wrapped.extend(textwrap.wrap(line, 130, subsequent_indent=" " * (indent + 2)) or [""])
-    text_ax.text(0.0, 1.0, "\n".join(wrapped), fontsize=7.5, va="top", family="monospace",
-                 transform=text_ax.transAxes, linespacing=1.4)
-    return fig
+    return EXIT_OK
