@@ -38,7 +38,7 @@ def rebound_rows(n: int, seed: int = 0, e0: float = 0.9, slope: float = 0.04, mu
     angle = np.degrees(np.arctan2(vel[:, 1], vel[:, 0])) + math.degrees(noise) * \
         rng.standard_normal(n)
     return [(float(v[i]), float(a[i]), float(speed[i]), float(angle[i]),
-             "rolling" if roll[i] else "stun") for i in range(n)]
+             "follow" if roll[i] else "stun") for i in range(n)]
 
 
 def write_rebounds(path: Path, rows) -> Path:
@@ -64,7 +64,8 @@ def test_kind_comes_from_the_columns(tmp_path):
     m = cf.read_measurements([reb, ro, st])
     assert [k for _f, k in m.files] == ["rebound", "rollout", "rebound_test"]
     assert len(m.rebounds) == 4 and len(m.rollouts) == 2 and len(m.rebound_tests) == 2
-    assert m.rollouts[0].spin == cf.DEFAULT_SPIN == "rolling"  # no spin column
+    assert m.rollouts[0].spin == cf.DEFAULT_SPIN == "follow"  # no spin column
+    assert m.old_spin_files == ()
     assert m.rebounds[0].line == 3  # the comment line counts
     assert m.rebound_tests[1] == cf.ReboundTestRow(5.5, 3.5, str(st), 3)
 
@@ -72,10 +73,23 @@ def test_kind_comes_from_the_columns(tmp_path):
 def test_spin_and_column_names_ignore_case_and_spaces(tmp_path):
     p = tmp_path / "r.csv"
     p.write_text(" Speed_In_MPS , angle_in_deg,speed_out_mps,angle_out_deg,SPIN\n"
-                 "1.0, 30 ,0.8,33,Stun\n\n1.0,40,0.8,43,rolling\n")
+                 "1.0, 30 ,0.8,33,Stun\n\n1.0,40,0.8,43,Follow\n")
     rows = cf.read_measurement_file(p).rebounds
-    assert [r.spin for r in rows] == ["stun", "rolling"]
+    assert [r.spin for r in rows] == ["stun", "follow"]
     assert rows[1].line == 4
+
+
+def test_the_old_roll_word_is_read_as_follow_and_named(tmp_path):
+    # Files written before the one roll word say "rolling": still read for
+    # one version, as "follow", and the file is named for the deprecation line.
+    old, new = tmp_path / "old.csv", tmp_path / "new.csv"
+    old.write_text("speed_in_mps,angle_in_deg,speed_out_mps,angle_out_deg,spin\n"
+                   "1.0,40,0.8,43,rolling\n1.0,30,0.8,33,stun\n")
+    new.write_text(old.read_text().replace("rolling", "follow"))
+    m_old, m_new = cf.read_measurement_file(old), cf.read_measurement_file(new)
+    assert [r.spin for r in m_old.rebounds] == [r.spin for r in m_new.rebounds] == ["follow", "stun"]
+    assert m_old.old_spin_files == (str(old),) and m_new.old_spin_files == ()
+    assert cf.read_measurements([new, old]).old_spin_files == (str(old),)
 
 
 BAD_FILES = [
@@ -97,7 +111,7 @@ BAD_FILES = [
     (REBOUND_HEADER + "\n1,0,0.8,33,stun\n",
      ["column 'angle_in_deg'", "out of range", "above 0"]),
     (REBOUND_HEADER + "\n1,30,0.8,33,backspin\n",
-     ["column 'spin'", "'backspin'", "stun, rolling"]),
+     ["column 'spin'", "'backspin'", "stun, follow"]),
     (REBOUND_HEADER + "\n1,30,0.8\n",
      ["line 2 (row 1)", "3 values", "5 columns"]),
     (REBOUND_HEADER + "\n1,30,0.8,33,stun\n",
@@ -256,7 +270,7 @@ def test_rollout_sliding_friction_kept_when_undetermined():
     v = np.array([0.3, 0.4, 0.5, 0.6, 0.35, 0.45, 0.55, 0.65])
     roll = np.arange(8) < 4
     d = cf.rollout_distance(v, roll, 0.2, 0.009) * (1 + 0.03 * rng.standard_normal(8))
-    rows = tuple(cf.RolloutRow(v[i], d[i], "rolling" if roll[i] else "stun", "o.csv", i + 2)
+    rows = tuple(cf.RolloutRow(v[i], d[i], "follow" if roll[i] else "stun", "o.csv", i + 2)
                  for i in range(8))
     fit = cf.fit_measurements(cf.Measurements(rollouts=rows, files=(("o.csv", "rollout"),)))
     assert "cloth_sliding_friction" not in fit.overrides()

@@ -102,7 +102,7 @@ class ReboundData:
         self.prm = law_params(spec)
         self.v_in = np.array([r.speed_in_mps for r in rows])
         self.a_in = np.array([r.angle_in_deg for r in rows])
-        self.rolling = np.array([r.spin == "rolling" for r in rows])
+        self.rolling = np.array([r.spin == "follow" for r in rows])
         self.s_out = np.array([r.speed_out_mps for r in rows])
         self.a_out = np.radians([r.angle_out_deg for r in rows])
         self.v_n = self.v_in * np.sin(np.radians(self.a_in))
@@ -424,7 +424,7 @@ def _rollout_fit(rows: Sequence[RolloutRow], defaults: Physics
     where = _where(rows)
     v = np.array([r.launch_speed_mps for r in rows])
     d = np.array([r.distance_m for r in rows])
-    rolling = np.array([r.spin == "rolling" for r in rows])
+    rolling = np.array([r.spin == "follow" for r in rows])
     g = defaults.gravity
     mu_s0 = defaults.cloth_sliding_friction
     both = bool(np.any(rolling)) and bool(np.any(~rolling))
@@ -492,7 +492,7 @@ def _rollout_fit(rows: Sequence[RolloutRow], defaults: Physics
                    ("spin", r.spin)),
                   (("distance_m", float(pred[i])),), (float(resid[i]),), (float(z[i]),))
         for i, r in enumerate(rows))
-    model = ("d = 12 v^2/(49 mu_s g) + (5/7 v)^2/(2 mu_r g) (stun), v^2/(2 mu_r g) (rolling)")
+    model = ("d = 12 v^2/(49 mu_s g) + (5/7 v)^2/(2 mu_r g) (stun), v^2/(2 mu_r g) (follow)")
     fixed = ((("cloth_sliding_friction", mu_s0),) if len(names) == 1 and np.any(~rolling)
              else ())
     fit = ModelFit("rollout", model,

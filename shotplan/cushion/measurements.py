@@ -16,6 +16,7 @@ from ..files.read import read_limited
 
 __all__ = [
     "SPINS",
+    "OLD_SPINS",
     "DEFAULT_SPIN",
     "MAX_FILE_BYTES",
     "MAX_ROWS",
@@ -31,10 +32,15 @@ __all__ = [
     "read_measurements",
 ]
 
-SPINS = ("stun", "rolling")
-"""Spin words of the ``spin`` column."""
+SPINS = ("stun", "follow")
+"""Spin words of the ``spin`` column (``follow``: natural roll, the word of
+``plan --tip`` and ``study``)."""
 
-DEFAULT_SPIN = "rolling"
+OLD_SPINS: dict[str, str] = {"rolling": "follow"}
+"""Spin words of the version before, still read for one version (the files
+that use them are listed in :attr:`Measurements.old_spin_files`)."""
+
+DEFAULT_SPIN = "follow"
 """Spin of rows in files without a ``spin`` column (a ramp launch rolls)."""
 
 MAX_FILE_BYTES = 10 * 1024 * 1024
@@ -54,7 +60,7 @@ COLUMNS: dict[str, str] = {
     "launch_speed_mps": "launch speed, m/s",
     "distance_m": "distance from the launch to rest, m",
     "table_lengths": "distance travelled to rest, in table lengths",
-    "spin": "stun or rolling",
+    "spin": "stun or follow",
     "note": "free text",
 }
 """Every column a measurement file may have, with its meaning and unit."""
@@ -107,7 +113,7 @@ class ReboundRow:
     angle_out_deg: float
     """Outgoing angle from the cushion line, degrees."""
     spin: str = DEFAULT_SPIN
-    """``stun`` or ``rolling``: the ball's spin as it meets the cushion."""
+    """``stun`` or ``follow``: the ball's spin as it meets the cushion."""
     file: str = ""
     """File the row came from."""
     line: int = 0
@@ -123,7 +129,7 @@ class RolloutRow:
     distance_m: float
     """Distance from the launch point to rest, m."""
     spin: str = DEFAULT_SPIN
-    """``rolling`` (rolls from the start) or ``stun`` (slides first)."""
+    """``follow`` (rolls from the start) or ``stun`` (slides first)."""
     file: str = ""
     """File the row came from."""
     line: int = 0
@@ -159,10 +165,13 @@ class Measurements:
     """Rebound-test rows."""
     files: tuple[tuple[str, str], ...] = ()
     """(file, kind) of every file read, in order."""
+    old_spin_files: tuple[str, ...] = ()
+    """Files whose ``spin`` column uses a word of :data:`OLD_SPINS`."""
 
     def __add__(self, other: Measurements) -> Measurements:
         return Measurements(self.rebounds + other.rebounds, self.rollouts + other.rollouts,
-                            self.rebound_tests + other.rebound_tests, self.files + other.files)
+                            self.rebound_tests + other.rebound_tests, self.files + other.files,
+                            self.old_spin_files + other.old_spin_files)
 
     @property
     def n_rows(self) -> int:
@@ -275,8 +284,9 @@ def _read_header(line: str, where: str) -> tuple[list[str], str]:
 
 
 def _read_row(line: str, header: list[str], kind: str, where: str, name: str,
-              lineno: int) -> Row:
-    """One data line as a row of its file's kind."""
+              lineno: int, old_words: set[str]) -> Row:
+    """One data line as a row of its file's kind; an old spin word read is
+    added to ``old_words``."""
     cells = _split(line)
     if len(cells) != len(header):
         raise InputError(f"{where}: {len(cells)} value{'s' if len(cells) != 1 else ''}, "
@@ -285,6 +295,9 @@ def _read_row(line: str, header: list[str], kind: str, where: str, name: str,
     spin = DEFAULT_SPIN
     if "spin" in values:
         spin = values["spin"].lower()
+        if spin in OLD_SPINS:
+            old_words.add(spin)
+            spin = OLD_SPINS[spin]
         if spin not in SPINS:
             raise InputError(f"{where}, column 'spin': {values['spin']!r} is not a spin, "
                              f"must be one of {', '.join(SPINS)}")
@@ -324,6 +337,7 @@ def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:
     kind = ""
     header_line = 0
     rows: list[Row] = []
+    old_words: set[str] = set()
     for lineno, raw in enumerate(text.splitlines(), start=1):
         line = raw.strip()
         if not line or line.startswith("#"):
@@ -337,18 +351,22 @@ def read_measurement_file(path: str | os.PathLike[str]) -> Measurements:
         if n_row > MAX_ROWS:
             raise InputError(f"{where}: more than {MAX_ROWS:,} data rows; a fit takes at most "
                              f"{MAX_ROWS:,} (split the file, or keep a sample of the rows)")
-        rows.append(_read_row(line, header, kind, where, name, lineno))
+        rows.append(_read_row(line, header, kind, where, name, lineno, old_words))
     if header is None:
         raise InputError(f"{name}: the file is empty, expected a header line of column names "
                          f"({_valid_columns_text()}) and a line per measurement")
     if not rows:
         raise InputError(f"{name}: no data rows after the header (line {header_line}); add a "
                          "line per measurement")
+    old = (name,) if old_words else ()
     if kind == "rebound":
-        return Measurements(rebounds=tuple(rows), files=((name, kind),))  # type: ignore[arg-type]
+        return Measurements(rebounds=tuple(rows), files=((name, kind),),  # type: ignore[arg-type]
+                            old_spin_files=old)
     if kind == "rollout":
-        return Measurements(rollouts=tuple(rows), files=((name, kind),))  # type: ignore[arg-type]
-    return Measurements(rebound_tests=tuple(rows), files=((name, kind),))  # type: ignore[arg-type]
+        return Measurements(rollouts=tuple(rows), files=((name, kind),),  # type: ignore[arg-type]
+                            old_spin_files=old)
+    return Measurements(rebound_tests=tuple(rows), files=((name, kind),),  # type: ignore[arg-type]
+                        old_spin_files=old)
 
 
 def read_measurements(paths: Sequence[str | os.PathLike[str]]) -> Measurements:

@@ -15,7 +15,15 @@ import numpy as np
 from ..equipment import PRESETS, TableSpec
 from ..errors import InputError, LayoutError
 from ..files.jsonout import missing_as_null
-from .measurements import SPINS, Measurements, ReboundRow, ReboundTestRow, RolloutRow, Row
+from .measurements import (
+    OLD_SPINS,
+    SPINS,
+    Measurements,
+    ReboundRow,
+    ReboundTestRow,
+    RolloutRow,
+    Row,
+)
 from .models import FIRM_SPEED_NOTE, FIRM_STROKE_MPS, STANDARD_MIN_LENGTHS, ReboundTest
 from .results import MIN_ROWS_FOR_OUTLIERS, OUTLIER_Z, Estimate, KindFit, RowResult
 
@@ -215,7 +223,10 @@ class Profile:
         out: dict[str, tuple[Any, ...]] = {}
         try:
             for key, cls in kinds:
-                out[key] = tuple(cls(**item) for item in rows.get(key, []))
+                # A profile written before the one roll word says "rolling".
+                out[key] = tuple(cls(**{k: OLD_SPINS.get(v, v) if k == "spin" else v
+                                        for k, v in item.items()})
+                                 for item in rows.get(key, []))
         except (TypeError, ValueError, AttributeError):
             raise InputError(f"{where}: not the rows a fit writes; refit the profile") from None
         for r in out["rebound"] + out["rollout"]:

@@ -473,7 +473,7 @@ def _checks(profile: Profile) -> tuple[ModelFit, ...]:
     if m.rollouts:
         v = np.array([r.launch_speed_mps for r in m.rollouts])
         d = np.array([r.distance_m for r in m.rollouts])
-        roll = np.array([r.spin == "rolling" for r in m.rollouts])
+        roll = np.array([r.spin == "follow" for r in m.rollouts])
         pred = rollout_distance(v, roll, phys.cloth_sliding_friction,
                                 phys.cloth_rolling_resistance, phys.gravity)
         resid = pred - d
@@ -537,7 +537,7 @@ def profile_report(profile: Profile, *, firm_speed_mps: float = FIRM_STROKE_MPS,
     for spin in SPINS:
         for v in REPORT_SPEEDS_MPS:
             speeds = np.full_like(angles, v)
-            roll = spin == "rolling"
+            roll = spin == "follow"
             vel, om = rebound_predictions(spec, speeds, angles, roll, phys.cushion_restitution,
                                           phys.cushion_restitution_slope, phys.cushion_friction,
                                           prm)

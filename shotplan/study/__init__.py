@@ -48,6 +48,7 @@ from .aiming import (
 from .base import (
     CUT_SIDES,
     DEFLECTION_SPINS,
+    OLD_SPIN_WORDS,
     SPEED_PRESETS,
     STUDY_TIPS,
     THROW_SPINS,
@@ -80,6 +81,7 @@ from .window import (
 
 __all__ = [
     "STUDY_TIPS",
+    "OLD_SPIN_WORDS",
     "THROW_SPINS",
     "DEFLECTION_SPINS",
     "SPEED_PRESETS",

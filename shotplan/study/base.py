@@ -22,6 +22,7 @@ if TYPE_CHECKING:
 
 __all__ = [
     "STUDY_TIPS",
+    "OLD_SPIN_WORDS",
     "THROW_SPINS",
     "DEFLECTION_SPINS",
     "SPEED_PRESETS",
@@ -50,15 +51,20 @@ __all__ = [
 ]
 
 
-STUDY_TIPS: dict[str, str] = {"stun": "stun", "rolling": "follow", "follow": "follow", "draw": "draw"}
+STUDY_TIPS: dict[str, str] = {"stun": "stun", "follow": "follow", "draw": "draw"}
 """Tip words of the window study and the search's tip choice each stands for
-(``rolling`` is natural roll from the start, the search's ``follow``)."""
+(``follow`` is natural roll from the start, as the search's ``follow``)."""
 
-THROW_SPINS: tuple[str, ...] = ("stun", "rolling", "draw", "outside", "inside")
+OLD_SPIN_WORDS: dict[str, str] = {"rolling": "follow"}
+"""Spin words of the version before and the word that replaces each: one
+word for natural roll across commands and files (``follow``, the trade's
+stun/follow/draw). Still read for one version."""
+
+THROW_SPINS: tuple[str, ...] = ("stun", "follow", "draw", "outside", "inside")
 """Spins of the throw study: ``outside``/``inside`` english is side spin at
 the stun height, on the side away from / toward the cut."""
 
-DEFLECTION_SPINS: tuple[str, ...] = ("stun", "rolling", "draw")
+DEFLECTION_SPINS: tuple[str, ...] = ("stun", "follow", "draw")
 """Spins of the deflection study."""
 
 SPEED_PRESETS: dict[str, float] = {"touch": 0.45, "slow": 0.9, "medium": 1.7, "fast": 3.0,

@@ -14,6 +14,7 @@ from ..errors import InputError, ShotplanError
 from ..physics.params import Physics
 from .base import (
     DEFLECTION_SPINS,
+    OLD_SPIN_WORDS,
     Progress,
     angle_diff,
     check_angle,
@@ -149,7 +150,7 @@ class DeflectionPoint:
     """Where the cue ball goes after contact, for one cut and spin."""
 
     spin: str
-    """``stun``, ``rolling`` or ``draw``."""
+    """``stun``, ``follow`` or ``draw``."""
     cut_deg: float
     """Cut angle of the layout, degrees."""
     speed_mps: float
@@ -270,6 +271,7 @@ def deflection_study(
         raise InputError("cut angle: at least one angle is needed")
     if not spins:
         raise InputError(f"spin: at least one is needed, one of {', '.join(DEFLECTION_SPINS)}")
+    spins = tuple(OLD_SPIN_WORDS.get(s, s) for s in spins)
     for s in spins:
         if s not in DEFLECTION_SPINS:
             raise InputError(f"spin: {s!r} is not a deflection-study spin, must be one of "
@@ -286,7 +288,7 @@ def deflection_study(
     total = len(cuts) * len(spins)
     points: list[DeflectionPoint] = []
     for spin in spins:
-        height = tip_height({"rolling": "follow"}.get(spin, spin), v, cue_distance, phys)
+        height = tip_height(spin, v, cue_distance, phys)
         for cut in cuts:
             points.append(_deflection_point(sim, spec, pocket, spin, v, height, cut,
                                             object_distance, cue_distance, cut_side, R))

@@ -13,6 +13,7 @@ from ..equipment import TableSpec
 from ..errors import InputError, ShotplanError
 from ..physics.params import Physics
 from .base import (
+    OLD_SPIN_WORDS,
     SPEED_PRESETS,
     THROW_SPINS,
     Progress,
@@ -45,7 +46,7 @@ class ThrowPoint:
     """Throw of one cut at one spin and speed."""
 
     spin: str
-    """``stun``, ``rolling``, ``draw``, ``outside`` or ``inside``."""
+    """``stun``, ``follow``, ``draw``, ``outside`` or ``inside``."""
     speed_word: str
     """The trade's word for the launch speed."""
     speed_mps: float
@@ -144,7 +145,7 @@ def _spin_tip(spin: str, speed: float, distance: float, side_offset: float, sens
     """(side, height) for a study spin word."""
     from ..stroke import tip_height
 
-    if spin == "rolling":
+    if spin == "follow":
         return 0.0, tip_height("follow", speed, distance, physics)
     if spin == "draw":
         return 0.0, tip_height("draw", speed, distance, physics)
@@ -210,6 +211,7 @@ def throw_study(
                                                          else sweep_angles(5.0, 70.0)))
     if not cuts:
         raise InputError("cut angle: at least one angle is needed")
+    spins = tuple(OLD_SPIN_WORDS.get(s, s) for s in spins)
     for s in spins:
         if s not in THROW_SPINS:
             raise InputError(f"spin: {s!r} is not a throw-study spin, must be one of "

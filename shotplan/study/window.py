@@ -13,6 +13,7 @@ from ..physics.params import Physics
 from .base import (
     CUT_SIDES,
     MAX_ANGLE_DEG,
+    OLD_SPIN_WORDS,
     STUDY_TIPS,
     CutGeometry,
     Progress,
@@ -48,7 +49,7 @@ class WindowPoint:
     pocket_kind: str
     """``corner`` or ``side``."""
     tip: str
-    """``stun``, ``rolling`` or ``draw``."""
+    """``stun``, ``follow`` or ``draw``."""
     object_distance_m: float
     """Object ball to the mouth line, m."""
     cue_distance_m: float
@@ -185,11 +186,12 @@ def _window_point(geo: CutGeometry | None, why: str, key: dict[str, Any], tip: s
 
 def _check_tips(tips: Sequence[str]) -> tuple[str, ...]:
     if not tips:
-        raise InputError("tip: at least one tip is needed, one of stun, rolling, draw")
+        raise InputError("tip: at least one tip is needed, one of stun, follow, draw")
+    tips = tuple(OLD_SPIN_WORDS.get(t, t) for t in tips)
     for t in tips:
         if t not in STUDY_TIPS:
-            raise InputError(f"tip: {t!r} is not a study tip, must be one of stun, rolling, draw")
-    return tuple("rolling" if t == "follow" else t for t in tips)
+            raise InputError(f"tip: {t!r} is not a study tip, must be one of stun, follow, draw")
+    return tuple(tips)
 
 
 def _distances(values: Iterable[float], what: str, spec: TableSpec) -> tuple[float, ...]:
@@ -206,7 +208,7 @@ def window_against_cut(
     object_distances: Sequence[float] = (0.3, 0.6, 0.9),
     cue_distances: Sequence[float] = (0.5,),
     cuts: Sequence[float] | None = None,
-    tips: Sequence[str] = ("stun", "rolling"),
+    tips: Sequence[str] = ("stun", "follow"),
     approach_deg: float = 0.0,
     speed: float | None = None,
     cut_side: str = "auto",
@@ -227,7 +229,7 @@ def window_against_cut(
     cuts
         Cut angles, degrees (default 0 to 85 by 5).
     tips
-        ``stun``, ``rolling`` (natural roll) and/or ``draw``.
+        ``stun``, ``follow`` (natural roll) and/or ``draw``.
     approach_deg
         Angle of the object ball's line to the pocket's axis, degrees.
     speed
@@ -251,7 +253,7 @@ def window_against_approach(
     object_distances: Sequence[float] = (0.5,),
     cue_distances: Sequence[float] = (0.5,),
     approaches: Sequence[float] | None = None,
-    tips: Sequence[str] = ("stun", "rolling"),
+    tips: Sequence[str] = ("stun", "follow"),
     cut_deg: float = 0.0,
     speed: float | None = None,
     cut_side: str = "auto",
