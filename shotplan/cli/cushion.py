@@ -41,7 +41,13 @@ _speed = number("a number", above=0.0, most=15.0)
 
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
-    """Add ``cushion`` with its actions ``fit`` and ``report``."""
+    """Add ``cushion`` with its actions ``fit`` and ``report``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The ``shotplan`` command's subparsers.
+    """
     from ..cushion import FIRM_STROKE_MPS, RESTITUTION_MODELS
     from ..equipment import PRESETS
 

@@ -213,7 +213,7 @@ class ListAction(argparse.Action):
         setattr(namespace, self.dest, parsed)
 
 
-def add_list_option(parser: argparse.ArgumentParser, name: str, item: Callable[[str], Any], *,
+def add_list_option(parser: argparse.ArgumentParser, name: str, item: Callable[[str], object], *,
                     old_names: Sequence[str] = (), most: int | None = None,
                     renames: Mapping[str, str] | None = None, metavar: str = "LIST",
                     help: str = "") -> None:

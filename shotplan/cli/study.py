@@ -409,7 +409,7 @@ def _run_aim(args: argparse.Namespace) -> int:
 
 
 # ------------------------------------------------------------------- CSV
-def write_csv(rows: Sequence[Mapping[str, Any]], path: str | os.PathLike[str]) -> None:
+def write_csv(rows: Sequence[Mapping[str, object]], path: str | os.PathLike[str]) -> None:
     """Write rows as CSV, atomically.
 
     Parameters
@@ -439,7 +439,7 @@ def write_csv(rows: Sequence[Mapping[str, Any]], path: str | os.PathLike[str]) -
     atomic_write_text(path, buf.getvalue())
 
 
-def _csv_cell(value: Any) -> str:
+def _csv_cell(value: object) -> str:
     if value is None:
         return ""
     if isinstance(value, bool):
