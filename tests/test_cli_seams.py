@@ -169,3 +169,11 @@ def test_cushion_files_with_the_old_roll_word_fit_the_same(tmp_path, capsys, mon
     assert "'m.csv: spin rolling'" in errs[1] and "write 'spin follow'" in errs[1]
     assert docs[0] == docs[1]
     assert docs[0]["cloth_rolling_resistance"] is not None
+
+
+def test_study_help_shows_the_new_spellings_only(capsys):
+    assert main(["study", "throw", "--help"]) == 0
+    text = capsys.readouterr().out
+    assert "--spins SPIN,..." in text and "--speeds MPS,..." in text and "--distance M" in text
+    assert "..." + " ...]" not in text  # no space-separated form advertised
+    assert "--spin " not in text and "--distances" not in text and "rolling" not in text

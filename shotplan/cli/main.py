@@ -15,12 +15,13 @@ from __future__ import annotations
 import argparse
 import sys
 from collections.abc import Sequence
-from typing import NoReturn
+from typing import Any, NoReturn
 
 from ..errors import ShotplanError, Terminated, show_path
 from ..files.jsonout import NonFiniteError
 from ..files.write import FORCE_HELP, handle_termination, set_force
 from .common import EXIT_ERROR, error_line
+from .options import ListHelpFormatter
 
 __all__ = ["main", "build_parser", "COMMAND_MODULES"]
 
@@ -46,7 +47,12 @@ class UsageError(Exception):
 
 
 class _Parser(argparse.ArgumentParser):
-    """An argparse parser whose errors are one line, not usage plus message."""
+    """An argparse parser whose errors are one line, not usage plus message,
+    and whose help shows a list option as one comma-separated value."""
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        kwargs.setdefault("formatter_class", ListHelpFormatter)
+        super().__init__(*args, **kwargs)
 
     def error(self, message: str) -> NoReturn:
         raise UsageError(f"{message} (see '{self.prog} --help')")

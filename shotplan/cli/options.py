@@ -25,6 +25,7 @@ __all__ = [
     "parse_list",
     "number",
     "ListAction",
+    "ListHelpFormatter",
     "add_list_option",
     "deprecated",
     "allow_negative_lists",
@@ -211,6 +212,17 @@ class ListAction(argparse.Action):
         if option_string in self.old_names or len(texts) > 1 or new_items != items:
             deprecated(f"{option_string} {' '.join(texts)}", f"{name} {','.join(new_items)}")
         setattr(namespace, self.dest, parsed)
+
+
+class ListHelpFormatter(argparse.HelpFormatter):
+    """Shows a :class:`ListAction` as its one comma-separated value
+    (``--speeds MPS,...``): the spaces it still reads are the old spelling,
+    not advertised."""
+
+    def _format_args(self, action: argparse.Action, default_metavar: str) -> str:
+        if isinstance(action, ListAction):
+            return str(self._metavar_formatter(action, default_metavar)(1)[0])
+        return super()._format_args(action, default_metavar)
 
 
 def add_list_option(parser: argparse.ArgumentParser, name: str, item: Callable[[str], object], *,
