@@ -20,7 +20,7 @@ COMMANDS = [
     ["position", str(LAYOUTS / "club-night-4-position-drill.json"), "--ball", "4",
      "--pocket", "foot-right", "--zone", "circle:1.9,0.9,0.2",
      "-o", str(OUT / "position-map.png"), "--dpi", "90"],
-    ["study", "window", "--distances", "0.3", "0.6", "0.9",
+    ["study", "window", "--distances", "0.3,0.6,0.9",
      "-o", str(OUT / "study-window.png"), "--dpi", "90"],
 ]
 
