@@ -107,11 +107,10 @@ def _run_missing(args: argparse.Namespace) -> int:
 
 
 # ------------------------------------------------------------------- fit
-def _run_fit(args: argparse.Namespace) -> int:
-    from ..cushion import finite_json, fit_measurements, read_measurements, write_profile
+def _fit_outputs(args: argparse.Namespace) -> tuple[Path | None, Path | None]:
+    """The profile and plot files, checked before any work (a bad name costs nothing)."""
     from ..files.write import check_output_path
 
-    # Every output checked before any work, so a bad name costs nothing.
     out = check_output_path(args.output, _PROFILE_SUFFIXES) if args.output else None
     plot = check_output_path(args.plot, FIGURE_SUFFIXES) if args.plot else None
     if out is not None and plot is not None and out.resolve() == plot.resolve():
@@ -119,6 +118,13 @@ def _run_fit(args: argparse.Namespace) -> int:
     for given in args.data:
         if out is not None and Path(given).resolve() == out.resolve():
             raise InputError(f"{str(out)!r}: -o would overwrite the measurement file")
+    return out, plot
+
+
+def _run_fit(args: argparse.Namespace) -> int:
+    from ..cushion import finite_json, fit_measurements, read_measurements, write_profile
+
+    out, plot = _fit_outputs(args)
     measurements = read_measurements(args.data)
     for name in measurements.old_spin_files:
         deprecated(f"{name}: spin rolling", "spin follow")
