@@ -177,3 +177,21 @@ def test_study_help_shows_the_new_spellings_only(capsys):
     assert "--spins SPIN,..." in text and "--speeds MPS,..." in text and "--distance M" in text
     assert "..." + " ...]" not in text  # no space-separated form advertised
     assert "--spin " not in text and "--distances" not in text and "rolling" not in text
+
+
+def test_a_profile_written_with_the_old_roll_word_still_reports(tmp_path, capsys, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.csv").write_text("launch_speed_mps,distance_m,spin\n0.30,0.55,follow\n"
+                                    "0.45,1.30,follow\n0.60,2.31,follow\n0.50,1.02,stun\n")
+    assert main(["cushion", "fit", "m.csv", "-o", "new.json"]) == 0
+    text = (tmp_path / "new.json").read_text()
+    assert '"follow"' in text and '"rolling"' not in text
+    (tmp_path / "old.json").write_text(text.replace('"follow"', '"rolling"'))
+    capsys.readouterr()
+    reports = []
+    for name in ("new.json", "old.json"):
+        assert main(["cushion", "report", name, "--json"]) == 0
+        doc = json.loads(capsys.readouterr().out)
+        doc.pop("profile", None)
+        reports.append(json.dumps(doc, sort_keys=True).replace(name, "P"))
+    assert reports[0] == reports[1]
