@@ -53,7 +53,7 @@ def simulated_rebound(table: object, speed: float, angle_deg: float, spin: str
     roll, tip at 0.4 R)."""
     lay = Layout.from_dict({"format": "shotplan-layout", "version": 1, "table": table,
                             "balls": {"cue": [0.8, POOL.contact_offset_m + 1e-6]}})
-    height = 0.4 if spin == "rolling" else 0.0
+    height = 0.4 if spin == "follow" else 0.0
     out = simulate(lay, Stroke(-angle_deg, speed, height=height))
     hit = out.events[0]
     assert hit.kind.word == "cushion" and hit.where == "right rail"
@@ -70,7 +70,7 @@ def simulated_rows(n: int, seed: int, noise: float = 0.01) -> list[cf.ReboundRow
     for i in range(n):
         v = float(rng.uniform(0.5, 4.0))
         a = float(rng.uniform(15.0, 85.0))
-        spin = "rolling" if i % 2 else "stun"
+        spin = "follow" if i % 2 else "stun"
         s, o = simulated_rebound(table, v, a, spin)
         rows.append(cf.ReboundRow(v, a, s * (1 + noise * float(rng.standard_normal())),
                                   o + math.degrees(noise) * float(rng.standard_normal()),
@@ -124,7 +124,7 @@ def test_standard_errors_are_honest_over_many_data_sets():
         speed = np.hypot(vel[:, 0], vel[:, 1]) * (1 + 0.01 * rng.standard_normal(n))
         ang = np.degrees(np.arctan2(vel[:, 1], vel[:, 0])) + 0.573 * rng.standard_normal(n)
         rows = [cf.ReboundRow(v[i], a[i], speed[i], ang[i],
-                              "rolling" if roll[i] else "stun", "x.csv", i) for i in range(n)]
+                              "follow" if roll[i] else "stun", "x.csv", i) for i in range(n)]
         result = fit(rows, restitution="linear")
         z.extend((result.estimate(k).value - t) / result.estimate(k).se for k, t in TRUE.items())
     z = np.abs(np.array(z))
@@ -262,7 +262,7 @@ def test_standard_errors_match_straight_line_regression():
 
 
 # ------------------------------------------------------------- the cloth
-@pytest.mark.parametrize("spin,height", [("rolling", 0.4), ("stun", 0.0)])
+@pytest.mark.parametrize("spin,height", [("follow", 0.4), ("stun", 0.0)])
 @pytest.mark.parametrize("speed", [0.4, 0.9])
 def test_rollout_model_is_the_simulators_motion(spin, height, speed):
     # The solid-sphere closed forms (Marlow 1995, as in the docstring) against a full run along a
@@ -273,7 +273,7 @@ def test_rollout_model_is_the_simulators_motion(spin, height, speed):
     lay = Layout(spec, {"cue": (0.3, spec.width_m / 2)})
     out = simulate(lay, Stroke(0.0, speed, height=height))
     travelled = out.final["cue"]["x"] - 0.3
-    want = float(cf.rollout_distance(speed, spin == "rolling", 0.18, 0.012))
+    want = float(cf.rollout_distance(speed, spin == "follow", 0.18, 0.012))
     assert not any(e.kind.word == "cushion" for e in out.events)
     # The engine's event times are roots bracketed to 4 eps of themselves
     # (roots._refine's stopping rule); two events lose a few eps, and 1e-7 is
@@ -288,7 +288,7 @@ def test_rollout_fit_recovers_cloth_values():
     v = np.array([0.3, 0.4, 0.5, 0.6, 1.5, 2.0, 2.5, 3.0, 3.5])
     roll = np.arange(9) < 4
     d = cf.rollout_distance(v, roll, 0.21, 0.0085) * (1 + 0.005 * rng.standard_normal(9))
-    rows = tuple(cf.RolloutRow(v[i], d[i], "rolling" if roll[i] else "stun", "o.csv", i + 2)
+    rows = tuple(cf.RolloutRow(v[i], d[i], "follow" if roll[i] else "stun", "o.csv", i + 2)
                  for i in range(9))
     result = cf.fit_measurements(cf.Measurements(rollouts=rows, files=(("o.csv", "rollout"),)))
     for name, true in (("cloth_rolling_resistance", 0.0085), ("cloth_sliding_friction", 0.21)):

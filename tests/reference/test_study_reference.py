@@ -83,7 +83,7 @@ def test_every_spin_leaves_on_the_tangent_line_without_friction(ideal_deflection
 
 def test_rolling_final_line_is_the_thirty_degree_rule(ideal_deflection):
     # 30-RULE: the rolling cue ball's final line under e = 1, no friction.
-    rolling = [p for p in ideal_deflection.points if p.spin == "rolling"]
+    rolling = [p for p in ideal_deflection.points if p.spin == "follow"]
     assert len(rolling) == len(CUTS)
     for p in rolling:
         assert p.spin_ratio == pytest.approx(1.0, abs=1e-3)  # it arrived rolling
@@ -108,7 +108,7 @@ def test_real_physics_stays_near_the_thirty_degree_rule(real_deflection):
     # 30-RULE "within tolerance": with e = 0.95 and ball-ball friction the
     # rolling cue ball's line stays within 1.5 deg of the formula.
     for p in real_deflection.points:
-        if p.spin == "rolling":
+        if p.spin == "follow":
             assert p.final_deg == pytest.approx(thirty_rule(p.cut_deg), abs=1.5), p
 
 
@@ -162,7 +162,7 @@ def test_snooker_balls_give_their_own_offsets():
 @pytest.fixture(scope="module")
 def throw():
     return throw_study(SPEC, cuts=(0.0, 10.0, 20.0, 25.0, 30.0, 35.0, 40.0, 50.0, 60.0),
-                       spins=("stun", "rolling", "draw", "outside", "inside"),
+                       spins=("stun", "follow", "draw", "outside", "inside"),
                        speeds=(0.9, 1.7, 3.0))
 
 
@@ -196,7 +196,7 @@ def test_follow_and_draw_throw_less_than_stun(throw):
     for v in (0.9, 1.7, 3.0):
         for cut in (20.0, 30.0, 40.0):
             stun = _throw(throw, "stun", v, cut)
-            assert _throw(throw, "rolling", v, cut) < stun
+            assert _throw(throw, "follow", v, cut) < stun
             assert _throw(throw, "draw", v, cut) < stun
 
 
@@ -215,7 +215,7 @@ def test_outside_english_reduces_throw_and_inside_adds(throw):
 def test_no_friction_no_throw():
     # THROW (its premise): throw comes from friction between the balls; without
     # it the object ball leaves along the line of centres.
-    study = throw_study(SPEC, cuts=(15.0, 45.0), spins=("stun", "rolling"), speeds=(1.7,),
+    study = throw_study(SPEC, cuts=(15.0, 45.0), spins=("stun", "follow"), speeds=(1.7,),
                         physics=Physics(ball_friction=0.0))
     for p in study.points:
         assert p.throw_deg == pytest.approx(0.0, abs=1e-6), p
@@ -233,7 +233,7 @@ def test_stun_throw_asks_for_a_thinner_aim(throw):
 @pytest.fixture(scope="module")
 def windows():
     return window_against_cut(SPEC, object_distances=(0.3, 0.6, 0.9), cue_distances=(0.3, 0.6),
-                              cuts=(0.0, 30.0, 60.0), tips=("stun", "rolling"))
+                              cuts=(0.0, 30.0, 60.0), tips=("stun", "follow"))
 
 
 def _window(study, tip, d, dc, cut):
@@ -243,7 +243,7 @@ def _window(study, tip, d, dc, cut):
     raise AssertionError((tip, d, dc, cut))
 
 
-@pytest.mark.parametrize("tip", ["stun", "rolling"])
+@pytest.mark.parametrize("tip", ["stun", "follow"])
 def test_windows_fall_as_the_cut_grows(windows, tip):
     # POCKETS / common practice: a thinner cut forgives less.
     for d in (0.3, 0.6):
@@ -252,7 +252,7 @@ def test_windows_fall_as_the_cut_grows(windows, tip):
             assert w[0] > w[1] > w[2] > 0.0, (d, dc, w)
 
 
-@pytest.mark.parametrize("tip", ["stun", "rolling"])
+@pytest.mark.parametrize("tip", ["stun", "follow"])
 def test_windows_fall_as_the_distances_grow(windows, tip):
     # Common practice: a longer shot forgives less, both legs.
     for cut in (0.0, 30.0):
