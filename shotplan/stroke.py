@@ -23,11 +23,19 @@ if TYPE_CHECKING:  # pragma: no cover
     from .files.read import JSONValue
     from .physics.params import Physics
 
-__all__ = ["Stroke", "STROKE_KEYS", "speed_word", "TIPS", "tip_height", "default_speed"]
+__all__ = ["Stroke", "STROKE_KEYS", "speed_word", "TIPS", "OLD_ROLL_WORDS", "tip_height",
+           "default_speed"]
 
 TIPS = ("stun", "follow", "draw", "centre")
 """Tip choices: ``stun`` (no spin about the horizontal at contact), ``follow``
 (natural roll), ``draw`` (low, within the miscue limit), ``centre``."""
+
+OLD_ROLL_WORDS: dict[str, str] = {"rolling": "follow"}
+"""Words of the version before for natural roll, and the word that replaces
+each. ``follow`` is the one word across commands and files: the trade names
+the three strokes stun, follow and draw (common practice, no source);
+``rolling`` says how a ball moves (the engine's state), not which stroke is
+played. The old word is read for one version, with a warning."""
 
 STROKE_KEYS = ("direction_deg", "speed_mps", "side", "height", "elevation_deg")
 """The keys of a stroke object, in file order."""

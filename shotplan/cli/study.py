@@ -34,6 +34,7 @@ from typing import TYPE_CHECKING, Any
 
 from ..errors import InputError
 from ..files.jsonout import missing_as_null
+from ..stroke import OLD_ROLL_WORDS
 from .common import EXIT_OK, FIGURE_SUFFIXES, emit_json, load_physics, load_table
 from .options import add_list_option, number
 from .progress import progress_bar
@@ -59,8 +60,6 @@ ROLL_WORD = "follow"
 files: the trade names the three strokes stun, follow and draw (common
 practice, no source); ``rolling`` says how the ball moves, not which stroke
 is played, and is read as ``follow`` for one version."""
-
-OLD_ROLL_WORD = "rolling"
 
 
 def speed_item(text: str) -> float:
@@ -107,7 +106,7 @@ def spin_item(text: str) -> str:
     return text.strip().lower()
 
 
-_ROLL = {OLD_ROLL_WORD: ROLL_WORD}
+_ROLL = OLD_ROLL_WORDS
 """The old roll word among the items of a list, read as the new one."""
 
 _DISTANCE = number("a distance in m", above=0.0)

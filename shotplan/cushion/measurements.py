@@ -13,6 +13,7 @@ from dataclasses import dataclass
 
 from ..errors import InputError
 from ..files.read import read_limited
+from ..stroke import OLD_ROLL_WORDS
 
 __all__ = [
     "SPINS",
@@ -36,7 +37,7 @@ SPINS = ("stun", "follow")
 """Spin words of the ``spin`` column (``follow``: natural roll, the word of
 ``plan --tip`` and ``study``)."""
 
-OLD_SPINS: dict[str, str] = {"rolling": "follow"}
+OLD_SPINS: dict[str, str] = OLD_ROLL_WORDS
 """Spin words of the version before, still read for one version (the files
 that use them are listed in :attr:`Measurements.old_spin_files`)."""
 

@@ -15,6 +15,7 @@ from ..equipment import TableSpec
 from ..errors import InputError
 from ..layout import Layout
 from ..physics.params import Physics
+from ..stroke import OLD_ROLL_WORDS
 
 if TYPE_CHECKING:
     from ..physics.simulator import Outcome, Simulator
@@ -55,7 +56,7 @@ STUDY_TIPS: dict[str, str] = {"stun": "stun", "follow": "follow", "draw": "draw"
 """Tip words of the window study and the search's tip choice each stands for
 (``follow`` is natural roll from the start, as the search's ``follow``)."""
 
-OLD_SPIN_WORDS: dict[str, str] = {"rolling": "follow"}
+OLD_SPIN_WORDS: dict[str, str] = OLD_ROLL_WORDS
 """Spin words of the version before and the word that replaces each: one
 word for natural roll across commands and files (``follow``, the trade's
 stun/follow/draw). Still read for one version."""
