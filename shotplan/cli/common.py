@@ -14,6 +14,7 @@ from typing import TYPE_CHECKING
 
 from ..errors import InputError, show_path
 from ..files.jsonout import emit as emit_json
+from ..render import FIGURE_SUFFIXES
 
 if TYPE_CHECKING:
     from ..equipment import TableSpec
@@ -37,10 +38,6 @@ EXIT_OK = 0
 
 EXIT_ERROR = 2
 """Exit code for every fault the user can cause (bad input, usage)."""
-
-FIGURE_SUFFIXES: tuple[str, ...] = (".png", ".svg", ".pdf")
-"""File types every drawing and chart is written as, by suffix (``draw``,
-``position -o``, ``study -o``, ``cushion fit --plot``, ``cushion report -o``)."""
 
 
 def error_line(message: str) -> None:

@@ -13,3 +13,10 @@ same shapes with pygame.
 """
 
 from __future__ import annotations
+
+__all__ = ["FIGURE_SUFFIXES"]
+
+FIGURE_SUFFIXES: tuple[str, ...] = (".png", ".svg", ".pdf")
+"""The picture files shotplan writes, by suffix. Kept here, where importing
+it loads no drawing library, so the command line and the view can check an
+output name before anything is drawn."""

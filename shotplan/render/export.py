@@ -46,6 +46,7 @@ from matplotlib.textpath import TextToPath
 
 from ..errors import InputError
 from ..files.write import atomic_write_bytes, check_output_path
+from . import FIGURE_SUFFIXES
 from .palette import INK, PAPER
 from .scene import (
     ANCHORS,
@@ -78,7 +79,7 @@ __all__ = [
     "MAX_PIXELS",
 ]
 
-FORMATS: dict[str, str] = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
+FORMATS: dict[str, str] = {suffix: suffix[1:] for suffix in FIGURE_SUFFIXES}
 """File suffixes :func:`write_scene` accepts, with the matplotlib format of each."""
 
 DEFAULT_WIDTH_IN = 10.0

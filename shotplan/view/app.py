@@ -36,6 +36,7 @@ from ..errors import ShotplanError
 from ..files.write import atomic_path, check_output_path
 from ..layout import Layout, load_layout, save_layout
 from ..racks import new_layout
+from ..render import FIGURE_SUFFIXES
 from ..render.overlays import shot_scene
 from ..render.scene import Scene, Shape
 from ..render.table_shapes import layout_scene, table_scene
@@ -64,7 +65,6 @@ DEFAULT_SIZE = (1280, 800)
 AUTOSAVE_DELAY_S = 0.5
 """The recovery file is written this long after the last edit (view time, s)."""
 
-DIAGRAM_SUFFIXES = (".png", ".svg", ".pdf")
 """What Export writes."""
 
 class UsualPlace:
@@ -341,7 +341,7 @@ class App:
             Whether it worked (a failure is shown in a message box).
         """
         try:
-            out = check_output_path(path, DIAGRAM_SUFFIXES)
+            out = check_output_path(path, FIGURE_SUFFIXES)
             from ..render.export import write_scene
 
             layout = self.state.layout_to_save()
@@ -375,7 +375,7 @@ class App:
                   "export": "Export the view (.png, .svg or .pdf)"}
         initial = {"open": str(here), "save-as": str(here / f"{stem}.json"),
                    "export": str(here / f"{stem}.png")}[purpose]
-        suffixes = {".json"} if purpose != "export" else set(DIAGRAM_SUFFIXES)
+        suffixes = {".json"} if purpose != "export" else set(FIGURE_SUFFIXES)
         w, h = min(640, self.size[0] - 40), min(480, self.size[1] - 40)
         rect = pygame.Rect((self.size[0] - w) // 2, (self.size[1] - h) // 2, w, h)
         self._dialogs = {d: p for d, p in self._dialogs.items() if d.alive()}
