@@ -95,6 +95,15 @@ def test_layout_commands(layout: Path, capsys, tmp_path):
             code, out, _ = run(capsys, "position", name, "--ball", s["balls"][0], "--pocket",
                                s["pocket"], "--speeds=2", "--heights=0", "--sides=0")
             assert code == 0
+    # The atlas on a coarse grid, in this process (a cluster is tested in test_atlas.py).
+    balls = [b for b in json.loads(layout.read_text())["balls"] if b != "cue"]
+    if balls:
+        coarse = ("--grid", "0.35", "--kinds", "direct", "--workers", "0")
+        doc = run_json(capsys, "atlas", name, "--ball", balls[0], *coarse)
+        assert doc["summary"]["open_cells"] > 0
+        code, out, _ = run(capsys, "atlas", name, "--ball", balls[0], *coarse,
+                           "-o", str(tmp_path / "a.png"), "--csv", str(tmp_path / "a.csv"))
+        assert code == 0 and (tmp_path / "a.png").exists() and (tmp_path / "a.csv").exists()
 
 
 @pytest.mark.parametrize("drill", DRILLS, ids=lambda p: p.stem)
@@ -189,3 +198,9 @@ def test_random_layouts_every_command(doc: dict, capsys, tmp_path_factory):
                          "--top", "2", "--explain")
     assert code == 0, err
     strict(out)
+    balls = [b for b in doc["balls"] if b != "cue"]
+    if balls:
+        code, out, err = run(capsys, "atlas", str(path), "--ball", balls[-1], "--grid", "0.45",
+                             "--kinds", "direct", "--workers", "0", "--json")
+        assert code == 0, err
+        strict(out)

@@ -29,7 +29,7 @@ LAYERS: list[set[str]] = [
     {"physics"},
     {"layout"},
     {"search", "racks"},
-    {"study", "cushion", "position"},
+    {"study", "cushion", "position", "atlas"},
     {"drills"},
     {"render"},
     {"cli", "view"},

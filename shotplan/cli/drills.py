@@ -24,8 +24,8 @@ if TYPE_CHECKING:
     from ..drills import DrillResult
     from ..players import PlayerErrors
 
-__all__ = ["add_subcommands", "run_drill_command", "player_errors", "drill_lines",
-           "MAX_TOTAL_TRIALS"]
+__all__ = ["add_subcommands", "run_drill_command", "player_errors", "add_error_options",
+           "drill_lines", "MAX_TOTAL_TRIALS"]
 
 MAX_TOTAL_TRIALS = 10_000_000
 """Most simulated trials one ``drill`` run plays, over all stations and levels.
@@ -41,7 +41,7 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
     sub : argparse._SubParsersAction
         The ``shotplan`` command's subparsers.
     """
-    from ..players import DEFAULT_LEVEL, LEVELS
+    from ..players import LEVELS
 
     levels = "; ".join(f"{e.name}: aim {e.aim_sd_deg:g} deg, speed {e.speed_sd_pct:g} %, "
                        f"tip {e.tip_sd:g} R" for e in LEVELS.values())
@@ -55,12 +55,7 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
                     f"Levels (our own numbers): {levels}. Custom numbers replace the level; "
                     "those not given are 0.")
     p.add_argument("drill", metavar="DRILL", help="drill file (.json)")
-    p.add_argument("--level", metavar="NAME",
-                   help=f"player level: {', '.join(LEVELS)} (default {DEFAULT_LEVEL})")
-    p.add_argument("--aim-sd", type=float, metavar="DEG", help="aim error, degrees (sd)")
-    p.add_argument("--speed-sd", type=float, metavar="PCT", help="speed error, %% (sd)")
-    p.add_argument("--tip-sd", type=float, metavar="F",
-                   help="tip error, ball radii, in side and height each (sd)")
+    add_error_options(p)
     p.add_argument("--trials", type=int_in(1, 1_000_000), default=10000, metavar="N",
                    help="trials per station (default 10000)")
     p.add_argument("--seed", type=int_in(0, 2**63 - 1), default=1, metavar="S",
@@ -73,6 +68,25 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
                    help="pixels per inch of the PNGs (default 150)")
     p.add_argument("--json", action="store_true", help="print JSON")
     p.set_defaults(run=run_drill_command)
+
+
+def add_error_options(p: argparse.ArgumentParser) -> None:
+    """Add the player's errors: ``--level`` or ``--aim-sd``, ``--speed-sd``, ``--tip-sd``
+    (read back by :func:`player_errors`).
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    """
+    from ..players import DEFAULT_LEVEL, LEVELS
+
+    p.add_argument("--level", metavar="NAME",
+                   help=f"player level: {', '.join(LEVELS)} (default {DEFAULT_LEVEL})")
+    p.add_argument("--aim-sd", type=float, metavar="DEG", help="aim error, degrees (sd)")
+    p.add_argument("--speed-sd", type=float, metavar="PCT", help="speed error, %% (sd)")
+    p.add_argument("--tip-sd", type=float, metavar="F",
+                   help="tip error, ball radii, in side and height each (sd)")
 
 
 def player_errors(args: argparse.Namespace) -> PlayerErrors:

@@ -33,6 +33,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "shotplan.cli.plan",
     "shotplan.view.command",
     "shotplan.cli.position",
+    "shotplan.cli.atlas",
     "shotplan.cli.drills",
     "shotplan.cli.cushion",
     "shotplan.cli.study",

@@ -19,7 +19,7 @@ if TYPE_CHECKING:
     from ..layout import Layout
     from ..search import SearchResult, Shot
 
-__all__ = ["add_subcommands", "add_search_options", "run_search", "run_plan", "shot_rows",
+__all__ = ["add_subcommands", "add_search_options", "add_shot_options", "run_search", "run_plan", "shot_rows",
            "SHOT_COLUMNS"]
 
 
@@ -54,15 +54,7 @@ def add_search_options(p: argparse.ArgumentParser) -> None:
     """
     p.add_argument("--ball", action="append", metavar="ID",
                    help="object ball to try (repeat for several; default: all)")
-    p.add_argument("--pocket", action="append", metavar="NAME",
-                   help="pocket to try (repeat for several; default: all)")
-    p.add_argument("--kinds", default="direct,bank,kick,combination", metavar="LIST",
-                   help="kinds of shot, comma-separated (default: all: "
-                        "direct,bank,kick,combination)")
-    p.add_argument("--speed", type=float, metavar="MPS",
-                   help="cue-ball launch speed for every shot (default: a sensible pace per shot)")
-    p.add_argument("--tip", default="stun", metavar="CHOICE",
-                   help="stun, follow, draw or centre (default: stun)")
+    add_shot_options(p)
     p.add_argument("--side", type=float, default=0.0, metavar="F",
                    help="side offset in ball radii, + is right english (default 0)")
     p.add_argument("--elevation", type=float, default=0.0, metavar="DEG",
@@ -73,6 +65,26 @@ def add_search_options(p: argparse.ArgumentParser) -> None:
                    help="player level whose tip error sets how far from the miscue limit the "
                         "chosen stun and draw heights stay: starter, club, strong or elite "
                         "(default club)")
+
+
+def add_shot_options(p: argparse.ArgumentParser) -> None:
+    """Add ``--pocket``, ``--kinds``, ``--speed`` and ``--tip``: which shots the
+    search tries and how they are played (``plan``, ``draw --shot``, ``atlas``).
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    """
+    p.add_argument("--pocket", action="append", metavar="NAME",
+                   help="pocket to try (repeat for several; default: all)")
+    p.add_argument("--kinds", default="direct,bank,kick,combination", metavar="LIST",
+                   help="kinds of shot, comma-separated (default: all: "
+                        "direct,bank,kick,combination)")
+    p.add_argument("--speed", type=float, metavar="MPS",
+                   help="cue-ball launch speed for every shot (default: a sensible pace per shot)")
+    p.add_argument("--tip", default="stun", metavar="CHOICE",
+                   help="stun, follow, draw or centre (default: stun)")
 
 
 def run_search(args: argparse.Namespace, layout: Layout) -> SearchResult:

@@ -1,0 +1,209 @@
+"""The shot atlas: grid, per-cell best shot, Dask runs, resume, the command.
+
+Outside references: scipy's normal distribution for the success rate; the
+engine itself (through ``simulate``, not the search) for every cell's shot;
+hand-worked grid sizes and areas.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from pathlib import Path
+
+import numpy as np
+import pytest
+from scipy.stats import norm
+
+from shotplan.atlas import (
+    BLOCK_CELLS,
+    AtlasInterrupted,
+    AtlasJob,
+    aim_rate,
+    make_grid,
+    run_atlas,
+)
+from shotplan.atlas import run as atlas_run
+from shotplan.cli import main
+from shotplan.errors import InputError
+from shotplan.layout import load_layout
+from shotplan.physics import simulate
+from shotplan.stroke import Stroke
+
+ROOT = Path(__file__).resolve().parents[1]
+CUT = ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json"
+
+
+@pytest.fixture(scope="module")
+def layout():
+    return load_layout(CUT)
+
+
+@pytest.fixture(scope="module")
+def coarse(layout):
+    """A coarse direct-only atlas of ball 2, computed in this process."""
+    return run_atlas(AtlasJob(layout, "2", cell_m=0.2, kinds=("direct",)), workers=0)
+
+
+@pytest.mark.parametrize("lo,hi,sd", [(-0.1, 0.2, 0.15), (-1.0, 1.0, 0.5), (0.05, 0.3, 0.1),
+                                      (-0.3, -0.01, 0.2), (-2.0, 3.0, 1.5)])
+def test_rate_is_the_normal_probability_of_the_window(lo, hi, sd):
+    # Source: scipy.stats.norm, an independent implementation of Phi.
+    assert aim_rate(lo, hi, sd) == pytest.approx(norm.cdf(hi / sd) - norm.cdf(lo / sd),
+                                                 abs=1e-12)
+
+
+def test_rate_without_aim_error_is_in_or_out():
+    # Hand-worked: with no error the aimed line itself decides.
+    assert aim_rate(-0.1, 0.1, 0.0) == 1.0
+    assert aim_rate(0.05, 0.1, 0.0) == 0.0
+
+
+def test_grid_size_and_centring_hand_worked(layout):
+    # The 9-ft table's bed is 2.54 m x 1.27 m (WPA equipment specifications,
+    # from memory; the preset's own numbers are read here): 0.1 m cells give
+    # floor(2.54 / 0.1) = 25 by floor(1.27 / 0.1) = 12, centred on the bed.
+    table = layout.geometry
+    g = make_grid(layout, 0.1)
+    assert g.shape == (math.floor(table.width / 0.1 + 1e-9), math.floor(table.length / 0.1 + 1e-9))
+    assert g.x[0] + g.x[-1] == pytest.approx(table.length)
+    assert g.y[0] + g.y[-1] == pytest.approx(table.width)
+    assert np.allclose(np.diff(g.x), 0.1) and np.allclose(np.diff(g.y), 0.1)
+
+
+def test_open_cells_are_where_a_ball_can_lie(layout):
+    # Away from the pockets (whose mouths let a ball past the nose lines), a
+    # ball's centre is at least one radius inside the nose lines; it is two
+    # radii from any other ball's centre (balls cannot overlap: geometry).
+    g = make_grid(layout, 0.02)
+    table = layout.geometry
+    R = table.ball_radius
+    xx, yy = np.meshgrid(g.x, g.y)
+    far = np.ones(g.open.shape, dtype=bool)
+    for pk in table.pockets:
+        far &= np.hypot(xx - pk.corner[0], yy - pk.corner[1]) > 0.25
+    px, py = xx[g.open & far], yy[g.open & far]
+    assert px.size > 1000
+    assert (px >= R - 1e-12).all() and (px <= table.length - R + 1e-12).all()
+    assert (py >= R - 1e-12).all() and (py <= table.width - R + 1e-12).all()
+    ox, oy = layout.position("2")
+    assert (np.hypot(px - ox, py - oy) >= 2 * R).all()
+    # ... and the cells just around the object ball are closed.
+    near = np.hypot(xx - ox, yy - oy) < 2 * R
+    assert near.any() and not g.open[near].any()
+
+
+def test_every_cell_shot_pockets_the_ball_in_the_engine(layout, coarse):
+    # Each cell's best shot, played again through simulate (the engine, not
+    # the search), pockets ball 2 in the pocket the atlas names.
+    g = coarse.grid
+    checked = 0
+    for r in range(g.shape[0]):
+        for c in range(g.shape[1]):
+            if not g.open[r, c] or coarse.maps["window_deg"][r, c] <= 0:
+                continue
+            m = {k: float(v[r, c]) for k, v in coarse.maps.items()}
+            here = layout.with_ball("cue", (float(g.x[c]), float(g.y[r])))
+            out = simulate(here, Stroke(m["direction_deg"], m["speed_mps"], m["side"],
+                                        m["height"]))
+            pocketed = {e.balls[0]: e.where for e in out.events if e.kind.word == "pocket"}
+            assert pocketed.get("2") == coarse.pocket[r, c]
+            checked += 1
+    assert checked >= 20
+
+
+def test_region_area_is_cells_times_cell_area(coarse):
+    # Hand-worked: the region is a union of whole, non-overlapping cells.
+    w = coarse.maps["window_deg"]
+    for minimum in (0.1, 0.3, 1.0):
+        n = int(np.sum(np.nan_to_num(w, nan=-1.0) >= minimum))
+        assert coarse.region("window_deg", minimum).area == pytest.approx(n * 0.2 ** 2)
+
+
+def test_blocks_do_not_depend_on_the_number_of_workers(layout):
+    # Dask's LocalCluster with two worker processes against this process:
+    # identical to the last bit (each cell is computed from its inputs alone).
+    job = AtlasJob(layout, "2", cell_m=0.3, kinds=("direct",))
+    here = run_atlas(job, workers=0)
+    there = run_atlas(job, workers=2)
+    assert there.workers == 2
+    for name, values in here.maps.items():
+        assert np.array_equal(values, there.maps[name], equal_nan=True), name
+    assert (here.pocket == there.pocket).all() and (here.kind == there.kind).all()
+
+
+def test_resume_keeps_finished_blocks_and_refuses_another_job(layout, tmp_path, monkeypatch):
+    job = AtlasJob(layout, "2", cell_m=0.1, kinds=("direct",))
+    n_blocks = job.grid.n_blocks
+    assert n_blocks >= 3 and BLOCK_CELLS == 64
+    real = atlas_run.compute_block
+    calls = []
+
+    def stop_at_third(j, b):
+        calls.append(b)
+        if len(calls) == 3:
+            raise KeyboardInterrupt
+        return real(j, b)
+
+    monkeypatch.setattr(atlas_run, "compute_block", stop_at_third)
+    with pytest.raises(AtlasInterrupted) as stop:
+        run_atlas(job, workers=0, resume=tmp_path / "keep")
+    assert stop.value.done == 2 and "--resume" in str(stop.value)
+    assert len(list((tmp_path / "keep").glob("block-*.json"))) == 2
+    monkeypatch.setattr(atlas_run, "compute_block", real)
+    resumed = run_atlas(job, workers=0, resume=tmp_path / "keep")
+    assert resumed.blocks_reused == 2
+    fresh = run_atlas(job, workers=0)
+    for name, values in fresh.maps.items():
+        assert np.array_equal(values, resumed.maps[name], equal_nan=True), name
+    other = AtlasJob(layout, "2", cell_m=0.1, kinds=("direct", "bank"))
+    with pytest.raises(InputError, match="holds another atlas"):
+        run_atlas(other, workers=0, resume=tmp_path / "keep")
+
+
+def _strict(text: str) -> object:
+    def refuse(name: str) -> None:
+        raise ValueError(name)
+
+    return json.loads(text, parse_constant=refuse)
+
+
+def test_command_json_is_strict_and_complete(capsys):
+    code = main(["atlas", str(CUT), "--ball", "2", "--grid", "0.3", "--kinds", "direct",
+                 "--workers", "0", "--json"])
+    out, err = capsys.readouterr()
+    assert code == 0, err
+    doc = _strict(out)
+    assert isinstance(doc, dict)
+    n = doc["nx"] * doc["ny"]
+    assert all(len(v) == n for v in doc["cells"].values())
+    assert doc["summary"]["open_cells"] == sum(doc["cells"]["open"])
+
+
+@pytest.mark.parametrize("argv,needle", [
+    (["--ball", "9"], "--ball"),
+    (["--ball", "cue"], "--ball"),
+    (["--ball", "2", "--grid", "0.001"], "--grid"),
+    (["--ball", "2", "--pocket", "nowhere"], "--pocket"),
+    (["--ball", "2", "--kinds", "massé"], "--kinds"),
+    (["--ball", "2", "--show", "rate", "--contours", "1.5"], "--contours"),
+    (["--ball", "2", "--contours", "-1"], "--contours"),
+    (["--ball", "2", "--level", "wizard"], "wizard"),
+])
+def test_bad_input_is_one_line_and_writes_nothing(argv, needle, capsys, tmp_path):
+    picture = tmp_path / "a.png"
+    code = main(["atlas", str(CUT), *argv, "--workers", "0", "-o", str(picture)])
+    out, err = capsys.readouterr()
+    assert code == 2 and out == ""
+    assert len(err.strip().splitlines()) == 1 and needle in err and "Traceback" not in err
+    assert not picture.exists()
+
+
+def test_resume_folder_that_is_a_file_is_one_line(capsys, tmp_path):
+    f = tmp_path / "not-a-folder"
+    f.write_text("mine\n")
+    code = main(["atlas", str(CUT), "--ball", "2", "--grid", "0.4", "--kinds", "direct",
+                 "--workers", "0", "--resume", str(f)])
+    _, err = capsys.readouterr()
+    assert code == 2 and "--resume" in err and len(err.strip().splitlines()) == 1
+    assert f.read_text() == "mine\n"
