@@ -25,10 +25,14 @@ $(TSTAMP): pyproject.toml | $(PY)
 	$(PY) -m pip install --quiet -e ".[test,dev]"
 	touch $(STAMP) $@
 
+# Compile the physics engine once in set-up (a second or so to load it after),
+# so that no command compiles; it prints a line while it runs.
 run: $(STAMP)
+	$(PY) -m shotplan.cli.engine
 	$(VENV)/bin/shotplan view $(DEMO)
 
 test: $(TSTAMP)
+	$(PY) -m shotplan.cli.engine
 	$(PY) -m pytest
 
 bench: $(STAMP)

@@ -25,19 +25,24 @@ from .options import ListHelpFormatter
 
 __all__ = ["main", "build_parser", "COMMAND_MODULES"]
 
-COMMAND_MODULES: tuple[str, ...] = (
-    "shotplan.cli.tables",
-    "shotplan.cli.check",
-    "shotplan.cli.draw",
-    "shotplan.cli.simulate",
-    "shotplan.cli.plan",
-    "shotplan.view.command",
-    "shotplan.cli.position",
-    "shotplan.cli.atlas",
-    "shotplan.cli.drills",
-    "shotplan.cli.cushion",
-    "shotplan.cli.study",
-)
+COMMANDS: dict[str, str] = {
+    "tables": "shotplan.cli.tables",
+    "check": "shotplan.cli.check",
+    "draw": "shotplan.cli.draw",
+    "simulate": "shotplan.cli.simulate",
+    "plan": "shotplan.cli.plan",
+    "view": "shotplan.view.command",
+    "position": "shotplan.cli.position",
+    "atlas": "shotplan.cli.atlas",
+    "drill": "shotplan.cli.drills",
+    "cushion": "shotplan.cli.cushion",
+    "study": "shotplan.cli.study",
+}
+"""Each command's name and the module that adds it, in the order ``--help``
+lists them. A command line naming one of them imports that module alone
+(start-up time: the other commands' libraries stay unloaded)."""
+
+COMMAND_MODULES: tuple[str, ...] = tuple(COMMANDS.values())
 """The modules that add the commands, in the order ``--help`` lists them.
 Each has ``add_subcommands(sub)``; a module whose capability is not
 installed in this tree (the table view without pygame) is left out."""
@@ -65,10 +70,11 @@ def _os_message(error: OSError) -> str:
     return f"{where}: {what}" if where else what
 
 
-def _add_module_commands(sub: argparse._SubParsersAction) -> None:
+def _add_module_commands(sub: argparse._SubParsersAction,
+                         modules: Sequence[str] = COMMAND_MODULES) -> None:
     import importlib
 
-    for name in COMMAND_MODULES:
+    for name in modules:
         try:
             module = importlib.import_module(name)
         except ModuleNotFoundError as e:
@@ -88,8 +94,16 @@ def _version() -> str:
         return "0+unknown"
 
 
-def build_parser() -> argparse.ArgumentParser:
-    """The ``shotplan`` argument parser with every command.
+def build_parser(command: str | None = None) -> argparse.ArgumentParser:
+    """The ``shotplan`` argument parser with every command, or with one.
+
+    Parameters
+    ----------
+    command : str, optional
+        A name in :data:`COMMANDS`: only that command's module is imported
+        and added (what :func:`main` does for a command line that names
+        one). By default, or for a name not in :data:`COMMANDS`, or when
+        that command is not installed, every command.
 
     Returns
     -------
@@ -102,7 +116,12 @@ def build_parser() -> argparse.ArgumentParser:
     )
     parser.add_argument("--version", action="version", version=f"shotplan {_version()}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    _add_module_commands(sub)
+    if command in COMMANDS:
+        _add_module_commands(sub, (COMMANDS[command],))
+        if command not in sub.choices:  # not installed here: the full list for the error
+            return build_parser()
+    else:
+        _add_module_commands(sub)
     _add_force_options(parser)
     return parser
 
@@ -144,9 +163,11 @@ def main(argv: Sequence[str] | None = None) -> int:
         The exit code: 0 done, 2 bad input or usage, 1 an internal error or
         a reader that went away, 128 + N after signal N.
     """
-    parser = build_parser()
+    _one_blas_thread()
+    words = list(sys.argv[1:] if argv is None else argv)
+    parser = build_parser(words[0] if words else None)
     try:
-        args = _parse(parser, argv)
+        args = _parse(parser, words)
     except UsageError as e:
         error_line(str(e))
         return EXIT_ERROR
@@ -177,6 +198,20 @@ def main(argv: Sequence[str] | None = None) -> int:
         error_line(f"internal error: a non-finite number in the JSON output ({e}); "
                    "please report this with the command line")
         return 1
+
+
+def _one_blas_thread() -> None:
+    """Ask numpy's BLAS for one thread, unless the user chose a number.
+
+    OpenBLAS starts a thread per core when numpy loads, and those threads
+    cost about 0.1 s of CPU at every start; shotplan's linear algebra is a
+    few small matrices, and its parallel work is in processes
+    (:mod:`shotplan.parallel`), which would only oversubscribe the cores.
+    Must run before numpy is imported; a no-op after.
+    """
+    import os
+
+    os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
 
 def _silence_stdout() -> None:

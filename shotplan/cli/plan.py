@@ -167,8 +167,11 @@ def run_plan(args: argparse.Namespace) -> int:
     int
         The exit code.
     """
+    from .engine import engine_ready
+
     layout = load_layout(args.layout)
     require_playable(layout, args.layout)
+    loading = engine_ready(layout)
     result = run_search(args, layout)
     shots = result.shots[: args.top] if args.top else result.shots
     if args.json:
@@ -178,7 +181,8 @@ def run_plan(args: argparse.Namespace) -> int:
         emit_json(doc)
         return EXIT_OK
     print(f"{args.layout}: {plural(len(result.shots), 'shot')} "
-          f"found ({result.simulations} simulations, {result.seconds * 1000:.0f} ms)")
+          f"found ({result.simulations} simulations, {result.seconds * 1000:.0f} ms; "
+          f"engine loaded in {loading * 1000:.0f} ms)")
     if shots:
         rows = shot_rows(list(shots), layout.table.length_m, layout.table.width_m)
         for line in format_table(SHOT_COLUMNS, rows):

@@ -19,11 +19,12 @@ from __future__ import annotations
 
 import hashlib
 import os
+import sys
 from collections.abc import Callable
 from pathlib import Path
-from typing import Any, TypeAlias
+from typing import Any, TypeAlias, cast
 
-__all__ = ["jit", "JIT_ENABLED", "Kernel", "cache_dir"]
+__all__ = ["jit", "JIT_ENABLED", "Kernel", "cache_dir", "on_first_compile"]
 
 Kernel: TypeAlias = Callable[..., Any]
 """The type of a kernel as the rest of the code sees it. numba infers a
@@ -54,13 +55,72 @@ def cache_dir() -> Path:
     return base / "shotplan" / "numba" / digest.hexdigest()[:16]
 
 
+
+def _import_numba_without_blas() -> None:
+    """Import numba and its numpy support with SciPy's BLAS kept out.
+
+    ``numba.np.arraymath`` imports ``scipy.linalg`` (about 0.2 s of CPU)
+    only to learn whether ``np.dot`` and friends may call BLAS; no shotplan
+    kernel uses them (their loops are written out), and without BLAS numba
+    falls back to its own loops anyway. So while that module loads,
+    ``scipy`` and ``scipy.linalg`` are marked absent, unless a command has
+    loaded them already; afterwards they import as usual.
+    """
+    hidden = [name for name in ("scipy", "scipy.linalg") if name not in sys.modules]
+    for name in hidden:
+        sys.modules[name] = None  # type: ignore[assignment]
+    try:
+        import numba
+        import numba.np.arraymath  # noqa: F401 - loaded here, without SciPy
+    finally:
+        for name in hidden:
+            if sys.modules.get(name, 0) is None:
+                del sys.modules[name]
+
+
 if JIT_ENABLED:
     try:
+        _import_numba_without_blas()
         import numba
     except ImportError:  # pragma: no cover - numba is a dependency
         JIT_ENABLED = False
 
+_notice: list[Callable[[], None]] = []
+"""The callback :func:`on_first_compile` set, called once (then emptied)."""
+
+
+def on_first_compile(notice: Callable[[], None]) -> None:
+    """Call ``notice()`` once, when numba starts compiling a kernel.
+
+    Loading machine code from the cache calls nothing; a compile (the first
+    use after an install that skipped the set-up, or after the physics
+    changed) calls ``notice`` before it starts, so that a command can say
+    why it is slow. Without numba this does nothing.
+
+    Parameters
+    ----------
+    notice : callable
+        Called with no arguments, at most once.
+    """
+    _notice[:] = [notice]
+
+
 if JIT_ENABLED:
+    from numba.core import event as _event
+
+    class _CompileListener(_event.Listener):
+        """Hands numba's first "compile started" event to :func:`on_first_compile`'s callback."""
+
+        def on_start(self, event: Any) -> None:
+            if _notice:
+                _notice.pop()()
+
+        def on_end(self, event: Any) -> None:
+            pass
+
+    _register = cast(Callable[[str, _event.Listener], None], _event.register)
+    _register("numba:compile", _CompileListener())
+
     if not os.environ.get("NUMBA_CACHE_DIR"):
         try:
             _dir = cache_dir()
@@ -68,6 +128,28 @@ if JIT_ENABLED:
             numba.config.CACHE_DIR = str(_dir)  # type: ignore[attr-defined]
         except OSError:  # pragma: no cover - no writable home: numba's default
             pass
+
+    from numba.core import types as _types
+    from numba.core.registry import CPUDispatcher
+
+    _unliteral: Callable[[Any], Any] = _types.unliteral
+
+    class _OneSignature(CPUDispatcher):
+        """A dispatcher that types a constant argument as its plain type.
+
+        numba compiles a kernel called from another kernel once for every
+        literal value it is handed (``state_at(-1, ...)`` and
+        ``state_at(i, ...)`` were two machine codes; the root finders three,
+        for degrees 2, 4 and any). Typing constants as plain ``int64`` or
+        ``float64`` compiles each kernel once per argument *types*: about
+        half the first-use compile time, the same operations in the same
+        order, so the same numbers.
+        """
+
+        def get_call_template(self, args: Any, kws: Any) -> Any:
+            args = tuple(_unliteral(a) for a in args)
+            kws = {k: _unliteral(v) for k, v in kws.items()}
+            return super().get_call_template(args, kws)
 
     def jit(func: Callable[..., Any]) -> Kernel:
         """Compile ``func`` with numba (no Python mode, cached on disk).
@@ -80,10 +162,13 @@ if JIT_ENABLED:
         Returns
         -------
         Kernel
-            The compiled dispatcher (compiles on its first call).
+            The compiled dispatcher (compiles on its first call, once per
+            argument types).
         """
-        kernel: Kernel = numba.njit(cache=True, nogil=True)(func)
-        return kernel
+        kernel = _OneSignature(py_func=func, locals={},
+                               targetoptions={"nopython": True, "nogil": True})
+        kernel.enable_caching()
+        return cast(Kernel, kernel)
 
 else:
 
