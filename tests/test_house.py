@@ -23,7 +23,7 @@ PKG = ROOT / "shotplan"
 
 LAYERS: list[set[str]] = [
     {"errors", "units"},
-    {"files", "equipment", "players"},
+    {"files", "equipment", "players", "parallel"},
     {"table", "tablefile"},
     {"stroke", "aim", "placement"},
     {"physics"},

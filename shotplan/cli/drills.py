@@ -60,6 +60,9 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
                    help="trials per station (default 10000)")
     p.add_argument("--seed", type=int_in(0, 2**63 - 1), default=1, metavar="S",
                    help="random seed: the same seed gives the same numbers (default 1)")
+    p.add_argument("--workers", type=int_in(0, 256), metavar="N",
+                   help="worker processes for the trials (default: one per core; 0: in this "
+                        "process); the numbers do not depend on it")
     p.add_argument("-o", "--output", metavar="FILE",
                    help="write the drill sheet (.pdf, a page per station with the rates of "
                         "the starter, club and strong levels) and a folder NAME-stations/ "
@@ -152,7 +155,7 @@ def run_drill_command(args: argparse.Namespace) -> int:
                          "give fewer --trials")
     with progress_bar("drill") as bar:
         result = run_drill(drill, errors, args.trials, args.seed, progress=bar,
-                           source=args.drill, compare=compare)
+                           source=args.drill, compare=compare, workers=args.workers)
     written = write_sheet(result, out, dpi=args.dpi) if out is not None else []
     if args.json:
         doc = result.to_dict()

@@ -37,7 +37,10 @@ tip-safety rule the planner follows (:func:`shotplan.players.tip_room`).
 *Success rates* (:func:`simulate_station`) come from Monte Carlo: each trial
 draws four standard normals (aim, speed, side, height) from a seeded
 :class:`numpy.random.Generator`, scales them by the level's numbers and plays
-the stroke in the engine. The same seed gives the same numbers; because the
+the stroke in the engine. The trials are played in blocks of
+:data:`BLOCK_TRIALS` on every core (:mod:`shotplan.parallel`); the draws are
+made first, in one piece, so the same seed gives the same numbers whatever
+the number of workers; because the
 draws do not depend on the level, two levels run with one seed see the same
 luck, scaled (common random numbers), which makes comparisons between levels
 sharp. A trial
@@ -70,6 +73,7 @@ from .drill_file import (
     save_drill,
 )
 from .rates import (
+    BLOCK_TRIALS,
     SHEET_LEVELS,
     Z95,
     DrillResult,
@@ -90,6 +94,7 @@ __all__ = [
     "LEVELS",
     "DEFAULT_LEVEL",
     "SHEET_LEVELS",
+    "BLOCK_TRIALS",
     "DEFAULT_ATTEMPTS",
     "Z95",
     "Station",

@@ -13,6 +13,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from ..errors import InputError
+from ..parallel import map_blocks, split
 from ..players import (
     DEFAULT_LEVEL,
     LEVELS,
@@ -28,12 +29,14 @@ from ..study import Progress
 from .drill_file import Drill, Station
 
 if TYPE_CHECKING:
+    from ..layout import Layout
     from ..physics import Outcome, Physics
     from ..position import ZoneSetting
     from ..search import Shot
 
 __all__ = [
     "SHEET_LEVELS",
+    "BLOCK_TRIALS",
     "Z95",
     "Rate",
     "StationPlan",
@@ -292,7 +295,8 @@ class StationResult:
     finishes: np.ndarray = field(repr=False)
     """(trials, 2) cue-ball finishes, NaN after a miscue or a scratch."""
     seconds: float = 0.0
-    """Wall time of the trials."""
+    """Wall time of the trials (from :func:`run_drill`, whose stations and levels
+    run together, an equal share of the whole)."""
 
     @property
     def trials(self) -> int:
@@ -352,9 +356,110 @@ class StationResult:
         }
 
 
+BLOCK_TRIALS = 1000
+"""Trials per block of work handed to a worker process. Fixed: the blocks,
+like the random draws, never depend on how many workers play them."""
+
+
+@dataclass(frozen=True, slots=True)
+class _Block:
+    """Some trials of one station, drawn: what a worker plays."""
+
+    station: int
+    """Index into the shared stations (:func:`_play_block`)."""
+    aims: np.ndarray
+    speeds: np.ndarray
+    sides: np.ndarray
+    heights: np.ndarray
+    miscue: np.ndarray
+    """True where the tip landed beyond the miscue limit: not played."""
+
+
+_StationPlay = tuple["Layout", str, str, "Physics", str, float]
+"""What a worker needs of a station: layout, ball, pocket, physics, first
+ball, cue elevation (degrees)."""
+
+
+def _play_block(stations: Sequence[_StationPlay], block: _Block
+                ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Play one block's trials: (pocketed, scratched, cue-ball finishes)."""
+    lay, ball, pocket, physics, first, elev = stations[block.station]
+    play = PotPlayer(lay, ball, pocket, physics, first=first).play
+    n = len(block.aims)
+    potted = np.zeros(n, dtype=bool)
+    scratch = np.zeros(n, dtype=bool)
+    finishes = np.full((n, 2), np.nan)
+    for i in range(n):
+        if block.miscue[i]:
+            continue
+        result, fin = play(float(block.aims[i]), float(block.speeds[i]), float(block.sides[i]),
+                           float(block.heights[i]), elev)
+        if result == "pocketed":
+            potted[i] = True
+        elif result == "scratch" or fin is None:
+            scratch[i] = True
+        if fin is not None:
+            finishes[i] = fin
+    return potted, scratch, finishes
+
+
+def _check_trials(trials: object, seed: object) -> None:
+    if isinstance(trials, bool) or not isinstance(trials, int) or not 1 <= trials <= 10_000_000:
+        raise InputError(f"trials {trials!r} must be a whole number from 1 to 10000000")
+    if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
+        raise InputError(f"seed {seed!r} must be a whole number, 0 or more")
+
+
+def _draw_blocks(plan: StationPlan, errors: PlayerErrors, trials: int, seed: int, index: int,
+                 key: int) -> list[_Block]:
+    """Every trial's errors, drawn here in one piece from
+    ``default_rng([seed, index])`` and cut into blocks of
+    :data:`BLOCK_TRIALS`: the same numbers however the blocks are played."""
+    st = plan.station
+    limit = PotPlayer(st.layout, st.ball, st.pocket, plan.physics, first=plan.first).limit
+    rng = np.random.default_rng([seed, index])
+    z = rng.standard_normal((trials, 4))
+    s = plan.stroke
+    aims = s.direction_deg + errors.aim_sd_deg * z[:, 0]
+    speeds = np.clip(s.speed_mps * (1.0 + errors.speed_sd_pct / 100.0 * z[:, 1]),
+                     _MIN_SPEED, _MAX_SPEED)
+    sides = s.side + errors.tip_sd * z[:, 2]
+    heights = s.height + errors.tip_sd * z[:, 3]
+    miscue = np.hypot(sides, heights) > limit + 1e-12
+    return [_Block(key, aims[a:b], speeds[a:b], sides[a:b], heights[a:b], miscue[a:b])
+            for a, b in split(trials, BLOCK_TRIALS)]
+
+
+def _station_play(plan: StationPlan) -> _StationPlay:
+    st = plan.station
+    return (st.layout, st.ball, st.pocket, plan.physics, plan.first, plan.stroke.elevation_deg)
+
+
+def _station_result(plan: StationPlan, errors: PlayerErrors, seed: int, blocks: list[_Block],
+                    played: list[tuple[np.ndarray, np.ndarray, np.ndarray]],
+                    seconds: float) -> StationResult:
+    st = plan.station
+    miscue = np.concatenate([b.miscue for b in blocks])
+    potted = np.concatenate([p[0] for p in played])
+    scratch = np.concatenate([p[1] for p in played])
+    finishes = np.concatenate([p[2] for p in played])
+    trials = len(miscue)
+    up = ~miscue & ~scratch
+    if st.zone is not None:
+        safe = np.where(up[:, None], finishes, 0.0)
+        position = up & st.zone.contains(safe)
+    else:
+        position = up
+    both = potted & position
+    return StationResult(plan, errors, seed, Rate(int(potted.sum()), trials),
+                         Rate(int(position.sum()), trials), Rate(int(both.sum()), trials),
+                         int(miscue.sum()), int(scratch.sum()), finishes, seconds)
+
+
 def simulate_station(plan: StationPlan, errors: PlayerErrors, trials: int = 10000,
                      seed: int = 1, index: int = 0,
-                     progress: Progress | None = None) -> StationResult:
+                     progress: Progress | None = None,
+                     workers: int | None = None) -> StationResult:
     """Monte Carlo success rates of a planned station.
 
     Parameters
@@ -367,10 +472,14 @@ def simulate_station(plan: StationPlan, errors: PlayerErrors, trials: int = 1000
         Trials to run (at least 1).
     seed, index
         The generator is ``numpy.random.default_rng([seed, index])``: the
-        same seed and station index give the same numbers.
+        same seed and station index give the same numbers, whatever the
+        number of workers.
     progress
         Called as ``progress(done, trials)`` with the trials played so far,
-        about every 1 %, and once at the end.
+        0 first, then as each block of :data:`BLOCK_TRIALS` ends.
+    workers
+        Worker processes (:func:`shotplan.parallel.map_blocks`): ``0`` in
+        this process, by default one per core.
 
     Returns
     -------
@@ -383,55 +492,12 @@ def simulate_station(plan: StationPlan, errors: PlayerErrors, trials: int = 1000
     InputError
         ``trials`` or ``seed`` is not a whole number in range.
     """
-    if isinstance(trials, bool) or not isinstance(trials, int) or not 1 <= trials <= 10_000_000:
-        raise InputError(f"trials {trials!r} must be a whole number from 1 to 10000000")
-    if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
-        raise InputError(f"seed {seed!r} must be a whole number, 0 or more")
+    _check_trials(trials, seed)
     t0 = time.perf_counter()
-    st = plan.station
-    lay = st.layout
-    player = PotPlayer(lay, st.ball, st.pocket, plan.physics, first=plan.first)
-    rng = np.random.default_rng([seed, index])
-    z = rng.standard_normal((trials, 4))
-    s = plan.stroke
-    aims = s.direction_deg + errors.aim_sd_deg * z[:, 0]
-    speeds = np.clip(s.speed_mps * (1.0 + errors.speed_sd_pct / 100.0 * z[:, 1]),
-                     _MIN_SPEED, _MAX_SPEED)
-    sides = s.side + errors.tip_sd * z[:, 2]
-    heights = s.height + errors.tip_sd * z[:, 3]
-    miscue = np.hypot(sides, heights) > player.limit + 1e-12
-    potted = np.zeros(trials, dtype=bool)
-    scratch = np.zeros(trials, dtype=bool)
-    finishes = np.full((trials, 2), np.nan)
-    step = max(trials // 100, 1)
-    elev = s.elevation_deg
-    play = player.play
-    for i in range(trials):
-        if progress is not None and i % step == 0:
-            progress(i, trials)
-        if miscue[i]:
-            continue
-        result, fin = play(float(aims[i]), float(speeds[i]), float(sides[i]),
-                           float(heights[i]), elev)
-        if result == "pocketed":
-            potted[i] = True
-        elif result == "scratch" or fin is None:
-            scratch[i] = True
-        if fin is not None:
-            finishes[i] = fin
-    if progress is not None:
-        progress(trials, trials)
-    up = ~miscue & ~scratch
-    if st.zone is not None:
-        safe = np.where(up[:, None], finishes, 0.0)
-        position = up & st.zone.contains(safe)
-    else:
-        position = up
-    both = potted & position
-    return StationResult(plan, errors, seed, Rate(int(potted.sum()), trials),
-                         Rate(int(position.sum()), trials), Rate(int(both.sum()), trials),
-                         int(miscue.sum()), int(scratch.sum()), finishes,
-                         time.perf_counter() - t0)
+    blocks = _draw_blocks(plan, errors, trials, seed, index, 0)
+    played = map_blocks(_play_block, blocks, (_station_play(plan),), workers=workers,
+                        sizes=[len(b.aims) for b in blocks], progress=progress)
+    return _station_result(plan, errors, seed, blocks, played, time.perf_counter() - t0)
 
 
 @dataclass(frozen=True, eq=False)
@@ -493,7 +559,7 @@ class DrillResult:
 
 def run_drill(drill: Drill, errors: PlayerErrors, trials: int = 10000, seed: int = 1,
               progress: Progress | None = None, source: str = "",
-              compare: Sequence[PlayerErrors] = ()) -> DrillResult:
+              compare: Sequence[PlayerErrors] = (), workers: int | None = None) -> DrillResult:
     """Plan every station, then run its Monte Carlo trials.
 
     Parameters
@@ -515,6 +581,10 @@ def run_drill(drill: Drill, errors: PlayerErrors, trials: int = 10000, seed: int
     compare
         Other levels (``errors`` itself is skipped), run on the same plans
         with the same seed (common random numbers), for the sheet.
+    workers
+        Worker processes for the trials of every station and level at once
+        (:func:`shotplan.parallel.map_blocks`): ``0`` in this process, by
+        default one per core. The numbers do not depend on it.
 
     Returns
     -------
@@ -522,28 +592,32 @@ def run_drill(drill: Drill, errors: PlayerErrors, trials: int = 10000, seed: int
         One :class:`StationResult` per station for ``errors``, and the
         compared levels' in :attr:`DrillResult.compared`.
     """
+    _check_trials(trials, seed)
     others = [e for e in compare if e != errors]
-    total = trials * len(drill.stations) * (1 + len(others))
+    levels = [errors, *others]
+    total = trials * len(drill.stations) * len(levels)
     if progress is not None:
         progress(0, total)
     plans = [plan_station(st, errors=errors) for st in drill.stations]
-    done = 0
-
-    def play(e: PlayerErrors) -> tuple[StationResult, ...]:
-        nonlocal done
-        results = []
-        for k, plan in enumerate(plans):
-            tick: Progress | None = None
-            if progress is not None:
-                def tick(i: int, _n: int, before: int = done) -> None:
-                    progress(before + i, total)
-
-            results.append(simulate_station(plan, e, trials, seed, k, tick))
-            done += trials
-        return tuple(results)
-
-    own = play(errors)
-    compared = tuple((e, play(e)) for e in others)
+    t0 = time.perf_counter()
+    drawn = [[_draw_blocks(plan, e, trials, seed, k, k) for k, plan in enumerate(plans)]
+             for e in levels]
+    blocks = [b for per_level in drawn for per_station in per_level for b in per_station]
+    played = map_blocks(_play_block, blocks, tuple(_station_play(p) for p in plans),
+                        workers=workers, sizes=[len(b.aims) for b in blocks],
+                        progress=progress)
+    seconds = (time.perf_counter() - t0) / (len(plans) * len(levels))
+    results: list[tuple[StationResult, ...]] = []
+    at = 0
+    for e, per_level in zip(levels, drawn, strict=True):
+        row = []
+        for plan, station_blocks in zip(plans, per_level, strict=True):
+            n = len(station_blocks)
+            row.append(_station_result(plan, e, seed, station_blocks, played[at:at + n], seconds))
+            at += n
+        results.append(tuple(row))
+    own = results[0]
+    compared = tuple(zip(others, results[1:], strict=True))
     return DrillResult(drill, errors, trials, seed, own, source, compared)
 
 

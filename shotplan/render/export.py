@@ -38,6 +38,8 @@ from matplotlib import patches, rc_context
 from matplotlib.axes import Axes
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.backends.backend_pdf import PdfPages
+from matplotlib.collections import PatchCollection
+from matplotlib.colors import to_rgba
 from matplotlib.figure import Figure
 from matplotlib.font_manager import FontProperties
 from matplotlib.lines import Line2D
@@ -368,8 +370,47 @@ def draw_scene(ax: Axes, scene: Scene, pt_per_m: float) -> None:
     ax.set_ylim(ymin, ymax)
     ax.set_aspect("equal", adjustable="box", anchor="C")
     ax.set_axis_off()
-    for z, shape in enumerate(scene.sorted_shapes(), start=1):
-        _draw_shape(ax, shape, pt_per_m, z)
+    shapes = scene.sorted_shapes()
+    k = 0
+    while k < len(shapes):
+        run = _circle_run(shapes, k)
+        if len(run) >= DOTS_AS_ONE:
+            _draw_circles(ax, run, pt_per_m, k + 1)
+            k += len(run)
+        else:
+            _draw_shape(ax, shapes[k], pt_per_m, k + 1)
+            k += 1
+
+
+DOTS_AS_ONE = 50
+"""A run of at least this many plain circles of one layer (a drill
+station's trial finishes) is drawn as one collection: the same marks, a
+fraction of the drawing time of one patch each."""
+
+
+def _circle_run(shapes: Sequence[Any], k: int) -> list[CircleShape]:
+    """The undashed circles of one layer from ``shapes[k]`` on."""
+    run: list[CircleShape] = []
+    for shape in shapes[k:]:
+        if not isinstance(shape, CircleShape) or shape.dash or \
+                (run and shape.layer != run[0].layer):
+            break
+        run.append(shape)
+    return run
+
+
+def _draw_circles(ax: Axes, run: Sequence[CircleShape], pt_per_m: float, z: int) -> None:
+    """Circles as one collection, in their order, each with its own colours
+    and opacity (as :func:`_draw_shape` draws one)."""
+    def colour(c: str | None, alpha: float) -> tuple[float, float, float, float]:
+        return (0.0, 0.0, 0.0, 0.0) if c is None else to_rgba(c, alpha)
+
+    ax.add_collection(PatchCollection(
+        [patches.Circle(s.centre, s.radius) for s in run], match_original=False,
+        facecolors=[colour(s.fill, s.alpha) for s in run],
+        edgecolors=[colour(s.edge, s.alpha) for s in run],
+        linewidths=[_pt(s.line_width_mm, pt_per_m) if s.edge else 0.0 for s in run],
+        joinstyle="miter", capstyle="butt", zorder=z, clip_on=False), autolim=False)
 
 
 def _pt(mm: float, pt_per_m: float) -> float:
@@ -403,16 +444,19 @@ _DASH = (0, (4.0, 2.5))  # in line widths (matplotlib scales dashes by the width
 
 def _draw_shape(ax: Axes, shape: Any, pt_per_m: float, z: int) -> None:
     # No clipping: every shape lies in the bounds, and clip paths would put
-    # random ids into SVG files.
+    # random ids into SVG files. Patches go in with add_artist, not
+    # add_patch: the axes' limits are the scene's bounds, set before, and
+    # add_patch's update of the data limits (the extrema of every Bezier
+    # piece) was most of a drill sheet's drawing time, for nothing drawn.
     if isinstance(shape, PolygonShape):
         lw = _pt(shape.line_width_mm, pt_per_m) if shape.edge else 0.0
-        ax.add_patch(patches.PathPatch(
+        ax.add_artist(patches.PathPatch(
             _polygon_path(shape), facecolor=shape.fill or "none",
             edgecolor=shape.edge or "none", linewidth=lw, alpha=shape.alpha, zorder=z,
             clip_on=False, joinstyle="round"))
     elif isinstance(shape, CircleShape):
         lw = _pt(shape.line_width_mm, pt_per_m) if shape.edge else 0.0
-        ax.add_patch(patches.Circle(
+        ax.add_artist(patches.Circle(
             shape.centre, shape.radius, facecolor=shape.fill or "none",
             edgecolor=shape.edge or "none", linewidth=lw, alpha=shape.alpha, zorder=z,
             clip_on=False, linestyle=_DASH if shape.dash else "solid"))
@@ -428,7 +472,7 @@ def _draw_shape(ax: Axes, shape: Any, pt_per_m: float, z: int) -> None:
                            solid_capstyle="round", dash_capstyle="butt",
                            solid_joinstyle="round"))
         if head is not None:
-            ax.add_patch(patches.Polygon(head[1], closed=True, facecolor=shape.colour,
+            ax.add_artist(patches.Polygon(head[1], closed=True, facecolor=shape.colour,
                                          edgecolor="none", linewidth=0.0, alpha=shape.alpha,
                                          zorder=z, clip_on=False))
     elif isinstance(shape, TextShape):
@@ -441,7 +485,7 @@ def _draw_shape(ax: Axes, shape: Any, pt_per_m: float, z: int) -> None:
                 fontsize=_pt(shape.size_mm, pt_per_m), color=shape.colour,
                 fontweight="bold" if shape.bold else "normal", zorder=z, clip_on=False)
     elif isinstance(shape, WedgeShape):
-        ax.add_patch(patches.Wedge(shape.apex, shape.radius, shape.start_deg, shape.end_deg,
+        ax.add_artist(patches.Wedge(shape.apex, shape.radius, shape.start_deg, shape.end_deg,
                                    facecolor=shape.fill, edgecolor="none", linewidth=0.0,
                                    alpha=shape.alpha, zorder=z, clip_on=False))
     else:  # Scene checks its shapes; this is a guard for a new shape type.
