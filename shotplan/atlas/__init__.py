@@ -9,14 +9,16 @@ run on a Dask cluster (a local one on this machine's cores by default).
 
 from __future__ import annotations
 
+from .adaptive import SMOOTH_HEIGHT, SMOOTH_RATIO, Squares, coarse_cells, lattice_step
 from .cells import CELL_FLOATS, AtlasJob, BlockResult, aim_rate, compute_block
-from .grid import BLOCK_CELLS, MAX_GRID_M, MIN_GRID_M, Grid, make_grid
+from .grid import BLOCK_CELLS, MAX_GRID_M, MIN_GRID_M, Grid, chunks, make_grid
 from .result import CSV_COLUMNS, Atlas, assemble
-from .run import AtlasInterrupted, ResumeFolder, run_atlas
+from .run import AtlasCluster, AtlasInterrupted, ResumeFolder, run_atlas
 
 __all__ = [
     "AtlasJob", "BlockResult", "CELL_FLOATS", "aim_rate", "compute_block",
-    "Grid", "make_grid", "BLOCK_CELLS", "MIN_GRID_M", "MAX_GRID_M",
+    "Grid", "make_grid", "chunks", "BLOCK_CELLS", "MIN_GRID_M", "MAX_GRID_M",
+    "lattice_step", "coarse_cells", "Squares", "SMOOTH_RATIO", "SMOOTH_HEIGHT",
     "Atlas", "assemble", "CSV_COLUMNS",
-    "run_atlas", "AtlasInterrupted", "ResumeFolder",
+    "run_atlas", "AtlasCluster", "AtlasInterrupted", "ResumeFolder",
 ]

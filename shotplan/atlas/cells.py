@@ -89,6 +89,12 @@ class AtlasJob:
     """Launch speed of every shot (None: a sensible pace per shot)."""
     player: PlayerErrors = field(default_factory=lambda: PlayerErrors.level("club"))
     """The player whose aim error gives the rate (and whose tip room the search keeps)."""
+    adaptive: bool = True
+    """Search a coarse lattice first and fill smooth squares from their
+    corners (:mod:`shotplan.atlas.adaptive`); False searches every cell."""
+    lattice: int | None = None
+    """Cells per side of the lattice's squares (None: the most whose diagonal
+    is under four ball radii, :func:`shotplan.atlas.adaptive.lattice_step`)."""
 
     def __post_init__(self) -> None:
         if "cue" not in self.layout.ball_ids:
@@ -128,7 +134,8 @@ class AtlasJob:
         data = {"layout": self.layout.to_dict(), "ball": self.ball, "cell_m": self.cell_m,
                 "pockets": list(self.pockets), "kinds": list(self.kinds), "tip": self.tip,
                 "speed": self.speed, "aim_sd_deg": self.player.aim_sd_deg,
-                "speed_sd_pct": self.player.speed_sd_pct, "tip_sd": self.player.tip_sd}
+                "speed_sd_pct": self.player.speed_sd_pct, "tip_sd": self.player.tip_sd,
+                "adaptive": self.adaptive, "lattice": self.lattice}
         text = json.dumps(data, sort_keys=True, separators=(",", ":"))
         return hashlib.sha256(text.encode()).hexdigest()[:16]
 
@@ -137,8 +144,10 @@ class AtlasJob:
 class BlockResult:
     """The cells of one block, in order."""
 
+    phase: str
+    """``all`` (every cell), ``coarse`` or ``fine`` (see :mod:`shotplan.atlas.refine`)."""
     block: int
-    """Block number."""
+    """Block number within its phase."""
     cells: np.ndarray
     """(k,) flat cell indices."""
     values: dict[str, np.ndarray]
@@ -156,10 +165,11 @@ class BlockResult:
         Returns
         -------
         dict
-            ``block``, ``cells``, ``pocket``, ``kind``, ``simulations`` and one
+            ``phase``, ``block``, ``cells``, ``pocket``, ``kind``, ``simulations`` and one
             list per name of :data:`CELL_FLOATS`.
         """
-        out: dict[str, Any] = {"block": self.block, "cells": [int(c) for c in self.cells],
+        out: dict[str, Any] = {"phase": self.phase, "block": self.block,
+                               "cells": [int(c) for c in self.cells],
                                "pocket": list(self.pocket), "kind": list(self.kind),
                                "simulations": self.simulations}
         for name in CELL_FLOATS:
@@ -182,19 +192,24 @@ class BlockResult:
         """
         values = {name: np.array([math.nan if v is None else float(v) for v in data[name]])
                   for name in CELL_FLOATS}
-        return cls(int(data["block"]), np.array(data["cells"], dtype=np.int64), values,
+        return cls(str(data["phase"]), int(data["block"]), np.array(data["cells"], dtype=np.int64),
+                   values,
                    tuple(data["pocket"]), tuple(data["kind"]), int(data["simulations"]))
 
 
-def compute_block(job: AtlasJob, block: int) -> BlockResult:
+def compute_block(job: AtlasJob, phase: str, block: int, cells: np.ndarray) -> BlockResult:
     """The best shot from every open cell of one block.
 
     Parameters
     ----------
     job : AtlasJob
         The atlas.
+    phase : str
+        The phase the block belongs to (kept with the result).
     block : int
-        Block number.
+        Block number within the phase.
+    cells : ndarray
+        The block's flat cell indices, in row-major order.
 
     Returns
     -------
@@ -202,7 +217,6 @@ def compute_block(job: AtlasJob, block: int) -> BlockResult:
         One entry per cell of the block (closed cells NaN).
     """
     grid = job.grid
-    cells = grid.block_cells(block)
     k = len(cells)
     values = {name: np.full(k, math.nan) for name in CELL_FLOATS}
     pocket: list[str | None] = [None] * k
@@ -215,8 +229,8 @@ def compute_block(job: AtlasJob, block: int) -> BlockResult:
             continue
         here = job.layout.with_ball("cue", grid.centre(int(cell)))
         res = find_shots(here, balls=[job.ball], pockets=list(job.pockets) or None,
-                         kinds=job.kinds, speed=job.speed, tip=job.tip, top=1,
-                         physics=physics, player=job.player)
+                         kinds=job.kinds, speed=job.speed, tip=job.tip,
+                         top=1, physics=physics, player=job.player)
         sims += res.simulations
         values["window_deg"][n] = 0.0
         values["window_mm"][n] = 0.0
@@ -235,4 +249,4 @@ def compute_block(job: AtlasJob, block: int) -> BlockResult:
         values["height"][n] = s.height
         pocket[n] = s.pocket
         kind[n] = s.kind
-    return BlockResult(block, cells, values, tuple(pocket), tuple(kind), sims)
+    return BlockResult(phase, block, np.asarray(cells), values, tuple(pocket), tuple(kind), sims)

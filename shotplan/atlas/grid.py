@@ -8,10 +8,11 @@ its centre there lies legally on the table (clear of every cushion and jaw,
 before every drop line) and clear of the layout's other balls (centres at
 least two radii apart). Only open cells are computed.
 
-Blocks are fixed runs of cells in row-major order (:data:`BLOCK_CELLS` cells
-each), numbered from 0. They depend on the grid alone, never on the number of
-workers, so the atlas is the same whatever runs it, and a block finished
-once (on disk, for ``--resume``) is the same block next time.
+Blocks are fixed runs of the cells of one phase in row-major order
+(:data:`BLOCK_CELLS` cells each, :func:`chunks`), numbered from 0. They
+depend on the grid (and on the results of the phase before), never on the
+number of workers, so the atlas is the same whatever runs it, and a block
+finished once (on disk, for ``--resume``) is the same block next time.
 """
 
 from __future__ import annotations
@@ -24,7 +25,7 @@ import numpy as np
 from ..errors import InputError
 from ..layout import Layout
 
-__all__ = ["Grid", "make_grid", "BLOCK_CELLS", "MIN_GRID_M", "MAX_GRID_M"]
+__all__ = ["Grid", "make_grid", "chunks", "BLOCK_CELLS", "MIN_GRID_M", "MAX_GRID_M"]
 
 BLOCK_CELLS = 64
 """Cells per block: large enough that a worker's start-up and a task's
@@ -54,28 +55,6 @@ class Grid:
     def shape(self) -> tuple[int, int]:
         """(ny, nx)."""
         return (len(self.y), len(self.x))
-
-    @property
-    def n_blocks(self) -> int:
-        """Number of blocks (of :data:`BLOCK_CELLS` cells, the last shorter)."""
-        n = self.open.size
-        return (n + BLOCK_CELLS - 1) // BLOCK_CELLS
-
-    def block_cells(self, block: int) -> np.ndarray:
-        """Flat (row-major) indices of the cells of ``block``.
-
-        Parameters
-        ----------
-        block : int
-            Block number, 0 to ``n_blocks - 1``.
-
-        Returns
-        -------
-        ndarray
-            The cells' flat indices, in order.
-        """
-        lo = block * BLOCK_CELLS
-        return np.arange(lo, min(lo + BLOCK_CELLS, self.open.size))
 
     def centre(self, cell: int) -> tuple[float, float]:
         """The centre of a cell given by its flat index.
@@ -134,3 +113,19 @@ def make_grid(layout: Layout, cell_m: float, *, where: str = "--grid") -> Grid:
         d = np.linalg.norm(pts[:, None, :] - np.asarray(others, dtype=float)[None, :, :], axis=2)
         ok &= d.min(axis=1) >= 2.0 * table.ball_radius
     return Grid(float(cell_m), x, y, ok.reshape(ny, nx))
+
+
+def chunks(cells: np.ndarray) -> list[np.ndarray]:
+    """Split cells (flat indices, in order) into blocks of :data:`BLOCK_CELLS`.
+
+    Parameters
+    ----------
+    cells : ndarray
+        Flat cell indices, in the order they are computed.
+
+    Returns
+    -------
+    list of ndarray
+        The blocks, the last one shorter.
+    """
+    return [cells[k:k + BLOCK_CELLS] for k in range(0, len(cells), BLOCK_CELLS)]

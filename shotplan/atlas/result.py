@@ -17,7 +17,7 @@ from .grid import Grid
 
 __all__ = ["Atlas", "assemble", "CSV_COLUMNS"]
 
-CSV_COLUMNS = ("x_m", "y_m", "open", *CELL_FLOATS, "pocket", "kind")
+CSV_COLUMNS = ("x_m", "y_m", "open", "searched", *CELL_FLOATS, "pocket", "kind")
 """Columns of ``shotplan atlas --csv``, one row per cell."""
 
 
@@ -42,6 +42,9 @@ class Atlas:
     """Wall time of the computing, s."""
     workers: int
     """Worker processes that computed (0: this process)."""
+    searched: np.ndarray
+    """(ny, nx) booleans: the cell was searched (not filled in from a
+    lattice square's corners, nor closed)."""
     blocks_reused: int = 0
     """Blocks read back from a resume folder instead of computed."""
 
@@ -108,6 +111,7 @@ class Atlas:
         for r in range(ny):
             for c in range(nx):
                 yield (float(self.grid.x[c]), float(self.grid.y[r]), bool(self.grid.open[r, c]),
+                       bool(self.searched[r, c]),
                        *(float(self.maps[n][r, c]) for n in CELL_FLOATS),
                        self.pocket[r, c], self.kind[r, c])
 
@@ -180,6 +184,8 @@ class Atlas:
             "speed_mps": job.speed,
             "level": job.player.name,
             "aim_sd_deg": job.player.aim_sd_deg,
+            "adaptive": job.adaptive,
+            "searched_cells": int(self.searched.sum()),
             "grid_m": self.grid.cell_m,
             "nx": int(self.grid.shape[1]),
             "ny": int(self.grid.shape[0]),
@@ -188,6 +194,7 @@ class Atlas:
             "summary": self.summary(),
             "cells": {
                 "open": [bool(v) for v in self.grid.open.ravel()],
+                "searched": [bool(v) for v in self.searched.ravel()],
                 **{name: clean(self.maps[name]) for name in CELL_FLOATS},
                 "pocket": list(self.pocket.ravel()),
                 "kind": list(self.kind.ravel()),
@@ -229,15 +236,20 @@ def assemble(job: AtlasJob, grid: Grid, blocks: Sequence[BlockResult], seconds: 
     kind = np.full(n, None, dtype=object)
     sims = 0
     seen = np.zeros(n, dtype=bool)
+    searched = np.zeros(n, dtype=bool)
     for b in blocks:
+        if b.phase != "filled":
+            searched[b.cells] = True
         for name in CELL_FLOATS:
             flat[name][b.cells] = b.values[name]
         pocket[b.cells] = np.array(b.pocket, dtype=object)
         kind[b.cells] = np.array(b.kind, dtype=object)
         seen[b.cells] = True
         sims += b.simulations
-    if not seen.all():
-        raise ValueError(f"atlas: {int((~seen).sum())} cells have no block")
+    missing = grid.open.ravel() & ~seen
+    if missing.any():
+        raise ValueError(f"atlas: {int(missing.sum())} open cells have no block")
     shape = grid.shape
     return Atlas(job, grid, {k: v.reshape(shape) for k, v in flat.items()},
-                 pocket.reshape(shape), kind.reshape(shape), sims, seconds, workers, reused)
+                 pocket.reshape(shape), kind.reshape(shape), sims, seconds, workers,
+                 searched.reshape(shape), reused)

@@ -19,7 +19,7 @@ not depend on where or in what order blocks ran: each cell is computed from
 the same inputs alone.
 
 The resume folder holds ``atlas.json`` (the job's fingerprint) and one
-``block-NNNNN.json`` per finished block, each written atomically as it
+``block-PHASE-NNNNN.json`` per finished block, each written atomically as it
 arrives, so a run stopped by Ctrl-C, a lost worker or a closed laptop
 continues where it stopped; a folder made for another job is refused.
 """
@@ -29,16 +29,20 @@ from __future__ import annotations
 import json
 import os
 import time
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any
 
+import numpy as np
+
 from ..errors import InputError
 from ..files.write import atomic_write_text
+from .adaptive import Squares, coarse_cells, lattice_step
 from .cells import AtlasJob, BlockResult, compute_block
+from .grid import chunks
 from .result import Atlas, assemble
 
-__all__ = ["run_atlas", "AtlasInterrupted", "ResumeFolder"]
+__all__ = ["run_atlas", "AtlasCluster", "AtlasInterrupted", "ResumeFolder"]
 
 Progress = Callable[[int, int], None]
 
@@ -53,7 +57,7 @@ class AtlasInterrupted(Exception):
         self.folder = folder
         kept = (f"kept in {folder} (run again with --resume {folder} to continue)"
                 if folder is not None else "not kept (use --resume DIR to keep them)")
-        super().__init__(f"atlas interrupted: {done} of {total} blocks finished, {kept}")
+        super().__init__(f"atlas interrupted: {done} of {total} cells finished, {kept}")
 
 
 class ResumeFolder:
@@ -94,16 +98,19 @@ class ResumeFolder:
             atomic_write_text(head, json.dumps({"fingerprint": self.fingerprint,
                                                 "ball": job.ball, "grid_m": job.cell_m}) + "\n")
 
-    def _file(self, block: int) -> Path:
-        return self.path / f"block-{block:05d}.json"
+    def _file(self, phase: str, block: int) -> Path:
+        return self.path / f"block-{phase}-{block:05d}.json"
 
-    def load(self, n_blocks: int) -> dict[int, BlockResult]:
-        """Blocks already finished (unreadable files are ignored and redone).
+    def load(self, phase: str, blocks: Sequence[np.ndarray]) -> dict[int, BlockResult]:
+        """Blocks of a phase already finished (unreadable files, and files
+        whose cells are not the block's, are ignored and redone).
 
         Parameters
         ----------
-        n_blocks : int
-            Blocks of the grid.
+        phase : str
+            The phase.
+        blocks : sequence of ndarray
+            Each block's cells.
 
         Returns
         -------
@@ -111,17 +118,19 @@ class ResumeFolder:
             Block number -> its result.
         """
         out: dict[int, BlockResult] = {}
-        for b in range(n_blocks):
-            f = self._file(b)
+        for i, cells in enumerate(blocks):
+            f = self._file(phase, i)
             if not f.exists():
                 continue
             try:
                 data = json.loads(f.read_text(encoding="utf-8"))
                 if data.get("fingerprint") != self.fingerprint:
                     continue
-                out[b] = BlockResult.from_dict(data)
+                result = BlockResult.from_dict(data)
             except (OSError, ValueError, KeyError, TypeError):
                 continue
+            if np.array_equal(result.cells, cells):
+                out[i] = result
         return out
 
     def save(self, result: BlockResult) -> None:
@@ -133,21 +142,94 @@ class ResumeFolder:
             The block.
         """
         data = {"fingerprint": self.fingerprint, **result.to_dict()}
-        atomic_write_text(self._file(result.block), json.dumps(data, allow_nan=False) + "\n")
+        atomic_write_text(self._file(result.phase, result.block),
+                          json.dumps(data, allow_nan=False) + "\n")
 
 
-def _local_cluster(workers: int | None) -> Any:
-    from distributed import LocalCluster  # a heavy import: only when used
+class AtlasCluster:
+    """Where blocks run: this process, a local Dask cluster or a running one.
 
-    n = workers if workers else (os.cpu_count() or 1)
-    return LocalCluster(n_workers=n, threads_per_worker=1, processes=True,
-                        dashboard_address=None, silence_logs=50)
+    Started on first use and kept until :meth:`close` (or the end of a
+    ``with`` block), so several atlases (a batch) share one cluster.
+
+    Parameters
+    ----------
+    workers : int, optional
+        Worker processes of a local cluster (default one per core); 0 runs
+        every block in this process, without Dask.
+    scheduler : str, optional
+        Address of a running Dask scheduler (``tcp://HOST:8786``); then
+        ``workers`` is not used and nothing is started but the client.
+    """
+
+    def __init__(self, workers: int | None = None, scheduler: str | None = None):
+        self.wanted = workers
+        self.scheduler = scheduler
+        self._client: Any = None
+        self._local: Any = None
+        self.workers = 0
+        """Workers of the cluster once started (0 in this process)."""
+
+    @property
+    def in_process(self) -> bool:
+        """Blocks run here, without Dask."""
+        return self.scheduler is None and self.wanted == 0
+
+    @property
+    def client(self) -> Any:
+        """The Dask client (the cluster is started on first use).
+
+        Raises
+        ------
+        InputError
+            If the scheduler cannot be reached.
+        """
+        if self._client is None:
+            from distributed import Client, LocalCluster  # heavy: only when used
+
+            if self.scheduler is not None:
+                try:
+                    self._client = Client(self.scheduler, timeout="10s")
+                except OSError as exc:
+                    raise InputError(f"--scheduler {self.scheduler}: cannot reach the "
+                                     f"scheduler: {exc}, must be the address a running "
+                                     "'dask scheduler' prints (tcp://HOST:8786)") from None
+            else:
+                n = self.wanted if self.wanted else (os.cpu_count() or 1)
+                # The cluster's small web servers on free ports of this machine
+                # (":0"), so two atlases at once never fight over Dask's fixed
+                # default port; logs only for errors.
+                self._local = LocalCluster(n_workers=n, threads_per_worker=1, processes=True,
+                                           host="127.0.0.1", dashboard_address=":0",
+                                           worker_dashboard_address=":0", silence_logs=40)
+                self._client = Client(self._local)
+            self.workers = len(self._client.scheduler_info().get("workers", {}))
+        return self._client
+
+    def close(self) -> None:
+        """Close the client, and the local cluster if this started one."""
+        if self._client is not None:
+            self._client.close()
+        if self._local is not None:
+            self._local.close()
+        self._client = self._local = None
+
+    def __enter__(self) -> AtlasCluster:
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
 
 
 def run_atlas(job: AtlasJob, *, workers: int | None = None, scheduler: str | None = None,
               resume: str | os.PathLike[str] | None = None,
-              progress: Progress | None = None) -> Atlas:
+              progress: Progress | None = None,
+              cluster: AtlasCluster | None = None) -> Atlas:
     """Compute an atlas.
+
+    With ``job.adaptive`` (and a grid fine enough for a lattice), the lattice
+    is searched first and then the cells it cannot vouch for
+    (:mod:`shotplan.atlas.adaptive`); otherwise every open cell is searched.
 
     Parameters
     ----------
@@ -161,7 +243,11 @@ def run_atlas(job: AtlasJob, *, workers: int | None = None, scheduler: str | Non
     resume : str or os.PathLike, optional
         A folder that keeps finished blocks (see the module docstring).
     progress : callable, optional
-        ``progress(done, total)`` in blocks, called as blocks finish.
+        ``progress(done, total)`` in cells, called as blocks finish (the
+        total grows when the lattice tells how many cells are left).
+    cluster : AtlasCluster, optional
+        A cluster to run on and leave open (instead of ``workers`` and
+        ``scheduler``): several atlases share it.
 
     Returns
     -------
@@ -177,62 +263,92 @@ def run_atlas(job: AtlasJob, *, workers: int | None = None, scheduler: str | Non
     """
     t0 = time.perf_counter()
     grid = job.grid
-    total = grid.n_blocks
     store = ResumeFolder(resume, job) if resume is not None else None
-    done = store.load(total) if store is not None else {}
-    reused = len(done)
-    todo = [b for b in range(total) if b not in done]
-    if progress is not None:
-        progress(len(done), total)
-
-    def finish(result: BlockResult) -> None:
-        done[result.block] = result
-        if store is not None:
-            store.save(result)
-        if progress is not None:
-            progress(len(done), total)
-
-    used = 0
+    R = job.layout.geometry.ball_radius
+    k = 1
+    if job.adaptive:
+        k = job.lattice if job.lattice is not None else lattice_step(grid.cell_m, R)
+    own = cluster is None
+    where = AtlasCluster(workers, scheduler) if cluster is None else cluster
+    runner = _Runner(job, where, store, progress)
     try:
-        if todo and scheduler is None and workers == 0:
-            for b in todo:
-                finish(compute_block(job, b))
-        elif todo:
-            used = _run_on_dask(job, todo, workers, scheduler, finish)
-    except KeyboardInterrupt:
-        raise AtlasInterrupted(len(done), total, store.path if store else None) from None
-    return assemble(job, grid, list(done.values()), time.perf_counter() - t0, used, reused)
-
-
-def _run_on_dask(job: AtlasJob, todo: list[int], workers: int | None, scheduler: str | None,
-                 finish: Callable[[BlockResult], None]) -> int:
-    from distributed import Client, as_completed
-
-    cluster = None
-    try:
-        if scheduler is not None:
-            try:
-                client = Client(scheduler, timeout="10s")
-            except OSError as exc:
-                raise InputError(f"--scheduler {scheduler}: cannot reach the scheduler: "
-                                 f"{exc}, must be the address a running 'dask scheduler' "
-                                 "prints (tcp://HOST:8786)") from None
+        if k > 1:
+            balls = np.array([job.layout.position(b) for b in job.layout.ball_ids
+                              if b != "cue"], dtype=float).reshape(-1, 2)
+            squares = Squares(grid, k, balls, R)
+            first = runner.phase("coarse", coarse_cells(grid, k))
+            squares.add(first)
+            centres = squares.centres()
+            runner.expected += len(centres)
+            second = runner.phase("centre", centres)
+            squares.add(second)
+            rest, filled = squares.fine_plan()
+            runner.expected += len(rest)
+            blocks = first + second + runner.phase("fine", rest) + [filled]
         else:
-            cluster = _local_cluster(workers)
-            client = Client(cluster)
-        try:
-            n_workers = len(client.scheduler_info().get("workers", {}))
-            shared = client.scatter(job, broadcast=True)
-            futures = [client.submit(compute_block, shared, b, key=f"atlas-{b}-{job.fingerprint()}",
-                                     retries=2) for b in todo]
+            blocks = runner.phase("all", np.flatnonzero(grid.open.ravel()))
+    except KeyboardInterrupt:
+        raise AtlasInterrupted(runner.cells_done, runner.expected,
+                               store.path if store else None) from None
+    finally:
+        if own:
+            where.close()
+    return assemble(job, grid, blocks, time.perf_counter() - t0, where.workers,
+                    runner.reused)
+
+
+class _Runner:
+    """Runs a job's phases on a cluster, keeping and reporting the blocks."""
+
+    def __init__(self, job: AtlasJob, cluster: AtlasCluster, store: ResumeFolder | None,
+                 progress: Progress | None):
+        self.job = job
+        self.cluster = cluster
+        self.store = store
+        self.progress = progress
+        self.shared: Any = None
+        self.reused = 0
+        self.cells_done = 0
+        self.expected = 0
+
+    def _report(self) -> None:
+        if self.progress is not None:
+            self.progress(self.cells_done, max(self.expected, self.cells_done))
+
+    def phase(self, name: str, cells: np.ndarray) -> list[BlockResult]:
+        blocks = chunks(np.asarray(cells, dtype=np.int64))
+        if name in ("all", "coarse"):
+            self.expected += len(cells)
+        done: dict[int, BlockResult] = {}
+        if self.store is not None:
+            done = self.store.load(name, blocks)
+            self.reused += len(done)
+        self.cells_done += sum(len(b.cells) for b in done.values())
+        self._report()
+        todo = [(i, b) for i, b in enumerate(blocks) if i not in done]
+
+        def finish(result: BlockResult) -> None:
+            done[result.block] = result
+            if self.store is not None:
+                self.store.save(result)
+            self.cells_done += len(result.cells)
+            self._report()
+
+        if todo and self.cluster.in_process:
+            for i, b in todo:
+                finish(compute_block(self.job, name, i, b))
+        elif todo:
+            from distributed import as_completed
+
+            client = self.cluster.client
+            if self.shared is None:
+                self.shared = client.scatter(self.job, broadcast=True)
+            futures = [client.submit(compute_block, self.shared, name, i, b,
+                                     key=f"atlas-{self.job.fingerprint()}-{name}-{i}",
+                                     retries=2) for i, b in todo]
             try:
                 for fut in as_completed(futures):
                     finish(fut.result())
             finally:
                 client.cancel(futures)
-        finally:
-            client.close()
-    finally:
-        if cluster is not None:
-            cluster.close()
-    return n_workers
+        return [done[i] for i in range(len(blocks))]

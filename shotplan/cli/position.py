@@ -18,9 +18,12 @@ from .options import allow_negative_lists, int_in, number, parse_list
 from .text import Column, format_table
 
 if TYPE_CHECKING:
-    from ..position import Finish, PositionMap
+    from ..layout import Layout
+    from ..players import PlayerErrors
+    from ..position import Finish, PositionMap, Zone
 
-__all__ = ["add_subcommands", "run_position", "print_position", "height_item"]
+__all__ = ["add_subcommands", "run_position", "print_position", "height_item",
+           "parse_atlas_zone", "atlas_zone"]
 
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
@@ -45,7 +48,13 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--pocket", required=True, metavar="NAME", help="pocket (foot-right...)")
     p.add_argument("--zone", metavar="ZONE",
                    help="target zone for the cue ball: circle:X,Y,R or "
-                        "polygon:X1,Y1,X2,Y2,X3,Y3,... in metres, or a zone object as JSON")
+                        "polygon:X1,Y1,X2,Y2,X3,Y3,... in metres, a zone object as JSON, or "
+                        "atlas:NEXT_BALL[:MIN]: where the next ball's best window is at least "
+                        "MIN degrees (default 0.5), or with --level where a player of that "
+                        "level pockets it at least MIN %% of the time (default 50), from its "
+                        "shot atlas once this ball is down")
+    p.add_argument("--atlas-grid", type=number(), default=0.04, metavar="M",
+                   help="cell size of the atlas behind --zone atlas:..., m (default 0.04)")
     p.add_argument("--speeds", metavar="LIST",
                    help="launch speeds, m/s, comma-separated (default: 7 from a gentle pace "
                         "to about 4.5 times that)")
@@ -88,6 +97,105 @@ def height_item(text: str) -> float | str:
     return number("a number or 'stun'")(text)
 
 
+def parse_atlas_zone(text: str, with_level: bool) -> tuple[str, float]:
+    """``atlas:NEXT_BALL[:MIN]`` of ``--zone``: the next ball and the minimum.
+
+    Parameters
+    ----------
+    text : str
+        The option's text.
+    with_level : bool
+        Whether ``--level`` was given (then MIN is a success rate in %).
+
+    Returns
+    -------
+    tuple
+        (ball, minimum): degrees of window, or a rate from 0 to 1.
+
+    Raises
+    ------
+    InputError
+        For a missing ball or a minimum that is not a number in range.
+    """
+    parts = text.strip().split(":")
+    usage = "must be atlas:NEXT_BALL or atlas:NEXT_BALL:MIN"
+    if len(parts) not in (2, 3) or not parts[1].strip():
+        raise InputError(f"--zone: {text!r} is not an atlas zone, {usage}")
+    ball = parts[1].strip()
+    if len(parts) == 2:
+        return ball, 0.5  # half a degree of window, or (with --level) a 50 % rate
+    try:
+        value = float(parts[2])
+    except ValueError:
+        raise InputError(f"--zone: {text!r}: MIN {parts[2]!r} is not a number, {usage}") from None
+    if with_level:
+        if not 0.0 < value <= 100.0:
+            raise InputError(f"--zone: {text!r}: MIN {value:g} is out of range, with --level it "
+                             "is a success rate above 0 and at most 100 %")
+        return ball, value / 100.0
+    if not 0.0 < value <= 20.0:
+        raise InputError(f"--zone: {text!r}: MIN {value:g} is out of range, it is a window "
+                         "above 0 and at most 20 degrees")
+    return ball, value
+
+
+def atlas_zone(layout: Layout, ball: str, spec: tuple[str, float],
+               errors: PlayerErrors | None, grid_m: float) -> Zone:
+    """The zone where the next ball is easy once ``ball`` is down, from its atlas.
+
+    Parameters
+    ----------
+    layout : Layout
+        The layout before the shot.
+    ball : str
+        The ball this shot pockets (taken off for the atlas).
+    spec : tuple
+        (next ball, minimum) from :func:`parse_atlas_zone`.
+    errors : PlayerErrors or None
+        With a level, the minimum is a success rate; otherwise degrees.
+    grid_m : float
+        The atlas's cell size, m.
+
+    Returns
+    -------
+    Zone
+        The region as an area zone.
+
+    Raises
+    ------
+    InputError
+        If the next ball is not an object ball of the layout, is this shot's
+        ball, or is easy from nowhere.
+    """
+    from ..atlas import AtlasJob, run_atlas
+    from ..players import DEFAULT_LEVEL, PlayerErrors
+    from ..position import Zone
+    from .progress import progress_bar
+
+    nxt, minimum = spec
+    others = [b for b in layout.ball_ids if b not in ("cue", ball)]
+    if nxt not in others:
+        raise InputError(f"--zone: atlas:{nxt}: {nxt!r} is not another object ball of the "
+                         f"layout, must be one of {', '.join(others) or '(none)'}")
+    if ball not in layout.ball_ids:
+        raise InputError(f"--ball: {ball!r} is not a ball of the layout, must be one of "
+                         f"{', '.join(b for b in layout.ball_ids if b != 'cue')}")
+    after = layout.without_ball(ball)
+    player = errors if errors is not None else PlayerErrors.level(DEFAULT_LEVEL)
+    job = AtlasJob(after, nxt, cell_m=grid_m, player=player)
+    with progress_bar(f"atlas of ball {nxt}") as bar:
+        atlas = run_atlas(job, progress=bar)
+    name = "rate" if errors is not None else "window_deg"
+    region = atlas.region(name, minimum)
+    label = (f"ball {nxt} pocketed at least {minimum * 100:g} % of the time by a "
+             f"{player.name} player" if errors is not None
+             else f"ball {nxt}'s best window at least {minimum:g} deg")
+    if region.is_empty:
+        raise InputError(f"--zone: no cue-ball spot has {label} once ball {ball} is down; "
+                         "ask for less (atlas:NEXT_BALL:MIN)")
+    return Zone.of_shape(region, label)
+
+
 def run_position(args: argparse.Namespace) -> int:
     """Compute the position map; print it (or JSON) and write the picture.
 
@@ -110,7 +218,12 @@ def run_position(args: argparse.Namespace) -> int:
     heights = (parse_list(args.heights, height_item, "--heights")
                if args.heights is not None else None)
     sides = parse_list(args.sides, number(), "--sides") if args.sides is not None else None
-    zone = parse_zone(args.zone) if args.zone is not None else None
+    next_ball = None
+    if args.zone is not None and args.zone.strip().lower().startswith("atlas:"):
+        next_ball = parse_atlas_zone(args.zone, args.level is not None)
+        zone = None
+    else:
+        zone = parse_zone(args.zone) if args.zone is not None else None
     errors = None
     if args.level is not None:
         from ..players import PlayerErrors
@@ -123,6 +236,8 @@ def run_position(args: argparse.Namespace) -> int:
         raise InputError(f"--pocket: {args.pocket!r} is not a pocket of the "
                          f"{layout.table.name} table, must be one of "
                          f"{', '.join(names) or '(none: it has no pockets)'}")
+    if next_ball is not None:
+        zone = atlas_zone(layout, args.ball, next_ball, errors, args.atlas_grid)
     if zone is not None:
         zone.check_on_table(layout.geometry, "--zone")
     pm = position_map(layout, args.ball, args.pocket, zone=zone, speeds=speeds,

@@ -97,4 +97,6 @@ def zone_words(zone: Zone) -> str:
         x, y, r = zone.circle
         return (f"the cue ball's centre within {r * 100:.0f} cm of "
                 f"({x:.2f} m, {y:.2f} m)")
+    if zone.area is not None:
+        return f"the cue ball's centre inside the marked zone ({zone.label or 'an area'})"
     return f"the cue ball's centre inside the marked {len(zone.polygon or ())}-corner zone"

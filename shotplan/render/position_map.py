@@ -81,10 +81,11 @@ def zone_shapes(zone: Zone, style: str = "colour") -> list[Shape]:
     geom = zone.geometry
     out: list[Shape] = []
     if style == "print":
-        ring = tuple((float(x), float(y)) for x, y in geom.exterior.coords)
         out += polygon_shapes(geom, fill="#f2c94c", alpha=0.45, layer=Layer.MARKING + 5)
-        out.append(PolylineShape(ring, colour="#6b4e00", line_width_mm=1.4, dash=True,
-                                 layer=Layer.MARKING + 6))
+        for line in getattr(geom.boundary, "geoms", [geom.boundary]):
+            ring = tuple((float(x), float(y)) for x, y in line.coords)
+            out.append(PolylineShape(ring, colour="#6b4e00", line_width_mm=1.4, dash=True,
+                                     layer=Layer.MARKING + 6))
         return out
     out += polygon_shapes(geom, fill=_ZONE_FILL, alpha=0.28, layer=Layer.MARKING + 5)
     out += polygon_shapes(geom, fill=None, edge=_ZONE_FILL, line_width_mm=2.0,

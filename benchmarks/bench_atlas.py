@@ -1,0 +1,73 @@
+"""The shot atlas: the coarse-to-fine lattice against searching every spot,
+in one process, on the same local Dask cluster.
+
+For the cut demo (ball 2, direct shots) at the default 2 cm grid: wall time
+and simulations of both, how many spots the lattice searched, and how far
+the filled-in spots are from the full search (largest difference in degrees
+and as a share of the window; spots that changed between a shot and none;
+spots naming another pocket). Then the atlas on one worker process against
+the cluster's, for the speed-up of the cluster itself. Nothing is asserted.
+
+Run: ``make bench`` (or ``python benchmarks/bench_atlas.py``).
+"""
+
+from __future__ import annotations
+
+import os
+import pathlib
+import time
+
+import numpy as np
+
+from shotplan.atlas import AtlasCluster, AtlasJob, run_atlas
+from shotplan.layout import load_layout
+
+ROOT = pathlib.Path(__file__).resolve().parent.parent
+LAYOUT = ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json"
+
+
+def main() -> None:
+    cores = os.cpu_count() or 1
+    print(f"Shot atlas: cut demo, ball 2, direct shots, 2 cm grid, local cluster of {cores} "
+          "worker processes")
+    layout = load_layout(LAYOUT)
+    with AtlasCluster() as cluster:
+        run_atlas(AtlasJob(layout, "2", cell_m=0.3, kinds=("direct",)), cluster=cluster)  # warm
+        runs = {}
+        for adaptive in (True, False):
+            job = AtlasJob(layout, "2", cell_m=0.02, kinds=("direct",), adaptive=adaptive)
+            t0 = time.perf_counter()
+            runs[adaptive] = (run_atlas(job, cluster=cluster), time.perf_counter() - t0)
+    lat, t_lat = runs[True]
+    full, t_full = runs[False]
+    wf = np.nan_to_num(full.maps["window_deg"])
+    wl = np.nan_to_num(lat.maps["window_deg"])
+    filled = lat.grid.open & ~lat.searched
+    d = np.abs(wf - wl)
+    rel = np.where(wf > 0, d / np.maximum(wf, 1e-12), 0.0)
+    print(f"  every spot searched: {t_full:6.1f} s, {full.simulations:8d} simulations, "
+          f"{int(full.searched.sum())} spots")
+    print(f"  coarse to fine     : {t_lat:6.1f} s, {lat.simulations:8d} simulations, "
+          f"{int(lat.searched.sum())} of {lat.open_cells} spots searched "
+          f"({t_full / t_lat:.2f}x faster)")
+    if filled.any():
+        print(f"  filled-in spots against the full search: largest difference "
+              f"{d[filled].max():.3f} deg ({rel[filled].max() * 100:.1f} % of the window), "
+              f"median {np.median(d[filled]):.3f} deg; shot/no shot changed in "
+              f"{int(((wf > 0) != (wl > 0)).sum())}; another pocket named in "
+              f"{int((full.pocket != lat.pocket)[filled].sum())}")
+    job = AtlasJob(layout, "2", cell_m=0.06, kinds=("direct",), adaptive=False)
+    t0 = time.perf_counter()
+    run_atlas(job, workers=0)
+    t_one = time.perf_counter() - t0
+    with AtlasCluster() as cluster:
+        run_atlas(AtlasJob(layout, "2", cell_m=0.3, kinds=("direct",)), cluster=cluster)
+        t0 = time.perf_counter()
+        run_atlas(job, cluster=cluster)
+        t_many = time.perf_counter() - t0
+    print(f"  6 cm grid, every spot: this process {t_one:.1f} s, cluster of {cores} "
+          f"{t_many:.1f} s ({t_one / t_many:.2f}x)")
+
+
+if __name__ == "__main__":
+    main()
