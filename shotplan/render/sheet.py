@@ -47,6 +47,7 @@ from matplotlib.figure import Figure
 
 from ..errors import InputError
 from ..files.write import atomic_write_bytes, check_output_path
+from ..parallel import map_blocks
 from ..players import MISCUE_FLAG_RATE, PlayerErrors, tip_room
 from ..stroke import speed_word
 from .export import draw_scene, figure_bytes, new_figure, pdf_bytes, wrap_text
@@ -648,8 +649,14 @@ def _clean_stale(folder: Path) -> None:
             shutil.rmtree(p, ignore_errors=True)
 
 
+def _page_bytes(job: tuple[Sequence[Figure], float], page: int) -> bytes:
+    """Page ``page``'s PNG, or (page 0) the whole PDF: one block of work."""
+    figures, dpi = job
+    return pdf_bytes(figures) if page == 0 else figure_bytes(figures[page - 1], "png", dpi)
+
+
 def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str],
-                      dpi: float = 150) -> list[Path]:
+                      dpi: float = 150, workers: int | None = None) -> list[Path]:
     """Write the pages as ``X.pdf`` and ``X-stations/station-K.png`` (see the
     module docstring).
 
@@ -661,6 +668,10 @@ def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str
         ``X.pdf``; its folder must exist.
     dpi : float
         Pixels per inch of the PNGs.
+    workers : int, optional
+        Processes drawing the PDF and the PNGs side by side
+        (:func:`shotplan.parallel.map_blocks`; ``0``: in this process; by
+        default one per core). The bytes do not depend on it.
 
     Returns
     -------
@@ -685,12 +696,16 @@ def write_sheet_files(figures: Sequence[Figure], pdf_path: str | os.PathLike[str
         (tmp / MARKER).write_text("This folder was written by shotplan (drill sheet). shotplan "
                                   "replaces it as a whole when the sheet is written again.\n",
                                   encoding="utf-8")
+        # Every page drawn twice (PNG and PDF pages): the PDF and each PNG
+        # are blocks of work on every core. All bytes first: a file appears
+        # only when ready.
+        data, *png_data = map_blocks(_page_bytes, range(len(figures) + 1),
+                                     (tuple(figures), dpi), workers=workers)
         pngs = []
-        for k, fig in enumerate(figures, start=1):
+        for k, png in enumerate(png_data, start=1):
             p = tmp / f"station-{k}.png"
-            atomic_write_bytes(p, figure_bytes(fig, "png", dpi))
+            atomic_write_bytes(p, png)
             pngs.append(folder / p.name)
-        data = pdf_bytes(figures)  # the sheet's bytes first: its temporary file appears only when ready
         atomic_write_bytes(pdf, data)
         digest = hashlib.sha256(data).hexdigest()
         with open(tmp / MARKER, "a", encoding="utf-8") as f:
