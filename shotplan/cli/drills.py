@@ -139,6 +139,7 @@ def run_drill_command(args: argparse.Namespace) -> int:
     from ..drills import LEVELS, SHEET_LEVELS, load_drill, run_drill
     from ..render.sheet import check_stations_folder, stations_folder
     from ..render.stations import write_sheet
+    from .engine import engine_ready
 
     errors = player_errors(args)
     out = None
@@ -153,6 +154,7 @@ def run_drill_command(args: argparse.Namespace) -> int:
                          f"stations{' for ' + str(1 + len(compare)) + ' levels' if compare else ''}"
                          f" make {total:,} simulations, at most {MAX_TOTAL_TRIALS:,} are run; "
                          "give fewer --trials")
+    engine_ready(drill.stations[0].layout)  # says so if it must compile
     with progress_bar("drill") as bar:
         result = run_drill(drill, errors, args.trials, args.seed, progress=bar,
                            source=args.drill, compare=compare, workers=args.workers)

@@ -30,7 +30,8 @@ def _say_compiling() -> None:
 
 
 def engine_ready(layout: Layout) -> float:
-    """Load the engine's machine code by playing one gentle stroke on ``layout``.
+    """Load the engine's machine code: one gentle stroke of a lone cue ball
+    on ``layout``'s table, with its physics.
 
     Compiles instead, with :data:`COMPILE_NOTICE` on stderr, when the code
     is not on disk yet.
@@ -38,7 +39,8 @@ def engine_ready(layout: Layout) -> float:
     Parameters
     ----------
     layout : Layout
-        A playable layout (its table and physics pick the engine).
+        A layout (its table and physics pick the engine; its balls do not
+        matter).
 
     Returns
     -------
@@ -47,10 +49,11 @@ def engine_ready(layout: Layout) -> float:
     """
     t0 = time.perf_counter()
     from ..physics import jit, simulator_for
+    from ..racks import new_layout
     from ..stroke import Stroke
 
     jit.on_first_compile(_say_compiling)
-    positions = layout.positions()
+    positions = new_layout(layout.table).positions()
     ids = list(positions)
     simulator_for(layout.table, layout.physics()).run(
         ids, [positions[i] for i in ids], Stroke(direction_deg=0.0, speed_mps=0.5))

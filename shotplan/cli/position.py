@@ -231,6 +231,9 @@ def run_position(args: argparse.Namespace) -> int:
         errors = PlayerErrors.level(args.level)
     layout = load_layout(args.layout)
     require_playable(layout, args.layout)
+    from .engine import engine_ready
+
+    engine_ready(layout)  # says so if it must compile
     names = [p.name for p in layout.geometry.pockets]
     if args.pocket not in names:
         raise InputError(f"--pocket: {args.pocket!r} is not a pocket of the "

@@ -52,8 +52,10 @@ def run_simulate(args: argparse.Namespace) -> int:
     """
     from ..physics import simulate
     from ..stroke import Stroke
+    from .engine import engine_ready
 
     layout = load_layout(args.layout)
+    engine_ready(layout)  # says so if it must compile
     base = layout.stroke
     given = {"direction_deg": args.direction, "speed_mps": args.speed, "side": args.side,
              "height": args.height, "elevation_deg": args.elevation}
