@@ -181,8 +181,8 @@ def run_plan(args: argparse.Namespace) -> int:
         emit_json(doc)
         return EXIT_OK
     print(f"{args.layout}: {plural(len(result.shots), 'shot')} "
-          f"found ({result.simulations} simulations, {result.seconds * 1000:.0f} ms; "
-          f"engine loaded in {loading * 1000:.0f} ms)")
+          f"found ({result.simulations} simulations, {result.seconds * 1000:.0f} ms) "
+          f"after loading the engine ({loading * 1000:.0f} ms)")
     if shots:
         rows = shot_rows(list(shots), layout.table.length_m, layout.table.width_m)
         for line in format_table(SHOT_COLUMNS, rows):
