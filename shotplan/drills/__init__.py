@@ -21,7 +21,10 @@ The drill file (JSON, UTF-8; our own format) is a titled list of stations::
 ``format`` and ``version`` may be left out, or the path of a layout file,
 relative to the drill file's folder), the ``ball`` to pocket and its
 ``pocket``; optionally a cue-ball target ``zone`` (see
-:class:`shotplan.position.Zone`), a ``stroke`` (as in
+:class:`shotplan.position.Zone`; or ``{"atlas": NEXT_BALL, "min_window_deg":
+0.5, "grid_m": 0.04}``, the region from which the next ball's best window is
+at least that once this ball is down, computed from its shot atlas when the
+drill runs, :mod:`shotplan.drills.atlas_zones`), a ``stroke`` (as in
 :meth:`shotplan.stroke.Stroke.from_dict`) and a ``note``. A layout's own
 stroke is not used: without a ``stroke`` the settings are found, with a zone
 by the position search (the most robust setting that reaches it, see
@@ -61,12 +64,14 @@ inference, the law of succession, and statistical inference", JASA 22).
 from __future__ import annotations
 
 from ..players import DEFAULT_LEVEL, LEVELS, PlayerErrors
+from .atlas_zones import atlas_zone_label, resolve_atlas_zones
 from .drill_file import (
     DEFAULT_ATTEMPTS,
     DRILL_KEYS,
     FORMAT,
     STATION_KEYS,
     VERSION,
+    AtlasZone,
     Drill,
     Station,
     load_drill,
@@ -98,6 +103,7 @@ __all__ = [
     "DEFAULT_ATTEMPTS",
     "Z95",
     "Station",
+    "AtlasZone",
     "Drill",
     "PlayerErrors",
     "Rate",
@@ -110,4 +116,6 @@ __all__ = [
     "plan_station",
     "simulate_station",
     "run_drill",
+    "resolve_atlas_zones",
+    "atlas_zone_label",
 ]

@@ -27,6 +27,7 @@ __all__ = [
     "DEFAULT_ATTEMPTS",
     "MAX_ATTEMPTS",
     "MAX_STATIONS",
+    "AtlasZone",
     "Station",
     "Drill",
     "load_drill",
@@ -57,6 +58,76 @@ MAX_STATIONS = 200
 
 
 @dataclass(frozen=True, slots=True)
+class AtlasZone:
+    """A station's zone given by the next ball's shot atlas."""
+
+    ball: str
+    """The next ball."""
+    min_window_deg: float = 0.5
+    """The zone is where that ball's best window is at least this, degrees."""
+    grid_m: float = 0.04
+    """The atlas's cell size, m."""
+
+    @classmethod
+    def from_dict(cls, data: Mapping[str, Any], where: str, layout: Layout,
+                  ball: str) -> AtlasZone:
+        """Read ``{"atlas": NEXT_BALL, "min_window_deg": X, "grid_m": M}``.
+
+        Parameters
+        ----------
+        data : Mapping
+            The zone object.
+        where : str
+            Starts every message.
+        layout : Layout
+            The station's layout.
+        ball : str
+            The station's ball (the next ball must be another).
+
+        Returns
+        -------
+        AtlasZone
+            The checked spec.
+
+        Raises
+        ------
+        LayoutError
+            For an unknown field, a ball that is not another object ball, or
+            a number out of range (one line).
+        """
+        for key in data:
+            if key not in ("atlas", "min_window_deg", "grid_m"):
+                raise LayoutError(f"{where}: unknown field {key!r} beside atlas, must be "
+                                  "atlas, min_window_deg or grid_m")
+        others = [b for b in layout.ball_ids if b not in ("cue", ball)]
+        nxt = data["atlas"]
+        if not isinstance(nxt, str) or nxt not in others:
+            raise LayoutError(f"{where}.atlas: {nxt!r} is not another object ball of the "
+                              f"layout, must be one of {', '.join(others) or '(none)'}")
+        out = {}
+        for key, lo, hi, default in (("min_window_deg", 0.0, 20.0, 0.5),
+                                     ("grid_m", 0.005, 0.5, 0.04)):
+            v = data.get(key, default)
+            if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v) \
+                    or not lo < v <= hi:
+                raise LayoutError(f"{where}.{key}: {v!r} is out of range, must be a number "
+                                  f"above {lo:g} and at most {hi:g}")
+            out[key] = float(v)
+        return cls(nxt, out["min_window_deg"], out["grid_m"])
+
+    def to_dict(self) -> dict[str, Any]:
+        """The zone object of a drill file.
+
+        Returns
+        -------
+        dict
+            ``atlas``, ``min_window_deg``, ``grid_m``.
+        """
+        return {"atlas": self.ball, "min_window_deg": self.min_window_deg,
+                "grid_m": self.grid_m}
+
+
+@dataclass(frozen=True, slots=True)
 class Station:
     """One station of a drill."""
 
@@ -79,6 +150,11 @@ class Station:
     drill file's folder), or None for an inline layout."""
     attempts: int | None = None
     """Attempts the player makes at this station, or None: the drill's."""
+    zone_atlas: AtlasZone | None = None
+    """A zone given as ``{"atlas": NEXT_BALL, ...}``: the region from which the
+    next ball is easy once this one is down, computed from its shot atlas
+    when the drill runs (:func:`shotplan.drills.resolve_atlas_zones` puts it
+    in :attr:`zone`)."""
 
     def to_dict(self) -> dict[str, Any]:
         """The station object of a drill file."""
@@ -94,7 +170,9 @@ class Station:
             out["layout"] = lay
         out["ball"] = self.ball
         out["pocket"] = self.pocket
-        if self.zone is not None:
+        if self.zone_atlas is not None:
+            out["zone"] = self.zone_atlas.to_dict()
+        elif self.zone is not None:
             out["zone"] = self.zone.to_dict()
         if self.stroke is not None:
             out["stroke"] = self.stroke.to_dict()
@@ -212,14 +290,17 @@ def _station(data: Any, where: str, base: Path) -> Station:
     ball = _station_ball(data["ball"], where, layout)
     pocket = _station_pocket(data["pocket"], where, layout)
     zone = None
-    if data.get("zone") is not None:
+    zone_atlas = None
+    if isinstance(data.get("zone"), Mapping) and "atlas" in data["zone"]:
+        zone_atlas = AtlasZone.from_dict(data["zone"], f"{where}: zone", layout, ball)
+    elif data.get("zone") is not None:
         zone = Zone.from_dict(data["zone"], f"{where}: zone").check_on_table(
             layout.geometry, f"{where}: zone")
     stroke = None
     if data.get("stroke") is not None:
         stroke = _station_stroke(data["stroke"], where, layout)
     attempts = _attempts(data.get("attempts"), f"{where}: attempts")
-    return Station(name, layout, ball, pocket, zone, stroke, note, ref, attempts)
+    return Station(name, layout, ball, pocket, zone, stroke, note, ref, attempts, zone_atlas)
 
 
 def _station_layout(raw: Any, where: str, base: Path) -> tuple[Layout, str | None]:

@@ -26,6 +26,7 @@ from ..players import (
 from ..position import PotPlayer, setting_words
 from ..stroke import Stroke
 from ..study import Progress
+from .atlas_zones import resolve_atlas_zones
 from .drill_file import Drill, Station
 
 if TYPE_CHECKING:
@@ -593,6 +594,7 @@ def run_drill(drill: Drill, errors: PlayerErrors, trials: int = 10000, seed: int
         compared levels' in :attr:`DrillResult.compared`.
     """
     _check_trials(trials, seed)
+    drill = resolve_atlas_zones(drill, workers=workers)  # zones given by a next ball's atlas
     others = [e for e in compare if e != errors]
     levels = [errors, *others]
     total = trials * len(drill.stations) * len(levels)
