@@ -32,6 +32,7 @@ from shotplan.cli import main
 from shotplan.errors import InputError
 from shotplan.layout import load_layout
 from shotplan.physics import simulate
+from shotplan.search import find_shots
 from shotplan.stroke import Stroke
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -171,16 +172,64 @@ def _strict(text: str) -> object:
     return json.loads(text, parse_constant=refuse)
 
 
-def test_command_json_is_strict_and_complete(capsys):
+CONTRACT_KEYS = {"x", "y", "window_deg", "window_mm", "rate", "pocket", "kind", "direction_deg",
+                 "speed_mps", "side", "height"}
+"""The keys of each cell in the issue's contract (#16)."""
+
+
+def test_command_json_follows_the_contract(capsys, tmp_path):
+    csv = tmp_path / "a.csv"
     code = main(["atlas", str(CUT), "--ball", "2", "--grid", "0.3", "--kinds", "direct",
-                 "--workers", "0", "--json"])
+                 "--workers", "0", "--json", "--csv", str(csv)])
     out, err = capsys.readouterr()
     assert code == 0, err
     doc = _strict(out)
-    assert isinstance(doc, dict)
-    n = doc["nx"] * doc["ny"]
-    assert all(len(v) == n for v in doc["cells"].values())
-    assert doc["summary"]["open_cells"] == sum(doc["cells"]["open"])
+    assert isinstance(doc, dict) and doc["ball"] == "2" and doc["grid_m"] == 0.3
+    cells = doc["cells"]
+    assert len(cells) == doc["summary"]["open_cells"] > 0  # one per legal spot
+    for cell in cells:
+        assert CONTRACT_KEYS <= set(cell)
+        assert cell["rate"] is None  # no level given
+        if cell["window_deg"] == 0:
+            assert cell["pocket"] is None
+    header = csv.read_text().splitlines()[0].split(",")
+    assert CONTRACT_KEYS <= set(header) and len(csv.read_text().splitlines()) == len(cells) + 1
+    code = main(["atlas", str(CUT), "--ball", "2", "--grid", "0.3", "--kinds", "direct",
+                 "--workers", "0", "--json", "--level", "club"])
+    with_level = _strict(capsys.readouterr()[0])
+    assert all(c["rate"] is not None for c in with_level["cells"])
+
+
+def test_atlas_agrees_with_plan_at_random_spots(layout):
+    # The contract's check: the atlas's best window equals plan's for the
+    # same cue-ball spot (every spot of a full search), to 0.01 degrees.
+    job = AtlasJob(layout, "2", cell_m=0.15, adaptive=False)
+    atlas = run_atlas(job, workers=0)
+    rng = np.random.default_rng(3)
+    spots = np.argwhere(atlas.grid.open)
+    for r, c in spots[rng.choice(len(spots), 6, replace=False)]:
+        here = layout.with_ball("cue", (float(atlas.grid.x[c]), float(atlas.grid.y[r])))
+        res = find_shots(here, balls=["2"], top=1)
+        best = res.shots[0].window_deg if res.shots else 0.0
+        assert atlas.maps["window_deg"][r, c] == pytest.approx(best, abs=0.01)
+
+
+def test_mirror_symmetric_table_gives_a_mirror_symmetric_atlas():
+    # A ball on the long string of a table whose pockets mirror about it: the
+    # atlas at (x, y) is the atlas at (x, W - y) (geometry; stun shots have no
+    # side, so the physics mirrors too), to one bisection step per edge.
+    from shotplan.equipment import TableSpec
+    from shotplan.layout import Layout
+
+    spec = TableSpec.preset("pool-9ft")
+    lay = Layout(spec, (("cue", (0.5, 0.3)), ("7", (1.9, spec.width_m / 2))))
+    atlas = run_atlas(AtlasJob(lay, "7", cell_m=0.12, kinds=("direct", "bank")), workers=0)
+    w = np.nan_to_num(atlas.maps["window_deg"], nan=-1.0)
+    assert np.array_equal(atlas.grid.open, atlas.grid.open[::-1])
+    assert np.abs(w - w[::-1]).max() <= 0.011
+    agree = [(atlas.pocket[r, c] is None) == (atlas.pocket[-1 - r, c] is None)
+             for r, c in np.argwhere(atlas.grid.open)]
+    assert all(agree)
 
 
 @pytest.mark.parametrize("argv,needle", [

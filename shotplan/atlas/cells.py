@@ -25,7 +25,7 @@ from __future__ import annotations
 import hashlib
 import json
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -41,7 +41,8 @@ __all__ = ["AtlasJob", "BlockResult", "compute_block", "aim_rate", "CELL_FLOATS"
 CELL_FLOATS = ("window_deg", "window_mm", "rate", "direction_deg", "speed_mps", "side",
                "height")
 """The numbers kept for every cell (NaN where a cell is closed; a window of 0
-and NaN settings where it is open but no shot pockets the ball)."""
+and NaN settings where it is open but no shot pockets the ball; the rate NaN
+when the job has no player)."""
 
 
 def aim_rate(low_deg: float, high_deg: float, aim_sd_deg: float) -> float:
@@ -87,8 +88,9 @@ class AtlasJob:
     """Tip choice of every shot."""
     speed: float | None = None
     """Launch speed of every shot (None: a sensible pace per shot)."""
-    player: PlayerErrors = field(default_factory=lambda: PlayerErrors.level("club"))
-    """The player whose aim error gives the rate (and whose tip room the search keeps)."""
+    player: PlayerErrors | None = None
+    """The player whose aim error gives the rate and whose tip room the search
+    keeps; None: no rate (NaN), and the search's default level's tip room."""
     adaptive: bool = True
     """Search a coarse lattice first and fill smooth squares from their
     corners (:mod:`shotplan.atlas.adaptive`); False searches every cell."""
@@ -133,8 +135,9 @@ class AtlasJob:
         """
         data = {"layout": self.layout.to_dict(), "ball": self.ball, "cell_m": self.cell_m,
                 "pockets": list(self.pockets), "kinds": list(self.kinds), "tip": self.tip,
-                "speed": self.speed, "aim_sd_deg": self.player.aim_sd_deg,
-                "speed_sd_pct": self.player.speed_sd_pct, "tip_sd": self.player.tip_sd,
+                "speed": self.speed,
+                "player": None if self.player is None else [
+                    self.player.aim_sd_deg, self.player.speed_sd_pct, self.player.tip_sd],
                 "adaptive": self.adaptive, "lattice": self.lattice}
         text = json.dumps(data, sort_keys=True, separators=(",", ":"))
         return hashlib.sha256(text.encode()).hexdigest()[:16]
@@ -234,15 +237,17 @@ def compute_block(job: AtlasJob, phase: str, block: int, cells: np.ndarray) -> B
         sims += res.simulations
         values["window_deg"][n] = 0.0
         values["window_mm"][n] = 0.0
-        values["rate"][n] = 0.0
+        if job.player is not None:
+            values["rate"][n] = 0.0
         if not res.shots:
             continue
         s = res.shots[0]
         values["window_deg"][n] = s.window_deg
         values["window_mm"][n] = s.window_mm
-        values["rate"][n] = aim_rate(s.window_low_deg - s.direction_deg,
-                                     s.window_high_deg - s.direction_deg,
-                                     job.player.aim_sd_deg)
+        if job.player is not None:
+            values["rate"][n] = aim_rate(s.window_low_deg - s.direction_deg,
+                                         s.window_high_deg - s.direction_deg,
+                                         job.player.aim_sd_deg)
         values["direction_deg"][n] = s.direction_deg
         values["speed_mps"][n] = s.speed_mps
         values["side"][n] = s.side

@@ -17,8 +17,11 @@ from .grid import Grid
 
 __all__ = ["Atlas", "assemble", "CSV_COLUMNS"]
 
-CSV_COLUMNS = ("x_m", "y_m", "open", "searched", *CELL_FLOATS, "pocket", "kind")
-"""Columns of ``shotplan atlas --csv``, one row per cell."""
+CSV_COLUMNS = ("x", "y", "window_deg", "window_mm", "rate", "pocket", "kind", "direction_deg",
+               "speed_mps", "side", "height", "searched")
+"""Columns of ``shotplan atlas --csv`` (one row per legal cue-ball spot) and
+keys of each of ``--json``'s ``cells``: the issue's contract, then
+``searched`` (the spot was searched, not filled in from the lattice)."""
 
 
 @dataclass(frozen=True)
@@ -100,7 +103,7 @@ class Atlas:
         return (float(self.grid.x[col]), float(self.grid.y[row]))
 
     def rows(self) -> Iterable[tuple[Any, ...]]:
-        """One tuple per cell, in :data:`CSV_COLUMNS` order (row-major).
+        """One tuple per legal cue-ball spot, in :data:`CSV_COLUMNS` order (row-major).
 
         Returns
         -------
@@ -110,10 +113,13 @@ class Atlas:
         ny, nx = self.grid.shape
         for r in range(ny):
             for c in range(nx):
-                yield (float(self.grid.x[c]), float(self.grid.y[r]), bool(self.grid.open[r, c]),
-                       bool(self.searched[r, c]),
-                       *(float(self.maps[n][r, c]) for n in CELL_FLOATS),
-                       self.pocket[r, c], self.kind[r, c])
+                if not self.grid.open[r, c]:
+                    continue
+                m = {n: float(self.maps[n][r, c]) for n in CELL_FLOATS}
+                yield (float(self.grid.x[c]), float(self.grid.y[r]), m["window_deg"],
+                       m["window_mm"], m["rate"], self.pocket[r, c], self.kind[r, c],
+                       m["direction_deg"], m["speed_mps"], m["side"], m["height"],
+                       bool(self.searched[r, c]))
 
     def to_csv(self) -> str:
         """The CSV text of ``--csv``: a header line, then one line per cell;
@@ -159,7 +165,8 @@ class Atlas:
             "best_window_deg": float(with_shot.max()) if with_shot.size else 0.0,
             "median_window_deg": float(np.median(with_shot)) if with_shot.size else 0.0,
             "best_spot": list(best) if best is not None else None,
-            "median_rate": float(np.median(rate)) if rate.size else 0.0,
+            "median_rate": (float(np.median(rate)) if rate.size and self.job.player is not None
+                            else None),
         }
 
     def to_dict(self) -> dict[str, Any]:
@@ -168,12 +175,16 @@ class Atlas:
         Returns
         -------
         dict
-            The job's settings, the grid, the summary and ``cells``: one
-            list per field, row-major (``nx`` cells per row, ``ny`` rows), null
-            where a cell has no value.
+            ``ball``, ``grid_m`` and ``cells`` (one object per legal
+            cue-ball spot, keys :data:`CSV_COLUMNS`; a spot with no shot
+            has ``window_deg`` 0 and ``pocket`` null; ``rate`` is null
+            without a player), then the settings, the grid's size, the
+            summary and the cost.
         """
-        def clean(a: np.ndarray) -> list[Any]:
-            return [None if not math.isfinite(v) else round(float(v), 6) for v in a.ravel()]
+        def clean(v: Any) -> Any:
+            if isinstance(v, float):
+                return None if not math.isfinite(v) else round(v, 6)
+            return v
 
         job = self.job
         return {
@@ -181,24 +192,17 @@ class Atlas:
             "pockets": list(job.pockets),
             "kinds": list(job.kinds),
             "tip": job.tip,
-            "speed_mps": job.speed,
-            "level": job.player.name,
-            "aim_sd_deg": job.player.aim_sd_deg,
+            "launch_speed_mps": job.speed,
+            "level": None if job.player is None else job.player.name,
+            "aim_sd_deg": None if job.player is None else job.player.aim_sd_deg,
             "adaptive": job.adaptive,
             "searched_cells": int(self.searched.sum()),
             "grid_m": self.grid.cell_m,
             "nx": int(self.grid.shape[1]),
             "ny": int(self.grid.shape[0]),
-            "x_m": [float(v) for v in self.grid.x],
-            "y_m": [float(v) for v in self.grid.y],
             "summary": self.summary(),
-            "cells": {
-                "open": [bool(v) for v in self.grid.open.ravel()],
-                "searched": [bool(v) for v in self.searched.ravel()],
-                **{name: clean(self.maps[name]) for name in CELL_FLOATS},
-                "pocket": list(self.pocket.ravel()),
-                "kind": list(self.kind.ravel()),
-            },
+            "cells": [dict(zip(CSV_COLUMNS, (clean(v) for v in row), strict=True))
+                      for row in self.rows()],
             "simulations": self.simulations,
             "seconds": round(self.seconds, 3),
             "workers": self.workers,

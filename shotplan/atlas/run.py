@@ -189,7 +189,7 @@ class AtlasCluster:
 
             if self.scheduler is not None:
                 try:
-                    self._client = Client(self.scheduler, timeout="10s")
+                    self._client = Client(self.scheduler, timeout="4s")
                 except OSError as exc:
                     raise InputError(f"--scheduler {self.scheduler}: cannot reach the "
                                      f"scheduler: {exc}, must be the address a running "

@@ -123,7 +123,11 @@ def _plan(args: argparse.Namespace, where: str = "") -> _Planned:
     if metric == "window_deg" and any(v <= 0.0 for v in contours):
         raise InputError(f"{where}--contours: {args.contours!r} has a value out of range, "
                          "windows must be above 0 degrees")
-    player = player_errors(args)
+    given = (args.level, args.aim_sd, args.speed_sd, args.tip_sd)
+    player = player_errors(args) if any(v is not None for v in given) else None
+    if metric == "rate" and player is None:
+        raise InputError(f"{where}--show rate: the rate needs a player, give --level NAME (or "
+                         "--aim-sd DEG)")
     layout = load_layout(args.layout)
     require_playable(layout, args.layout)
     job = AtlasJob(layout, args.ball, cell_m=args.grid, pockets=tuple(args.pocket or ()),
@@ -267,6 +271,7 @@ def print_atlas(atlas: Atlas, source: str) -> list[str]:
         x, y = s["best_spot"]
         lines.append(f"widest window: {s['best_window_deg']:.2f} deg from ({x:.2f}, {y:.2f}) m; "
                      f"median {s['median_window_deg']:.2f} deg")
-    lines.append(f"median success rate for a {job.player.name} player's aim error "
-                 f"({job.player.aim_sd_deg:g} deg): {s['median_rate'] * 100:.0f} %")
+    if job.player is not None and s["median_rate"] is not None:
+        lines.append(f"median success rate for a {job.player.name} player's aim error "
+                     f"({job.player.aim_sd_deg:g} deg): {s['median_rate'] * 100:.0f} %")
     return lines

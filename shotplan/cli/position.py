@@ -168,7 +168,6 @@ def atlas_zone(layout: Layout, ball: str, spec: tuple[str, float],
         ball, or is easy from nowhere.
     """
     from ..atlas import AtlasJob, run_atlas
-    from ..players import DEFAULT_LEVEL, PlayerErrors
     from ..position import Zone
     from .progress import progress_bar
 
@@ -181,14 +180,13 @@ def atlas_zone(layout: Layout, ball: str, spec: tuple[str, float],
         raise InputError(f"--ball: {ball!r} is not a ball of the layout, must be one of "
                          f"{', '.join(b for b in layout.ball_ids if b != 'cue')}")
     after = layout.without_ball(ball)
-    player = errors if errors is not None else PlayerErrors.level(DEFAULT_LEVEL)
-    job = AtlasJob(after, nxt, cell_m=grid_m, player=player)
+    job = AtlasJob(after, nxt, cell_m=grid_m, player=errors)
     with progress_bar(f"atlas of ball {nxt}") as bar:
         atlas = run_atlas(job, progress=bar)
     name = "rate" if errors is not None else "window_deg"
     region = atlas.region(name, minimum)
     label = (f"ball {nxt} pocketed at least {minimum * 100:g} % of the time by a "
-             f"{player.name} player" if errors is not None
+             f"{errors.name} player" if errors is not None
              else f"ball {nxt}'s best window at least {minimum:g} deg")
     if region.is_empty:
         raise InputError(f"--zone: no cue-ball spot has {label} once ball {ball} is down; "

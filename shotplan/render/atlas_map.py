@@ -159,8 +159,10 @@ def atlas_scene(atlas: Atlas, metric: str = "window_deg", contours: Sequence[flo
         x += 0.27
     scene = Scene(base.shapes + tuple(shapes), (xmin, ymin - strip, xmax, ymax))
     s = atlas.summary()
-    what = "best window" if metric == "window_deg" else \
-        f"success rate ({job.player.name} aim error {job.player.aim_sd_deg:g}\u00b0)"
+    if metric == "window_deg" or job.player is None:
+        what = "best window"
+    else:
+        what = f"success rate ({job.player.name} aim error {job.player.aim_sd_deg:g}\u00b0)"
     default_title = (lay.title + ": " if lay.title else "") + \
         f"atlas of ball {job.ball}: {what} from every cue-ball spot"
     default_note = (f"{s['open_cells']} spots on a {grid.cell_m * 100:g} cm grid, "
