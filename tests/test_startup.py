@@ -1,0 +1,91 @@
+"""Start-up: a command imports only what it needs; the engine's kernels
+compile once per argument types; a compile is announced once; plan reports
+its search apart from the engine's loading. (Times are measured in
+benchmarks/bench_startup.py, never asserted here.)"""
+
+from __future__ import annotations
+
+import importlib.util
+import re
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from shotplan.physics import jit
+
+ROOT = Path(__file__).resolve().parent.parent
+CUT = ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json"
+
+
+def _modules_after(argv: list[str]) -> set[str]:
+    """The modules loaded by a whole command, as the interpreter records them."""
+    code = ("import sys, io, contextlib\n"
+            "from shotplan.cli.main import main\n"
+            "with contextlib.redirect_stdout(io.StringIO()):\n"
+            f"    main({argv!r})\n"
+            "print(' '.join(sys.modules))\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         check=True, cwd=ROOT).stdout
+    return set(out.split())
+
+
+def test_tables_loads_neither_numpy_nor_the_engine() -> None:
+    loaded = _modules_after(["tables"])
+    assert "shotplan.cli.tables" in loaded
+    for heavy in ("numpy", "numba", "matplotlib", "scipy", "shotplan.cli.cushion"):
+        assert heavy not in loaded, heavy
+
+
+def test_plan_loads_no_other_command_nor_scipy() -> None:
+    loaded = _modules_after(["plan", str(CUT), "--top", "1"])
+    assert "numba" in loaded and "shotplan.cli.plan" in loaded
+    for other in ("shotplan.cli.cushion", "shotplan.cli.study", "shotplan.cli.drills",
+                  "matplotlib", "scipy.linalg", "scipy.optimize"):
+        assert other not in loaded, other
+
+
+@pytest.mark.skipif(not jit.JIT_ENABLED, reason="numba is off")
+def test_a_kernel_compiles_once_per_argument_types() -> None:
+    # numba records each compiled signature; a callee handed the literal 2
+    # and then a variable would otherwise be compiled twice (Literal[int](2)
+    # and int64).
+    @jit.jit
+    def twice(n):  # type: ignore[no-untyped-def]
+        return 2 * n
+
+    @jit.jit
+    def caller(k):  # type: ignore[no-untyped-def]
+        return twice(2) + twice(k)
+
+    assert caller(3) == 10  # 2*2 + 2*3, by hand
+    assert len(twice.signatures) == 1  # type: ignore[attr-defined]
+
+
+@pytest.mark.skipif(not jit.JIT_ENABLED, reason="numba is off")
+def test_the_first_compile_is_announced_once(tmp_path: Path) -> None:
+    # Kernels in a module of their own, new to numba's disk cache, so they
+    # compile; the notice comes once for both.
+    (tmp_path / "fresh_kernels.py").write_text(
+        "from shotplan.physics.jit import jit\n\n"
+        "@jit\ndef plus_one(x):\n    return x + 1.0\n\n"
+        "@jit\ndef plus_two(x):\n    return x + 2.0\n", encoding="utf-8")
+    spec = importlib.util.spec_from_file_location("fresh_kernels", tmp_path / "fresh_kernels.py")
+    assert spec is not None and spec.loader is not None
+    fresh = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(fresh)
+    calls: list[int] = []
+    jit.on_first_compile(lambda: calls.append(1))
+    assert fresh.plus_one(1.0) == 2.0 and fresh.plus_two(1.0) == 3.0
+    assert calls == [1]
+
+
+def test_plan_reports_the_search_apart_from_loading(capsys: pytest.CaptureFixture[str]
+                                                     ) -> None:
+    from shotplan.cli import main
+
+    assert main(["plan", str(CUT), "--top", "1"]) == 0
+    first = capsys.readouterr().out.splitlines()[0]
+    assert re.search(r"\(\d+ simulations, \d+ ms\) after loading the engine \(\d+ ms\)$",
+                     first), first
