@@ -12,11 +12,15 @@ so 0, 1 or 16 workers give the very same numbers.
   They are forked where the system can (Linux): a fork inherits the engine's
   machine code already loaded, so a worker starts in milliseconds; elsewhere
   they are spawned, and each loads what it needs.
+* ``client=``: a Dask ``distributed.Client`` (a cluster of machines, or a
+  ``LocalCluster``): ``shared`` is scattered to every worker once and each
+  block is one task; the caller starts and closes the cluster.
 
 What every block needs (a station, a layout) goes to each worker once, as
 ``shared``; the function receives it beside the block. Progress comes back
 in the one shape shotplan uses, ``progress(done, total)``, as blocks finish,
-counted in the blocks' ``sizes``. Ctrl-C in the parent stops the workers at
+counted in the blocks' ``sizes``; ``on_result(k, result)`` sees each block's
+result as it arrives (to keep it on disk, say). Ctrl-C in the parent stops the workers at
 once (they ignore SIGINT themselves, so they print nothing) and raises
 :class:`KeyboardInterrupt` in the caller, with nothing half-returned.
 """
@@ -100,7 +104,9 @@ def _context() -> multiprocessing.context.BaseContext:
 
 def map_blocks(func: Callable[[Any, B], R], blocks: Sequence[B], shared: Any = None, *,
                workers: int | None = None, sizes: Sequence[int] | None = None,
-               progress: Progress | None = None) -> list[R]:
+               progress: Progress | None = None,
+               on_result: Callable[[int, R], None] | None = None,
+               client: Any = None) -> list[R]:
     """``[func(shared, b) for b in blocks]``, on local worker processes.
 
     Parameters
@@ -121,6 +127,12 @@ def map_blocks(func: Callable[[Any, B], R], blocks: Sequence[B], shared: Any = N
     progress : callable, optional
         ``progress(done, total)``: called with 0 first, then as blocks
         finish, in any order of blocks.
+    on_result : callable, optional
+        ``on_result(k, result)`` as block ``k``'s result arrives, before
+        ``progress`` hears of it.
+    client : distributed.Client, optional
+        Run the blocks on this Dask cluster instead (``workers`` is not
+        used).
 
     Returns
     -------
@@ -133,21 +145,32 @@ def map_blocks(func: Callable[[Any, B], R], blocks: Sequence[B], shared: Any = N
         Ctrl-C: the workers are stopped first.
     """
     weights = list(sizes) if sizes is not None else [1] * len(blocks)
+    if len(weights) != len(blocks):
+        raise ValueError(f"{len(weights)} sizes for {len(blocks)} blocks")
     total = sum(weights)
+    results: list[Any] = [None] * len(blocks)
     done = 0
+
+    def arrived(k: int, result: Any) -> None:
+        nonlocal done
+        results[k] = result
+        if on_result is not None:
+            on_result(k, result)
+        done += weights[k]
+        if progress is not None:
+            progress(done, total)
+
     if progress is not None:
         progress(0, total)
+    if client is not None:
+        _on_dask(client, func, blocks, shared, arrived)
+        return results
     n = default_workers() if workers is None else workers
     n = min(n, len(blocks))
     if n <= 0 or len(blocks) == 1:
-        out = []
-        for block, w in zip(blocks, weights, strict=True):
-            out.append(func(shared, block))
-            done += w
-            if progress is not None:
-                progress(done, total)
-        return out
-    results: list[Any] = [None] * len(blocks)
+        for k, block in enumerate(blocks):
+            arrived(k, func(shared, block))
+        return results
     pool = ProcessPoolExecutor(max_workers=n, mp_context=_context(), initializer=_start_worker,
                                initargs=(shared,))
     try:
@@ -156,16 +179,28 @@ def map_blocks(func: Callable[[Any, B], R], blocks: Sequence[B], shared: Any = N
         while pending:
             finished, _ = wait(pending, return_when=FIRST_COMPLETED)
             for fut in finished:
-                k = pending.pop(fut)
-                results[k] = fut.result()
-                done += weights[k]
-                if progress is not None:
-                    progress(done, total)
+                arrived(pending.pop(fut), fut.result())
     except BaseException:
         _stop(pool)
         raise
     pool.shutdown(wait=True)
     return results
+
+
+def _on_dask(client: Any, func: Callable[[Any, Any], Any], blocks: Sequence[Any], shared: Any,
+             arrived: Callable[[int, Any], None]) -> None:
+    """The blocks as tasks of a Dask cluster; whatever is left is cancelled
+    on the way out (done, failed or Ctrl-C)."""
+    from distributed import as_completed
+
+    shared_there = client.scatter(shared, broadcast=True)
+    futures = [client.submit(func, shared_there, b, pure=False) for b in blocks]
+    index = {f.key: k for k, f in enumerate(futures)}
+    try:
+        for fut in as_completed(futures):
+            arrived(index[fut.key], fut.result())
+    finally:
+        client.cancel(futures)
 
 
 def _stop(pool: ProcessPoolExecutor) -> None:

@@ -100,3 +100,21 @@ def test_drill_station_same_with_one_and_two_workers() -> None:
         assert (r.pocket, r.position, r.both, r.miscues, r.scratches) == \
             (first.pocket, first.position, first.both, first.miscues, first.scratches)
         np.testing.assert_array_equal(r.finishes, first.finishes)
+
+
+def test_on_a_dask_cluster_the_same_numbers_and_each_result_as_it_arrives() -> None:
+    distributed = pytest.importorskip("distributed")
+    blocks = split(5_000, 1_000)
+    want = map_blocks(_normal_sum, blocks, 42, workers=0)
+    seen: dict[int, float] = {}
+    with distributed.Client(processes=False, n_workers=1, threads_per_worker=2,
+                            dashboard_address=None) as client:
+        got = map_blocks(_normal_sum, blocks, 42, client=client,
+                         on_result=lambda k, r: seen.__setitem__(k, r))
+    assert got == want
+    assert seen == dict(enumerate(want))
+
+
+def test_sizes_must_match_the_blocks() -> None:
+    with pytest.raises(ValueError, match="2 sizes for 3 blocks"):
+        map_blocks(_square, [1, 2, 3], sizes=[1, 1], workers=0)
