@@ -6,6 +6,7 @@ benchmarks/bench_startup.py, never asserted here.)"""
 from __future__ import annotations
 
 import importlib.util
+import json
 import re
 import subprocess
 import sys
@@ -89,3 +90,15 @@ def test_plan_reports_the_search_apart_from_loading(capsys: pytest.CaptureFixtur
     first = capsys.readouterr().out.splitlines()[0]
     assert re.search(r"\(\d+ simulations, \d+ ms\) after loading the engine \(\d+ ms\)$",
                      first), first
+
+
+def test_the_program_flushes_everything_before_it_ends_itself() -> None:
+    # main() without arguments ends the process itself (os._exit after a
+    # flush): the whole JSON document must still arrive, and the exit code.
+    proc = subprocess.run([sys.executable, "-m", "shotplan", "plan", str(CUT), "--json"],
+                          capture_output=True, text=True, cwd=ROOT, timeout=300)
+    assert proc.returncode == 0, proc.stderr
+    assert len(json.loads(proc.stdout)) == 12  # the README's count for the cut demo
+    bad = subprocess.run([sys.executable, "-m", "shotplan", "check", "no-such-file.json"],
+                         capture_output=True, text=True, cwd=ROOT, timeout=300)
+    assert bad.returncode == 2 and bad.stderr.count("\n") == 1
