@@ -5,6 +5,7 @@ The layout file (JSON, UTF-8) maps onto :class:`Layout` one to one::
     {
       "format": "shotplan-layout", "version": 1,
       "title": "Straight in", "note": "Stun the cue ball dead.",
+      "game": "9-ball",
       "table": "pool-9ft",
       "balls": {"cue": [0.635, 0.635], "1": [1.9, 0.9]},
       "stroke": {"direction_deg": 20.0, "speed_mps": 1.5},
@@ -19,8 +20,9 @@ measured values that replace the profile's. A layout holds at most
 :data:`MAX_BALLS` balls. Positions are metres
 from the cushion noses (see :mod:`shotplan.table`). ``stroke`` follows
 :meth:`shotplan.stroke.Stroke.from_dict`, ``physics`` the fields of
-:class:`shotplan.physics.Physics`; ``title``, ``note``, ``stroke`` and
-``physics`` are optional.
+:class:`shotplan.physics.Physics`; ``game`` names the game whose rules the
+search follows (:data:`shotplan.games.GAMES`, default ``any``: no rules);
+``title``, ``note``, ``game``, ``stroke`` and ``physics`` are optional.
 
 Two kinds of fault are kept apart, as a chess board's status is kept apart
 from its legality of construction:
@@ -64,6 +66,7 @@ from .files.read import (
     value_kind,
 )
 from .files.write import atomic_write_text, check_output_path
+from .games import check_game
 from .physics.params import Physics
 from .placement import mm_text, placement_fault, position_text
 from .stroke import Stroke
@@ -101,7 +104,7 @@ has 22), and it keeps the ball-against-ball checks (every pair) small."""
 
 
 LAYOUT_KEYS: tuple[str, ...] = (
-    "format", "version", "title", "note", "table", "balls", "stroke", "physics",
+    "format", "version", "title", "note", "game", "table", "balls", "stroke", "physics",
 )
 """The top-level fields of a layout file, in the order they are written."""
 
@@ -154,8 +157,12 @@ class Layout:
     """A short title (diagram heading)."""
     note: str = ""
     """A longer note (diagram caption, coaching text)."""
+    game: str = "any"
+    """The game the layout is played in (:data:`shotplan.games.GAMES`):
+    ``any`` (no rules, the default) or a game whose rules the search follows."""
 
     def __post_init__(self) -> None:
+        check_game(self.game, "layout: game")
         if not isinstance(self.table, TableSpec):
             raise LayoutError(f"layout: table must be a TableSpec, not {type(self.table).__name__}")
         object.__setattr__(self, "balls", _normalise_balls(self.balls))
@@ -391,7 +398,7 @@ class Layout:
         values: dict[str, Any] = {
             "table": self.table, "balls": self.balls, "stroke": self.stroke,
             "physics_overrides": self.physics_overrides, "title": self.title,
-            "note": self.note,
+            "note": self.note, "game": self.game,
         }
         values.update(changes)
         return Layout(**values)
@@ -410,6 +417,8 @@ class Layout:
             out["title"] = self.title
         if self.note:
             out["note"] = self.note
+        if self.game != "any":
+            out["game"] = self.game
         out["table"] = table_to_object(self.table)
         out["balls"] = {b: [x, y] for b, (x, y) in self.balls}
         if self.stroke is not None:
@@ -494,15 +503,9 @@ class Layout:
             except PhysicsError as e:
                 raise LayoutError(str(e)) from e
             physics = tuple(data["physics"].items())
-        texts = {}
-        for key in ("title", "note"):
-            value = data.get(key, "")
-            if value is None:
-                value = ""
-            if not isinstance(value, str):
-                raise LayoutError(f"{where}: {key}: {show_value(value)} is not text, must be a string")
-            texts[key] = value
-        return cls(table=table, balls=balls, stroke=stroke, physics_overrides=physics, **texts)
+        return cls(table=table, balls=balls, stroke=stroke, physics_overrides=physics,
+                   game=check_game(data.get("game"), f"{where}: game"),
+                   **_texts_from_json(data, where))
 
     @classmethod
     def from_json(cls, text: str, where: str = "layout") -> Layout:
@@ -607,6 +610,18 @@ class _Missing:
 
 
 _MISSING: Any = _Missing()
+
+
+def _texts_from_json(data: Mapping[str, Any], where: str) -> dict[str, str]:
+    texts = {}
+    for key in ("title", "note"):
+        value = data.get(key, "")
+        if value is None:
+            value = ""
+        if not isinstance(value, str):
+            raise LayoutError(f"{where}: {key}: {show_value(value)} is not text, must be a string")
+        texts[key] = value
+    return texts
 
 
 def _table_from_json(value: Any, where: str,

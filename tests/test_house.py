@@ -25,7 +25,7 @@ LAYERS: list[set[str]] = [
     {"errors", "units"},
     {"files", "equipment", "players", "parallel"},
     {"table", "tablefile"},
-    {"stroke", "aim", "placement"},
+    {"stroke", "aim", "placement", "games"},
     {"physics"},
     {"layout"},
     {"search", "racks"},

@@ -31,6 +31,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import InputError
+from ..games import Rules
 from ..layout import Layout
 from ..players import PlayerErrors
 from ..search import KINDS, TIPS, find_shots
@@ -94,6 +95,8 @@ class AtlasJob:
     adaptive: bool = True
     """Search a coarse lattice first and fill smooth squares from their
     corners (:mod:`shotplan.atlas.adaptive`); False searches every cell."""
+    rules: Rules | None = None
+    """A game's rules every shot must follow (None: no rules)."""
     lattice: int | None = None
     """Cells per side of the lattice's squares (None: the most whose diagonal
     is under four ball radii, :func:`shotplan.atlas.adaptive.lattice_step`)."""
@@ -138,7 +141,9 @@ class AtlasJob:
                 "speed": self.speed,
                 "player": None if self.player is None else [
                     self.player.aim_sd_deg, self.player.speed_sd_pct, self.player.tip_sd],
-                "adaptive": self.adaptive, "lattice": self.lattice}
+                "adaptive": self.adaptive, "lattice": self.lattice,
+                "rules": None if self.rules is None else [
+                    self.rules.game, self.rules.group, self.rules.on]}
         text = json.dumps(data, sort_keys=True, separators=(",", ":"))
         return hashlib.sha256(text.encode()).hexdigest()[:16]
 
@@ -233,7 +238,7 @@ def compute_block(job: AtlasJob, phase: str, block: int, cells: np.ndarray) -> B
         here = job.layout.with_ball("cue", grid.centre(int(cell)))
         res = find_shots(here, balls=[job.ball], pockets=list(job.pockets) or None,
                          kinds=job.kinds, speed=job.speed, tip=job.tip,
-                         top=1, physics=physics, player=job.player)
+                         top=1, physics=physics, player=job.player, rules=job.rules)
         sims += res.simulations
         values["window_deg"][n] = 0.0
         values["window_mm"][n] = 0.0

@@ -52,7 +52,7 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
 def _add_atlas_options(p: argparse.ArgumentParser) -> None:
     """Add every option of ``atlas`` (also read from each line of ``--batch``)."""
     from .drills import add_error_options
-    from .plan import add_shot_options
+    from .plan import add_game_options, add_shot_options
 
     p.add_argument("layout", metavar="LAYOUT", nargs="?", help="layout file (.json)")
     p.add_argument("--ball", metavar="ID", help="object ball to pocket")
@@ -60,6 +60,7 @@ def _add_atlas_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--grid", type=number(), default=0.02, metavar="M",
                    help="cell size, m (default 0.02)")
     add_error_options(p)
+    add_game_options(p)
     p.add_argument("--show", choices=("window", "rate"), default="window",
                    help="what the picture maps: the best window in degrees (default) or the "
                         "success rate the aim error allows")
@@ -109,6 +110,7 @@ def _plan(args: argparse.Namespace, where: str = "") -> _Planned:
     from ..atlas import AtlasJob, make_grid
     from ..layout import load_layout
     from .drills import player_errors
+    from .plan import game_rules
 
     if args.layout is None or args.ball is None:
         raise InputError(f"{where}LAYOUT and --ball are needed (or --batch LIST)")
@@ -132,7 +134,7 @@ def _plan(args: argparse.Namespace, where: str = "") -> _Planned:
     require_playable(layout, args.layout)
     job = AtlasJob(layout, args.ball, cell_m=args.grid, pockets=tuple(args.pocket or ()),
                    kinds=tuple(split_list(args.kinds)), tip=args.tip, speed=args.speed,
-                   player=player, adaptive=not args.full_search)
+                   player=player, adaptive=not args.full_search, rules=game_rules(args, layout))
     make_grid(layout, args.grid)  # a bad --grid is one line before any work
     return _Planned(args.layout, job, out, csv, metric, contours, args.dpi, args.resume)
 

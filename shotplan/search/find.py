@@ -11,6 +11,7 @@ import numpy as np
 
 from ..aim import aim_at
 from ..errors import InputError
+from ..games import Rules
 from ..physics import Physics, simulator_for
 from ..physics.run import StrokePlayer
 from ..players import DEFAULT_LEVEL, PlayerErrors, level_tip_room
@@ -66,6 +67,29 @@ def _object_balls(ids: list[str], balls: Sequence[str] | None) -> list[int]:
     return [ids.index(wanted) for wanted in balls]
 
 
+def _by_the_rules(board: Board, cands: list[Candidate], rules: Rules
+                  ) -> tuple[list[Candidate], list[Rejected]]:
+    """The candidates whose first ball is a ball on and whose ball may fall,
+    and the others rejected, naming the rule."""
+    first_ok = set(rules.first_allowed())
+    pot_ok = set(rules.pot_allowed())
+    keep: list[Candidate] = []
+    out: list[Rejected] = []
+    rule = rules.source
+    for c in cands:
+        first, last = board.ids[c.first], board.ids[c.last]
+        if first not in first_ok:
+            out.append(board.rejected(c.kind, c.balls, c.pocket, c.rails,
+                                      f"first contact on {first}, the rules need "
+                                      f"{rules.describe_on()} ({rule})"))
+        elif last not in pot_ok:
+            out.append(board.rejected(c.kind, c.balls, c.pocket, c.rails,
+                                      f"{last} may not be pocketed now ({rule})"))
+        else:
+            keep.append(c)
+    return keep, out
+
+
 def _candidates(board: Board, obj: list[int], pocket_ids: list[int], kinds: Sequence[str]
                 ) -> tuple[list[Candidate], list[Rejected]]:
     """Every candidate of the wanted kinds for these balls and pockets, and
@@ -102,6 +126,7 @@ def find_shots(
     max_cut_deg: float = MAX_CUT_DEG,
     physics: Physics | None = None,
     player: PlayerErrors | None = None,
+    rules: Rules | None = None,
 ) -> SearchResult:
     """Every shot on the layout that pockets a ball, best first.
 
@@ -127,6 +152,12 @@ def find_shots(
         The player's errors: the heights the search chooses keep the tip
         inside this player's tip room (:func:`shotplan.players.tip_room`);
         default the club level.
+    rules
+        A game's rules (:class:`shotplan.games.Rules`): candidates whose
+        first ball is not a ball on or whose ball may not fall are rejected
+        by the rule, and every simulated stroke must be legal and score (a
+        scratch is a foul whatever ``allow_scratch``). None (or the game
+        ``any``): no rules.
     """
     t_start = time.perf_counter()
     phys = physics if physics is not None else layout.physics()
@@ -151,7 +182,12 @@ def find_shots(
     obj = _object_balls(ids, balls)
     board = Board(table, ids, pos, sp.cue, sim.radius, rails_of(table), max_cut_deg)
     cands, rejected = _candidates(board, obj, pocket_ids, kinds)
-    settings = Settings(speed, tip, side, allow_scratch, height, room)
+    if rules is not None and rules.game == "any":
+        rules = None
+    if rules is not None:
+        cands, by_rule = _by_the_rules(board, cands, rules)
+        rejected += by_rule
+    settings = Settings(speed, tip, side, allow_scratch, height, room, rules)
     shots: list[Shot] = []
     for cand in cands:
         shot, why = evaluate(sp, table, cand, settings)

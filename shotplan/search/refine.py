@@ -15,6 +15,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from ..aim import aim_at, contact_fraction, direction_deg
+from ..games import Rules, Verdict
 from ..physics.run import Run, StrokePlayer
 from ..physics.state import EV_ROLLING
 from ..players import safe_height
@@ -24,7 +25,7 @@ from .candidates import Candidate, angle_diff_rad, pocket_target
 from .explain import miss_reason
 from .shots import MIN_WINDOW_DEG, WINDOW_STEP_DEG, Shot
 
-__all__ = ["Settings", "error_fn", "refine", "window", "evaluate"]
+__all__ = ["Settings", "error_fn", "refine", "window", "evaluate", "judge_run"]
 
 ErrorFn = Callable[[Run], tuple[float, float] | None]
 
@@ -45,6 +46,35 @@ class Settings:
     """Tip height for every shot instead of the tip choice."""
     room: float = math.inf
     """Tip room the chosen heights keep inside, ball radii."""
+    rules: Rules | None = None
+    """A game's rules every stroke is judged by (None: no game, today's
+    behaviour: the planned ball into the planned pocket, no scratch unless
+    allowed)."""
+
+
+def judge_run(player: StrokePlayer, run: Run, rules: Rules, target: int) -> Verdict:
+    """The game's verdict on a simulated stroke.
+
+    Parameters
+    ----------
+    player : StrokePlayer
+        The player that ran it.
+    run : Run
+        The run.
+    rules : Rules
+        The game.
+    target : int
+        Index of the ball the shot was planned to pocket.
+
+    Returns
+    -------
+    Verdict
+        Legal, scores, and the rule that failed.
+    """
+    ids = player.ids
+    other = run.first_collision(player.cue)[1]
+    pocketed = [ids[i] for i in range(len(ids)) if run.pocket_of(i) >= 0]
+    return rules.judge(ids[other] if other >= 0 else None, pocketed, ids[target])
 
 
 def _planned_event(run: Run, cand: Candidate, cue: int, n_rails: int) -> tuple[int, int] | None:
@@ -230,6 +260,11 @@ def _find_aim(player: StrokePlayer, table: Table, cand: Candidate, s: Settings,
         if not player.pots(run, cand.first, cand.last, cand.pocket):
             why = miss_reason(player, table, cand, run)
             continue
+        if s.rules is not None:
+            verdict = judge_run(player, run, s.rules, cand.last)
+            if not verdict.scores:
+                why = verdict.reason
+                continue
         scratch = run.pocket_of(cue) >= 0
         if scratch and not s.allow_scratch:
             why = f"scratches (cue ball into {table.pockets[run.pocket_of(cue)].name})"
@@ -247,8 +282,13 @@ def evaluate(player: StrokePlayer, table: Table, cand: Candidate, s: Settings
     if found is None:
         return None, why
 
+    rules = s.rules
+
     def ok(p: float) -> bool:
         run = player.play(p, found.speed, s.side, found.height)
+        if rules is not None:
+            return (player.pots(run, cand.first, cand.last, cand.pocket)
+                    and judge_run(player, run, rules, cand.last).scores)
         return (player.pots(run, cand.first, cand.last, cand.pocket)
                 and (s.allow_scratch or run.pocket_of(cue) < 0))
 
