@@ -102,3 +102,9 @@ def test_the_program_flushes_everything_before_it_ends_itself() -> None:
     bad = subprocess.run([sys.executable, "-m", "shotplan", "check", "no-such-file.json"],
                          capture_output=True, text=True, cwd=ROOT, timeout=300)
     assert bad.returncode == 2 and bad.stderr.count("\n") == 1
+
+
+def test_the_notice_variable_is_one_name() -> None:
+    from shotplan.cli import engine
+
+    assert engine.NOTICE_VARIABLE == jit.NOTICE_VARIABLE

@@ -18,7 +18,12 @@ from typing import TYPE_CHECKING
 if TYPE_CHECKING:
     from ..layout import Layout
 
-__all__ = ["COMPILE_NOTICE", "engine_ready", "compile_all", "main"]
+__all__ = ["COMPILE_NOTICE", "NOTICE_VARIABLE", "engine_ready", "compile_all", "main"]
+
+NOTICE_VARIABLE = "SHOTPLAN_COMPILE_NOTICE"
+"""The environment variable :mod:`shotplan.physics.jit` reads the notice
+from (``jit.NOTICE_VARIABLE``; written here too so that setting it does not
+load numba)."""
 
 COMPILE_NOTICE = ("shotplan: compiling the physics engine; this happens once "
                   "(make run or make test does it in set-up)...")
@@ -29,7 +34,11 @@ def _say_compiling() -> None:
     print(COMPILE_NOTICE, file=sys.stderr, flush=True)
 
 
-def engine_ready(layout: Layout) -> float:
+def _say_nothing() -> None:
+    pass
+
+
+def engine_ready(layout: Layout, notice: bool = True) -> float:
     """Load the engine's machine code: one gentle stroke of a lone cue ball
     on ``layout``'s table, with its physics.
 
@@ -41,6 +50,8 @@ def engine_ready(layout: Layout) -> float:
     layout : Layout
         A layout (its table and physics pick the engine; its balls do not
         matter).
+    notice : bool
+        Say so on stderr if it compiles (the set-up says it otherwise).
 
     Returns
     -------
@@ -52,7 +63,7 @@ def engine_ready(layout: Layout) -> float:
     from ..racks import new_layout
     from ..stroke import Stroke
 
-    jit.on_first_compile(_say_compiling)
+    jit.on_first_compile(_say_compiling if notice else _say_nothing)
     positions = new_layout(layout.table).positions()
     ids = list(positions)
     simulator_for(layout.table, layout.physics()).run(
@@ -77,7 +88,7 @@ def compile_all() -> None:
 
     spec = TableSpec.preset("pool-9ft")
     layout = Layout(spec, tuple(rack("9-ball", spec).items()))
-    engine_ready(layout)
+    engine_ready(layout, notice=False)
     outcome = simulate(layout, Stroke(direction_deg=0.0, speed_mps=7.0))
     outcome.path("cue")
     outcome.states(0.5)

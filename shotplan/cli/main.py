@@ -166,6 +166,12 @@ def main(argv: Sequence[str] | None = None) -> int:
         The exit code: 0 done, 2 bad input or usage, 1 an internal error or
         a reader that went away, 128 + N after signal N.
     """
+    if argv is None:
+        import os
+
+        from .engine import COMPILE_NOTICE, NOTICE_VARIABLE
+
+        os.environ.setdefault(NOTICE_VARIABLE, COMPILE_NOTICE)  # for any command that compiles
     code = _main(argv)
     if argv is None:
         exit_now(code)

@@ -24,7 +24,7 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any, TypeAlias, cast
 
-__all__ = ["jit", "JIT_ENABLED", "Kernel", "cache_dir", "on_first_compile"]
+__all__ = ["jit", "JIT_ENABLED", "Kernel", "cache_dir", "on_first_compile", "NOTICE_VARIABLE"]
 
 Kernel: TypeAlias = Callable[..., Any]
 """The type of a kernel as the rest of the code sees it. numba infers a
@@ -105,6 +105,11 @@ def on_first_compile(notice: Callable[[], None]) -> None:
     _notice[:] = [notice]
 
 
+NOTICE_VARIABLE = "SHOTPLAN_COMPILE_NOTICE"
+"""An environment variable: when set (the ``shotplan`` program sets it), its
+text goes to stderr, once, when a kernel starts compiling, in any command
+and in worker processes started from it."""
+
 if JIT_ENABLED:
     from numba.core import event as _event
 
@@ -120,6 +125,12 @@ if JIT_ENABLED:
 
     _register = cast(Callable[[str, _event.Listener], None], _event.register)
     _register("numba:compile", _CompileListener())
+
+    def _say_compiling() -> None:
+        print(os.environ.get(NOTICE_VARIABLE, ""), file=sys.stderr, flush=True)
+
+    if os.environ.get(NOTICE_VARIABLE):
+        on_first_compile(_say_compiling)
 
     if not os.environ.get("NUMBA_CACHE_DIR"):
         try:
