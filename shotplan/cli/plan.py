@@ -204,6 +204,42 @@ def shot_rows(shots: list[Shot], length_m: float, width_m: float) -> list[list[s
     return rows
 
 
+CAROM_COLUMNS: tuple[Column, ...] = (
+    Column("#", ">", 3), Column("family", "<", 16, " "), Column("first", "<", 7, " "),
+    Column("fraction", ">", 8, " "), Column("aim", ">", 8, " "), Column("window", ">", 7, " "),
+    Column("speed (window)", "<", 20, " "), Column("tip (R)", "<", 16, " "),
+    Column("cushions before the second ball", "<", 0, " "),
+)
+"""The columns of ``plan``'s list of caroms."""
+
+
+def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading: float) -> int:
+    """``plan`` on a carom game: the carom search's shots, printed or as JSON."""
+    from ..physics.run import StrokePlayer
+    from ..search.carom import find_caroms
+
+    player = StrokePlayer.for_layout(layout, elevation=args.elevation)
+    result = find_caroms(player, rules, speeds=[args.speed] if args.speed else None,
+                         top=args.top)
+    if args.json:
+        emit_json([s.to_dict() for s in result.shots])
+        return EXIT_OK
+    print(f"{args.layout}: {plural(len(result.shots), 'carom')} found "
+          f"({result.simulations} simulations, {result.seconds * 1000:.0f} ms) "
+          f"after loading the engine ({loading * 1000:.0f} ms)")
+    rows = []
+    for k, c in enumerate(result.shots, 1):
+        lo, hi = c.speed_window_mps
+        rows.append([str(k), c.family, c.first_ball, f"{c.fraction:.2f}",
+                     f"{c.direction_deg:7.2f}\u00b0", f"{c.window_deg:5.2f}\u00b0",
+                     f"{c.speed_mps:.2f} ({lo:.2f}-{hi:.2f})",
+                     f"side {c.side:+.2f} h {c.height:+.2f}", ", ".join(c.cushions)])
+    if rows:
+        for line in format_table(CAROM_COLUMNS, rows):
+            print(line)
+    return EXIT_OK
+
+
 def run_plan(args: argparse.Namespace) -> int:
     """Search the layout and print the shots (or JSON).
 
@@ -222,6 +258,9 @@ def run_plan(args: argparse.Namespace) -> int:
     layout = load_layout(args.layout)
     require_playable(layout, args.layout)
     loading = engine_ready(layout)
+    rules = game_rules(args, layout)
+    if rules is not None and rules.is_carom:
+        return _plan_caroms(args, layout, rules, loading)
     result = run_search(args, layout)
     shots = result.shots[: args.top] if args.top else result.shots
     if args.json:
