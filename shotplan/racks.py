@@ -18,8 +18,9 @@ from .table import table_for
 
 __all__ = ["RACKS", "start_spot", "new_layout", "rack"]
 
-RACKS: tuple[str, ...] = ("8-ball", "9-ball")
-"""Rack shapes :func:`rack` builds."""
+RACKS: tuple[str, ...] = ("8-ball", "9-ball", "snooker", "carom")
+"""Starting positions :func:`rack` builds: the two pool racks, the snooker
+set-up and the carom starting position."""
 
 
 def start_spot(spec: TableSpec, ball: str = "cue") -> tuple[float, float]:
@@ -78,7 +79,11 @@ def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[flo
     ``8-ball``: a triangle of fifteen, the 8 in the middle of the third row,
     a solid and a stripe in the back corners. ``9-ball``: a diamond of nine,
     the 1 at the apex and the 9 in the middle. The cue ball is on the head
-    spot (head string, long string).
+    spot (head string, long string). ``snooker``: the set-up on a snooker
+    table (fifteen reds behind the pink, the colours on their spots, the cue
+    ball in the D); ``carom``: the starting position on a carom table (see
+    :func:`_snooker_setup` and :func:`_carom_start`; ``gap_m`` is for the
+    pool racks).
 
     Parameters
     ----------
@@ -104,7 +109,11 @@ def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[flo
         raise LayoutError(f"{quoted(kind)} is not a rack, must be one of {', '.join(RACKS)}")
     if not isinstance(table, TableSpec):
         raise LayoutError(f"rack: table must be a TableSpec, not {type(table).__name__}")
-    if table.game != "pool" or table.head_string_x_m is None:
+    if kind == "snooker":
+        return _snooker_setup(table)
+    if kind == "carom":
+        return _carom_start(table)
+    if table.game != "pool" or table.head_string_x_m is None:  # the pool racks
         raise LayoutError(f"rack: {kind} racks are for pool tables, {table.name!r} is a "
                           f"{table.game} table")
     if isinstance(gap_m, bool) or not isinstance(gap_m, int | float) \
@@ -132,3 +141,51 @@ def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[flo
         raise LayoutError(f"rack: the {kind} rack does not fit on the {table.name} table "
                           f"(ball {quoted(bad[0])} would be off the bed or in a cushion)")
     return out
+
+
+def _checked(out: dict[str, tuple[float, float]], table: TableSpec, what: str
+             ) -> dict[str, tuple[float, float]]:
+    geo = table_for(table)
+    bad = [b for b, ok in zip(out, geo.is_legal(np.array(list(out.values()))), strict=True)
+           if not ok]
+    if bad:
+        raise LayoutError(f"rack: the {what} does not fit on the {table.name} table "
+                          f"(ball {quoted(bad[0])} would be off the bed or in a cushion)")
+    return out
+
+
+def _snooker_setup(table: TableSpec) -> dict[str, tuple[float, float]]:
+    """The snooker set-up (WPBSA rules, section 2, from memory): the colours on
+    their spots, fifteen reds in a close triangle whose apex red is as near
+    the pink as it can be without touching (here a millimetre), and the cue
+    ball in the D."""
+    if table.game != "snooker" or table.baulk_line_x_m is None:
+        raise LayoutError(f"rack: the snooker set-up is for a snooker table, {table.name!r} is "
+                          f"a {table.game} table")
+    spots = {s.name: (s.x, s.y) for s in table.spots}
+    d = table.ball.diameter_m
+    px, py = spots["pink"]
+    apex = px + d + 0.001
+    row_step = d * math.sqrt(3.0) / 2.0
+    out: dict[str, tuple[float, float]] = {"cue": start_spot(table)}
+    n = 1
+    for k in range(5):
+        for j in range(k + 1):
+            out[f"red{n}"] = (apex + k * row_step, py + (j - k / 2) * d)
+            n += 1
+    for colour in ("yellow", "green", "brown", "blue", "pink", "black"):
+        out[colour] = spots[colour]
+    return _checked(out, table, "snooker set-up")
+
+
+def _carom_start(table: TableSpec) -> dict[str, tuple[float, float]]:
+    """The carom starting position (UMB, from memory): the red on the foot
+    spot, the yellow on the head spot, and the cue ball on the head string
+    15 cm to one side of the head spot."""
+    if table.game != "carom":
+        raise LayoutError(f"rack: the carom starting position is for a carom table, "
+                          f"{table.name!r} is a {table.game} table")
+    spots = {s.name: (s.x, s.y) for s in table.spots}
+    hx, hy = spots["head spot"]
+    out = {"cue": (hx, hy - 0.1524), "yellow": (hx, hy), "red": spots["foot spot"]}
+    return _checked(out, table, "carom starting position")
