@@ -492,7 +492,8 @@ class Table:
             (name, start, end), the points in m.
         """
         out = []
-        if self.spec.head_string_x_m is not None:
+        # A carom cloth has its spots, not a pool table's head string.
+        if self.spec.head_string_x_m is not None and self.spec.game != "carom":
             x = self.spec.head_string_x_m
             out.append(("head string", (x, 0.0), (x, self.width)))
         if self.spec.baulk_line_x_m is not None:

@@ -66,3 +66,13 @@ def test_set_ups_refuse_the_wrong_table():
         rack("snooker", TableSpec.preset("pool-9ft"))
     with pytest.raises(LayoutError, match="carom table"):
         rack("carom", TableSpec.preset("snooker"))
+
+
+def test_a_carom_cloth_has_no_head_string():
+    # A carom cloth is marked with its spots only (common practice, no
+    # source); the pool head string and the snooker baulk line stay where
+    # they belong.
+    names = {n for n, _a, _b in Table(TableSpec.preset("carom")).strings()}
+    assert "head string" not in names
+    assert "head string" in {n for n, _a, _b in Table(TableSpec.preset("pool-9ft")).strings()}
+    assert "baulk line" in {n for n, _a, _b in Table(TableSpec.preset("snooker")).strings()}
