@@ -166,3 +166,18 @@ def test_layout_game_field_round_trips_and_drives_plan(tmp_path, capsys):
     err = capsys.readouterr()[1]
     assert "game" in err and len(err.strip().splitlines()) == 1
     Path(path).unlink()
+
+
+def test_position_under_nine_ball_rules_needs_the_ball_on(tmp_path, capsys):
+    # WPA 9-ball: the lowest ball must be met first, and a position map plays
+    # its ball directly, so asking for the 5 with the 3 on the table is refused.
+    doc = {"format": "shotplan-layout", "version": 1, "game": "9-ball", "table": "pool-9ft",
+           "balls": {"cue": [0.6, 0.5], "3": [1.5, 0.9], "9": [2.0, 0.4], "5": [1.2, 0.3]}}
+    path = tmp_path / "nine.json"
+    path.write_text(json.dumps(doc))
+    code = main(["position", str(path), "--ball", "5", "--pocket", "foot-right"])
+    err = capsys.readouterr()[1]
+    assert code == 2 and "WPA 9-ball" in err and len(err.strip().splitlines()) == 1
+    code = main(["position", str(path), "--ball", "3", "--pocket", "foot-left", "--speeds=2",
+                 "--heights=0", "--sides=0", "--json"])
+    assert code == 0, capsys.readouterr()[1]

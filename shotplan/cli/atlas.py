@@ -52,7 +52,8 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
 def _add_atlas_options(p: argparse.ArgumentParser) -> None:
     """Add every option of ``atlas`` (also read from each line of ``--batch``)."""
     from .drills import add_error_options
-    from .plan import add_game_options, add_shot_options
+    from .games import add_game_options
+    from .plan import add_shot_options
 
     p.add_argument("layout", metavar="LAYOUT", nargs="?", help="layout file (.json)")
     p.add_argument("--ball", metavar="ID", help="object ball to pocket")
@@ -110,7 +111,7 @@ def _plan(args: argparse.Namespace, where: str = "") -> _Planned:
     from ..atlas import AtlasJob, make_grid
     from ..layout import load_layout
     from .drills import player_errors
-    from .plan import game_rules
+    from .games import game_rules
 
     if args.layout is None or args.ball is None:
         raise InputError(f"{where}LAYOUT and --ball are needed (or --batch LIST)")

@@ -9,10 +9,10 @@ from __future__ import annotations
 import argparse
 from typing import TYPE_CHECKING, Any
 
-from ..errors import InputError
 from ..layout import load_layout
 from ..units import to_diamonds
 from .common import EXIT_OK, emit_json, plural, require_playable
+from .games import add_game_options, game_rules
 from .options import int_in, split_list
 from .text import Column, format_table
 
@@ -21,9 +21,8 @@ if TYPE_CHECKING:
     from ..layout import Layout
     from ..search import SearchResult, Shot
 
-__all__ = ["add_subcommands", "add_search_options", "add_shot_options", "add_game_options",
-           "game_rules", "run_search", "run_plan", "shot_rows",
-           "SHOT_COLUMNS"]
+__all__ = ["add_subcommands", "add_search_options", "add_shot_options", "run_search",
+           "run_plan", "shot_rows", "SHOT_COLUMNS"]
 
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
@@ -69,52 +68,6 @@ def add_search_options(p: argparse.ArgumentParser) -> None:
                         "chosen stun and draw heights stay: starter, club, strong or elite "
                         "(default club)")
     add_game_options(p)
-
-
-def add_game_options(p: argparse.ArgumentParser) -> None:
-    """Add ``--game``, ``--group`` and ``--on``: the rules the search follows.
-
-    Parameters
-    ----------
-    p : argparse.ArgumentParser
-        The command's parser.
-    """
-    from ..games import GAMES, GROUPS, SNOOKER_COLOURS
-
-    p.add_argument("--game", metavar="NAME",
-                   help=f"the game whose rules the shots must follow: {', '.join(GAMES)} "
-                        "(default: the layout's game, else any: no rules)")
-    p.add_argument("--group", metavar="NAME",
-                   help=f"8-ball: the player's group, {' or '.join(GROUPS)} (default: an open "
-                        "table)")
-    p.add_argument("--on", metavar="COLOUR",
-                   help=f"snooker, after a red: the colour named ({', '.join(SNOOKER_COLOURS)})")
-
-
-def game_rules(args: argparse.Namespace, layout: Layout) -> Rules | None:
-    """The rules of ``--game`` (or the layout's game) for the layout's balls.
-
-    Parameters
-    ----------
-    args : argparse.Namespace
-        The parsed command line (``game``, ``group``, ``on``).
-    layout : Layout
-        The layout.
-
-    Returns
-    -------
-    Rules or None
-        None for the game ``any``.
-    """
-    from ..games import Rules, check_game
-
-    game = check_game(args.game, "--game") if args.game is not None else layout.game
-    if game == "any":
-        if args.group is not None or args.on is not None:
-            raise InputError("--group and --on need a game: give --game 8-ball or --game "
-                             "snooker (or a layout whose game is one)")
-        return None
-    return Rules(game, layout.ball_ids, args.group, args.on)
 
 
 def add_shot_options(p: argparse.ArgumentParser) -> None:

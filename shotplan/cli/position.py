@@ -14,6 +14,7 @@ from typing import TYPE_CHECKING
 from ..errors import InputError
 from ..files.write import check_output_path
 from .common import EXIT_OK, FIGURE_SUFFIXES, emit_json, require_playable
+from .games import add_game_options, game_rules
 from .options import allow_negative_lists, int_in, number, parse_list
 from .text import Column, format_table
 
@@ -55,6 +56,7 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
                         "shot atlas once this ball is down")
     p.add_argument("--atlas-grid", type=number(), default=0.04, metavar="M",
                    help="cell size of the atlas behind --zone atlas:..., m (default 0.04)")
+    add_game_options(p)
     p.add_argument("--speeds", metavar="LIST",
                    help="launch speeds, m/s, comma-separated (default: 7 from a gentle pace "
                         "to about 4.5 times that)")
@@ -242,7 +244,8 @@ def run_position(args: argparse.Namespace) -> int:
     if zone is not None:
         zone.check_on_table(layout.geometry, "--zone")
     pm = position_map(layout, args.ball, args.pocket, zone=zone, speeds=speeds,
-                      heights=heights, sides=sides, errors=errors)
+                      heights=heights, sides=sides, errors=errors,
+                      rules=game_rules(args, layout))
     if out is not None:
         from ..render.export import write_scene
         from ..render.position_map import position_scene
@@ -267,6 +270,7 @@ def _cell(f: Finish) -> str:
         x, y = f.cue_finish
         return f"{x:.2f},{y:.2f}" + ("*" if f.in_zone else " ")
     return {"scratch": "SCRATCH", "missed": "miss", "no aim": "-", "miscue": "miscue",
+            "foul": "FOUL",
             "risky tip": "risky"}[f.result]
 
 

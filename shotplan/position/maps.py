@@ -20,6 +20,7 @@ from .words import setting_words
 from .zone import Zone, is_number
 
 if TYPE_CHECKING:
+    from ..games import Rules
     from ..layout import Layout
 
 __all__ = [
@@ -37,7 +38,7 @@ __all__ = [
     "robustness",
 ]
 
-RESULTS = ("pocketed", "scratch", "missed", "no aim", "miscue", "risky tip")
+RESULTS = ("pocketed", "scratch", "missed", "no aim", "miscue", "risky tip", "foul")
 """What one setting of a position map can end as (see the module docstring)."""
 
 ROBUST_SPEED_STEP_PCT = 1.0
@@ -241,10 +242,10 @@ class PotPlayer:
         such pocket.
     """
 
-    __slots__ = ("stroke_player", "ball", "first", "pocket_index")
+    __slots__ = ("stroke_player", "ball", "first", "pocket_index", "rules")
 
     def __init__(self, layout: Layout, ball: str, pocket: str, physics: Physics | None = None,
-                 first: str | None = None):
+                 first: str | None = None, rules: Rules | None = None):
         from ..physics.run import StrokePlayer  # the compiled engine loads on first use
 
         self.stroke_player = StrokePlayer.for_layout(layout, physics)
@@ -266,6 +267,8 @@ class PotPlayer:
         """Index of the object ball."""
         self.first = ids.index(first) if first is not None else self.ball
         """Index of the ball the cue ball must meet first."""
+        self.rules = rules if rules is not None and rules.game != "any" else None
+        """A game's rules each pocketing stroke must also satisfy (or None)."""
 
     @property
     def physics(self) -> Physics:
@@ -297,7 +300,9 @@ class PotPlayer:
         result : str
             As in :data:`RESULTS` but never ``no aim`` or ``risky tip``:
             ``miscue`` (the tip is beyond the miscue limit; not played),
-            ``scratch``, ``pocketed`` or ``missed``.
+            ``scratch``, ``pocketed``, ``missed``, or ``foul`` (the ball fell
+            but the game's rules make the stroke a foul: another ball not on
+            fell with it).
         finish : tuple of float or None
             Where the cue ball stopped (m); None after a miscue or a scratch.
         """
@@ -310,6 +315,11 @@ class PotPlayer:
             return ("scratch" if potted else "missed"), None
         finish = run.finish(sp.cue)
         if sp.pots(run, self.first, self.ball, self.pocket_index):
+            if self.rules is not None:
+                ids = sp.ids
+                fell = [ids[i] for i in range(len(ids)) if run.pocket_of(i) >= 0]
+                if not self.rules.judge(ids[self.first], fell, ids[self.ball]).scores:
+                    return "foul", finish
             return "pocketed", finish
         return "missed", finish
 
@@ -414,6 +424,7 @@ def position_map(
     sides: Sequence[float] | None = None,
     physics: Physics | None = None,
     errors: PlayerErrors | None = None,
+    rules: Rules | None = None,
 ) -> PositionMap:
     """Play a direct shot of ``ball`` into ``pocket`` over a grid of settings.
 
@@ -434,6 +445,10 @@ def position_map(
     errors
         The player whose tip error sets the tip room (default: the ``club``
         level); settings outside it end as ``risky tip``.
+    rules
+        A game's rules (:class:`shotplan.games.Rules`): the ball must be a
+        ball on, and a setting whose stroke the rules make a foul (another
+        ball not on falls too) ends as ``foul``, never proposed.
 
     Raises :class:`InputError` when the player's tip error leaves no room at
     all (not even centre ball keeps a miscue rare).
@@ -441,7 +456,11 @@ def position_map(
     t0 = time.perf_counter()
     from ..search import aim_direct
 
-    player = PotPlayer(layout, ball, pocket, physics)
+    if rules is not None and rules.game != "any" and ball not in rules.first_allowed():
+        raise InputError(f"--ball {ball}: under {rules.source} rules the cue ball must meet "
+                         f"{rules.describe_on()} first, and a position map plays the ball "
+                         "directly")
+    player = PotPlayer(layout, ball, pocket, physics, rules=rules)
     phys = player.physics
     if zone is not None:
         zone.check_on_table(player.stroke_player.sim.table)
