@@ -12,11 +12,13 @@ Where the blocks run:
 * ``workers=0``: in this process, no Dask at all (for small atlases, tests
   and debugging).
 
-The job is sent to the workers once (``Client.scatter``); each task is one
-block (:data:`~shotplan.atlas.grid.BLOCK_CELLS` cells) and builds its
-simulator once (the search's simulators are cached per process). Results do
-not depend on where or in what order blocks ran: each cell is computed from
-the same inputs alone.
+The blocks run through the one parallel layer, :func:`shotplan.parallel.map_blocks`
+(in this process, or a task per block on the Dask cluster, the job sent to
+every worker once per phase); each task is one block
+(:data:`~shotplan.atlas.grid.BLOCK_CELLS` cells) and builds its simulator
+once (the search's simulators are cached per process). Results do not
+depend on where or in what order blocks ran: each cell is computed from the
+same inputs alone.
 
 The resume folder holds ``atlas.json`` (the job's fingerprint) and one
 ``block-PHASE-NNNNN.json`` per finished block, each written atomically as it
@@ -37,6 +39,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..files.write import atomic_write_text
+from ..parallel import map_blocks
 from .adaptive import Squares, coarse_cells, lattice_step
 from .cells import AtlasJob, BlockResult, compute_block
 from .grid import chunks
@@ -309,6 +312,12 @@ def run_atlas(job: AtlasJob, *, workers: int | None = None, scheduler: str | Non
                     runner.reused)
 
 
+def _block(job: AtlasJob, item: tuple[str, int, np.ndarray]) -> BlockResult:
+    """One block of a phase, as :func:`shotplan.parallel.map_blocks` calls it."""
+    phase, number, cells = item
+    return compute_block(job, phase, number, cells)
+
+
 class _Runner:
     """Runs a job's phases on a cluster, keeping and reporting the blocks."""
 
@@ -318,7 +327,6 @@ class _Runner:
         self.cluster = cluster
         self.store = store
         self.progress = progress
-        self.shared: Any = None
         self.reused = 0
         self.cells_done = 0
         self.expected = 0
@@ -346,21 +354,11 @@ class _Runner:
             self.cells_done += len(result.cells)
             self._report()
 
-        if todo and self.cluster.in_process:
-            for i, b in todo:
-                finish(compute_block(self.job, name, i, b))
-        elif todo:
-            from distributed import as_completed
-
-            client = self.cluster.client
-            if self.shared is None:
-                self.shared = client.scatter(self.job, broadcast=True)
-            futures = [client.submit(compute_block, self.shared, name, i, b,
-                                     key=f"atlas-{self.job.fingerprint()}-{name}-{i}",
-                                     retries=2) for i, b in todo]
-            try:
-                for fut in as_completed(futures):
-                    finish(fut.result())
-            finally:
-                client.cancel(futures)
+        if todo:
+            # The one parallel layer (shotplan.parallel): in this process, or
+            # a task per block on the Dask cluster, each result kept as it
+            # arrives.
+            map_blocks(_block, [(name, i, b) for i, b in todo], self.job, workers=0,
+                       client=None if self.cluster.in_process else self.cluster.client,
+                       on_result=lambda _k, result: finish(result))
         return [done[i] for i in range(len(blocks))]
