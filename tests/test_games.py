@@ -181,3 +181,29 @@ def test_position_under_nine_ball_rules_needs_the_ball_on(tmp_path, capsys):
     code = main(["position", str(path), "--ball", "3", "--pocket", "foot-left", "--speeds=2",
                  "--heights=0", "--sides=0", "--json"])
     assert code == 0, capsys.readouterr()[1]
+
+
+def test_a_drill_station_counts_only_legal_scoring_trials(tmp_path, capsys):
+    # WPA 9-ball: pocketing the 5 while the 3 is on the table, the 5 met
+    # first, is a foul: under the game every trial that pockets it counts as
+    # a failure, without a game most of them pot.
+    lay = {"table": "pool-9ft", "balls": {"cue": [1.0, 0.635], "5": [2.2, 1.0],
+                                          "3": [0.4, 0.3]}}
+    ball5 = {"name": "five", "layout": lay, "ball": "5", "pocket": "foot-left",
+             "stroke": {"direction_deg": 0.0, "speed_mps": 2.0}}
+    from shotplan.search import find_shots as fs
+
+    shot = fs(Layout.from_dict({"format": "shotplan-layout", "version": 1, **lay}),
+              balls=["5"], pockets=["foot-left"], kinds=("direct",)).shots[0]
+    ball5["stroke"] = {"direction_deg": shot.direction_deg, "speed_mps": shot.speed_mps,
+                       "height": shot.height}
+    rates = {}
+    for game in ("any", "9-ball"):
+        doc = {"format": "shotplan-drill", "version": 1, "title": "t",
+               "stations": [dict(ball5, game=game)]}
+        path = tmp_path / f"{game}.json"
+        path.write_text(json.dumps(doc))
+        assert main(["drill", str(path), "--trials", "60", "--workers", "0", "--json"]) == 0
+        out = json.loads(capsys.readouterr()[0])
+        rates[game] = out["stations"][0]["pocket_rate"]["rate"]
+    assert rates["any"] > 0.5 and rates["9-ball"] == 0.0

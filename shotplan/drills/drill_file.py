@@ -15,6 +15,7 @@ from typing import Any
 from ..errors import LayoutError
 from ..files.read import JSONValue, check_format, check_version, read_json_file, show_value, value_kind
 from ..files.write import atomic_write_text, check_output_path
+from ..games import Rules, check_game
 from ..layout import Layout
 from ..position import Zone
 from ..stroke import Stroke
@@ -44,7 +45,7 @@ DRILL_KEYS: tuple[str, ...] = ("format", "version", "title", "note", "attempts",
 """Top-level fields of a drill file, in the order they are written."""
 
 STATION_KEYS: tuple[str, ...] = ("name", "note", "layout", "ball", "pocket", "zone", "stroke",
-                                 "attempts")
+                                 "attempts", "game")
 """Fields of a station, in the order they are written."""
 
 DEFAULT_ATTEMPTS = 10
@@ -150,11 +151,24 @@ class Station:
     drill file's folder), or None for an inline layout."""
     attempts: int | None = None
     """Attempts the player makes at this station, or None: the drill's."""
+    game: str | None = None
+    """The game whose rules the station is played by (None: the layout's game)."""
     zone_atlas: AtlasZone | None = None
     """A zone given as ``{"atlas": NEXT_BALL, ...}``: the region from which the
     next ball is easy once this one is down, computed from its shot atlas
     when the drill runs (:func:`shotplan.drills.resolve_atlas_zones` puts it
     in :attr:`zone`)."""
+
+    def rules(self) -> Rules | None:
+        """The rules the station is played by (None for the game ``any``).
+
+        Returns
+        -------
+        Rules or None
+            Of the station's game, else the layout's.
+        """
+        game = self.game if self.game is not None else self.layout.game
+        return None if game == "any" else Rules(game, self.layout.ball_ids)
 
     def to_dict(self) -> dict[str, Any]:
         """The station object of a drill file."""
@@ -178,6 +192,8 @@ class Station:
             out["stroke"] = self.stroke.to_dict()
         if self.attempts is not None:
             out["attempts"] = self.attempts
+        if self.game is not None:
+            out["game"] = self.game
         return out
 
 
@@ -300,7 +316,8 @@ def _station(data: Any, where: str, base: Path) -> Station:
     if data.get("stroke") is not None:
         stroke = _station_stroke(data["stroke"], where, layout)
     attempts = _attempts(data.get("attempts"), f"{where}: attempts")
-    return Station(name, layout, ball, pocket, zone, stroke, note, ref, attempts, zone_atlas)
+    game = check_game(data["game"], f"{where}: game") if data.get("game") is not None else None
+    return Station(name, layout, ball, pocket, zone, stroke, note, ref, attempts, game, zone_atlas)
 
 
 def _station_layout(raw: Any, where: str, base: Path) -> tuple[Layout, str | None]:

@@ -30,6 +30,7 @@ from .atlas_zones import resolve_atlas_zones
 from .drill_file import Drill, Station
 
 if TYPE_CHECKING:
+    from ..games import Rules
     from ..layout import Layout
     from ..physics import Outcome, Physics
     from ..position import ZoneSetting
@@ -201,6 +202,7 @@ def plan_station(station: Station, physics: Physics | None = None, errors: Playe
     from ..search import find_shots
 
     lay = station.layout
+    rules = station.rules()
     phys = physics if physics is not None else lay.physics()
     room = level_tip_room(phys.miscue_limit, errors)
     who = (errors if errors is not None else LEVELS[DEFAULT_LEVEL])
@@ -215,7 +217,7 @@ def plan_station(station: Station, physics: Physics | None = None, errors: Playe
     if stroke is None:
         if station.zone is not None:
             pm = position_map(lay, station.ball, station.pocket, zone=station.zone, physics=phys,
-                              errors=errors)
+                              errors=errors, rules=rules)
             if pm.ranked:
                 zs = pm.ranked[0]
                 stroke = zs.finish.stroke()
@@ -224,7 +226,8 @@ def plan_station(station: Station, physics: Physics | None = None, errors: Playe
             else:
                 remark = "no setting on the position grid leaves the cue ball in the zone"
         if stroke is None:
-            res = find_shots(lay, balls=[station.ball], pockets=[station.pocket], physics=phys)
+            res = find_shots(lay, balls=[station.ball], pockets=[station.pocket], physics=phys,
+                             rules=rules)
             shots = [s for s in res.shots if s.balls[-1] == station.ball]
             if not shots:
                 why = res.rejected[0].reason if res.rejected else "no candidate"
@@ -237,7 +240,8 @@ def plan_station(station: Station, physics: Physics | None = None, errors: Playe
                 h = safe_height(stroke.height, stroke.side, room)
                 again = [] if h is None else [
                     s for s in find_shots(lay, balls=[station.ball], pockets=[station.pocket],
-                                          side=stroke.side, height=h, physics=phys).shots
+                                          side=stroke.side, height=h, physics=phys,
+                                          rules=rules).shots
                     if s.balls[-1] == station.ball]
                 said = f"{tip} " if tip else ""
                 why = (f"the search's {said}tip ({stroke.height:+.3f} R) is nearer the miscue "
@@ -376,16 +380,16 @@ class _Block:
     """True where the tip landed beyond the miscue limit: not played."""
 
 
-_StationPlay = tuple["Layout", str, str, "Physics", str, float]
+_StationPlay = tuple["Layout", str, str, "Physics", str, float, "Rules | None"]
 """What a worker needs of a station: layout, ball, pocket, physics, first
-ball, cue elevation (degrees)."""
+ball, cue elevation (degrees), the game's rules."""
 
 
 def _play_block(stations: Sequence[_StationPlay], block: _Block
                 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Play one block's trials: (pocketed, scratched, cue-ball finishes)."""
-    lay, ball, pocket, physics, first, elev = stations[block.station]
-    play = PotPlayer(lay, ball, pocket, physics, first=first).play
+    lay, ball, pocket, physics, first, elev, rules = stations[block.station]
+    play = PotPlayer(lay, ball, pocket, physics, first=first, rules=rules).play
     n = len(block.aims)
     potted = np.zeros(n, dtype=bool)
     scratch = np.zeros(n, dtype=bool)
@@ -433,7 +437,8 @@ def _draw_blocks(plan: StationPlan, errors: PlayerErrors, trials: int, seed: int
 
 def _station_play(plan: StationPlan) -> _StationPlay:
     st = plan.station
-    return (st.layout, st.ball, st.pocket, plan.physics, plan.first, plan.stroke.elevation_deg)
+    return (st.layout, st.ball, st.pocket, plan.physics, plan.first, plan.stroke.elevation_deg,
+            st.rules())
 
 
 def _station_result(plan: StationPlan, errors: PlayerErrors, seed: int, blocks: list[_Block],
