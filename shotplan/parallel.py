@@ -193,7 +193,12 @@ def _on_dask(client: Any, func: Callable[[Any, Any], Any], blocks: Sequence[Any]
     on the way out (done, failed or Ctrl-C)."""
     from distributed import as_completed
 
-    shared_there = client.scatter(shared, broadcast=True)
+    # hash=False: a key of its own for each call. Scattered by content, the
+    # same shared data in two calls in a row (the atlas's phases) gets one key,
+    # and the first call's release of it can land after the second's scatter:
+    # the scheduler forgets the data and cancels the tasks ("lost
+    # dependencies").
+    shared_there = client.scatter(shared, broadcast=True, hash=False)
     futures = [client.submit(func, shared_there, b, pure=False) for b in blocks]
     index = {f.key: k for k, f in enumerate(futures)}
     try:
