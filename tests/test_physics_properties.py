@@ -33,6 +33,7 @@ from shotplan.equipment import TableSpec
 from shotplan.physics import EventKind, MotionState, Physics, Simulator
 from shotplan.physics.collide import ball_ball
 from shotplan.physics.simulator import Outcome, _params_vector
+from shotplan.physics.strike import is_miscue
 from shotplan.stroke import Stroke
 from shotplan.table import Table
 
@@ -56,6 +57,8 @@ def strokes(draw, lo=0.1, hi=8.0, elevated=True):
     side, height = draw(tip)
     elev = draw(st.one_of(st.just(0.0), st.floats(0.0, 35.0), st.floats(35.0, 60.0))) \
         if elevated else 0.0
+    while elev > 0.0 and is_miscue(side, height, elev, Physics().miscue_limit):
+        elev = max(elev - 1.0, 0.0)  # lower the cue until the tip is inside the limit
     return Stroke(
         direction_deg=draw(st.floats(0.0, 360.0)),
         speed_mps=math.exp(draw(st.floats(math.log(lo), math.log(hi)))),

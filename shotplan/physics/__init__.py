@@ -15,13 +15,16 @@ from .state import EventKind, MotionState
 __all__ = [
     "Physics", "PHYSICS_KEYS", "ball_friction_fit", "EventKind", "MotionState",
     "BallState", "Event", "Outcome", "Simulator", "simulate", "simulator_for",
-    "Launch", "launch", "squirt_angle",
+    "Launch", "launch", "squirt_angle", "miscue_angle", "limit_angle", "check_tip",
+    "is_miscue",
 ]
 
 _LAZY = {
     "BallState": ".simulator", "Event": ".simulator", "Outcome": ".simulator",
     "Simulator": ".simulator", "simulate": ".simulator", "simulator_for": ".simulator",
     "Launch": ".strike", "launch": ".strike", "squirt_angle": ".strike",
+    "miscue_angle": ".strike", "limit_angle": ".strike", "check_tip": ".strike",
+    "is_miscue": ".strike",
 }
 
 

@@ -14,6 +14,7 @@ import numpy as np
 
 from ..errors import InputError, StrokeError
 from ..physics import Physics
+from ..physics.strike import is_miscue
 from ..players import DEFAULT_LEVEL, TIP_MARGIN_SD, PlayerErrors, level_tip_room, safe_height
 from ..stroke import Stroke, default_speed, speed_word, tip_height
 from .words import setting_words
@@ -484,7 +485,7 @@ def position_map(
             for v in speeds:
                 h, tip = _grid_height(h_spec, float(v), float(s), cue_dist, phys, room)
                 v, s_ = float(v), float(s)
-                if math.hypot(s_, h) > phys.miscue_limit + 1e-12:
+                if is_miscue(s_, h, 0.0, phys.miscue_limit):
                     finishes.append(Finish(v, h, s_, tip, None, "miscue", None,
                                            False if zone is not None else None))
                     continue

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import math
 import time
 from collections.abc import Sequence
 from typing import Any
@@ -10,10 +9,11 @@ from typing import Any
 import numpy as np
 
 from ..aim import aim_at
-from ..errors import InputError
+from ..errors import InputError, StrokeError
 from ..games import Rules
 from ..physics import Physics, simulator_for
 from ..physics.run import StrokePlayer
+from ..physics.strike import check_tip
 from ..players import DEFAULT_LEVEL, PlayerErrors, level_tip_room
 from ..stroke import TIPS
 from .candidates import GENERATORS, Board, Candidate, pocket_target, rails_of
@@ -25,7 +25,7 @@ __all__ = ["find_shots", "aim_direct"]
 
 def _check_settings(kinds: Sequence[str], tip: str, speed: float | None, side: float,
                     height: float | None, phys: Physics,
-                    player: PlayerErrors | None) -> float:
+                    player: PlayerErrors | None, elevation_deg: float = 0.0) -> float:
     """Raise InputError on a bad setting; returns the player's tip room."""
     for k in kinds:
         if k not in KINDS:
@@ -38,9 +38,10 @@ def _check_settings(kinds: Sequence[str], tip: str, speed: float | None, side: f
     if not abs(side) <= limit:
         raise InputError(f"side {side!r} is beyond the miscue limit, must be within "
                          f"+-{limit:g} ball radii")
-    if height is not None and math.hypot(side, height) > limit:
-        raise InputError(f"tip offset side {side!r}, height {height!r} is beyond the miscue "
-                         f"limit {limit:g} ball radii")
+    try:  # the one rule, elevation and all (physics.strike.check_tip)
+        check_tip(side, 0.0 if height is None else height, elevation_deg, limit)
+    except StrokeError as exc:
+        raise InputError(str(exc).removeprefix("stroke: ")) from None
     # The heights the search chooses itself (stun, draw) keep the tip inside
     # the player's tip room: 2.5 sd of the tip error inside the miscue limit
     # (shotplan.players). A height given outright is the caller's choice.
@@ -161,7 +162,7 @@ def find_shots(
     """
     t_start = time.perf_counter()
     phys = physics if physics is not None else layout.physics()
-    room = _check_settings(kinds, tip, speed, side, height, phys, player)
+    room = _check_settings(kinds, tip, speed, side, height, phys, player, elevation_deg)
     sim = simulator_for(layout.table, phys)
     table = sim.table
     positions = layout.positions()

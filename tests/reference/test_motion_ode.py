@@ -175,8 +175,8 @@ STROKES = [
     ("stun-follow", Stroke(-10.0, 1.0, height=0.2)),
     ("draw", Stroke(180.0, 1.5, height=-0.5)),
     ("side", Stroke(5.0, 1.2, side=0.4, height=-0.1)),
-    ("swerve", Stroke(0.0, 1.5, side=0.4, elevation_deg=30.0)),
-    ("masse", Stroke(15.0, 1.0, side=-0.3, height=0.2, elevation_deg=50.0)),
+    ("swerve", Stroke(0.0, 1.0, side=0.4, height=0.3, elevation_deg=30.0)),
+    ("masse", Stroke(15.0, 1.0, side=-0.3, height=0.5, elevation_deg=50.0)),
 ]
 
 
@@ -218,7 +218,7 @@ def test_trajectory_matches_ode_integration(name, stroke):
 def test_swerve_path_is_curved():
     # The elevated stroke with side must bend (common practice, no source);
     # otherwise the comparison above would not exercise the 2-D slip.
-    out = run_one(Stroke(0.0, 1.5, side=0.4, elevation_deg=30.0), Physics())
+    out = run_one(Stroke(0.0, 1.0, side=0.4, height=0.3, elevation_deg=30.0), Physics())
     end = out.final["cue"]
     start_y = 1.5 + 0.0
     assert abs(end["y"] - start_y) > 0.02
