@@ -39,7 +39,7 @@ import math
 from .jit import jit
 from .state import P_M, P_R, P_SIN_NOSE
 
-__all__ = ["ball_ball", "ball_cushion", "ball_friction"]
+__all__ = ["ball_ball", "ball_cushion", "ball_friction", "cushion_frame_impact"]
 
 
 @jit
@@ -220,4 +220,149 @@ def ball_cushion(i, hx, hy, pos, vel, om, prm, e0, e_slope, mu):  # type: ignore
     if vh_after < 0.0:
         vel[i, 0] -= vh_after * hx
         vel[i, 1] -= vh_after * hy
+    return P
+
+
+@jit
+def _cone_clip(a, b, lim):  # type: ignore[no-untyped-def]
+    """The friction impulse (a, b) clipped to its Coulomb cone of radius ``lim``.
+
+    Parameters
+    ----------
+    a, b : float
+        Tangential impulse components, N s.
+    lim : float
+        Friction times the normal impulse, N s (>= 0).
+
+    Returns
+    -------
+    tuple of float
+        The impulse, scaled down onto the cone if it lay outside.
+    """
+    mag = math.sqrt(a * a + b * b)
+    if mag > lim and mag > 0.0:
+        return a * lim / mag, b * lim / mag
+    return a, b
+
+
+@jit
+def cushion_frame_impact(v, w, e, mu_w, mu_s, R, m, sin_t, n_steps):  # type: ignore[no-untyped-def]
+    """Impact on a rigid cushion as modelled by Mathavan, Jackson & Parkin
+    (2010, Proc. IMechE C 224, 1863), integrated over the cushion's normal
+    impulse (in place).
+
+    Frame: x along the cushion, y toward it, z up, origin at the ball's
+    centre. The nose touches at ``R (0, cos t, sin t)`` and pushes along
+    ``-(0, cos t, sin t)``; the cloth touches at ``(0, 0, -R)``. Coulomb
+    friction acts at both contacts (``mu_w`` at the nose, ``mu_s`` at the
+    cloth, whose normal impulse keeps the ball on the cloth). Each step of
+    the normal impulse is applied, then the two friction impulses are found
+    by projection (Gauss-Seidel over the two contacts): each is the impulse
+    that would bring its slip to rest at the end of the step, clipped to
+    its cone. A slip that reaches rest therefore sticks while the cone
+    allows and slides again otherwise, without a mode switch. Restitution is
+    Stronge's energetic coefficient (Stronge 1991, J. Appl. Mech. 58, 1049):
+    the impact ends when the work of the normal force in restitution is
+    ``e**2`` times the work taken in compression.
+
+    Parameters
+    ----------
+    v, w : ndarray
+        (3,) velocity (m/s) and spin (rad/s) in the frame above; ``v[2]`` is 0.
+    e : float
+        Stronge's energetic restitution.
+    mu_w, mu_s : float
+        Ball-cushion and ball-cloth sliding friction.
+    R, m : float
+        Ball radius (m) and mass (kg).
+    sin_t : float
+        Sine of the nose contact's angle above the ball's equator.
+    n_steps : int
+        Impulse steps over the compression (about as many again follow in
+        restitution).
+
+    Returns
+    -------
+    float
+        The cushion's normal impulse over the impact, N s; 0 if not approaching.
+    """
+    ct = math.sqrt(max(1.0 - sin_t * sin_t, 0.0))
+    st = sin_t
+    vx, vy, vz = v[0], v[1], v[2]
+    wx, wy, wz = w[0], w[1], w[2]
+    vn0 = ct * vy + st * vz
+    if vn0 <= 0.0:
+        return 0.0
+    k_inv = m / 3.5  # impulse per unit slip at a surface point of a solid ball
+    ki = 2.5 / (m * R * R)
+    dp = m * vn0 / (ct * ct * n_steps)
+    P = 0.0
+    W = 0.0
+    Wc = 0.0
+    compressing = True
+    # Contact I: r = R (0, ct, st), tangents a = (1, 0, 0), b = (0, -st, ct).
+    riy, riz = R * ct, R * st
+    for _ in range(50 * n_steps):
+        vn_before = ct * vy + st * vz
+        step = dp
+        last = False
+        if not compressing:
+            target = (1.0 - e * e) * Wc
+            # W rises by about -vn dP: shorten the last step to end on target.
+            if vn_before < 0.0 and W - vn_before * step > target:
+                step = (target - W) / (-vn_before)
+                last = True
+        # Normal impulse along -(0, ct, st) (no moment about the centre).
+        vy -= ct * step / m
+        vz -= st * step / m
+        fa = 0.0
+        fb = 0.0
+        pc = 0.0
+        ga = 0.0
+        gb = 0.0
+        for _it in range(3):
+            # Slip at I along a and b: u = v + w x r.
+            ua = vx + (wy * riz - wz * riy)
+            uy = vy + (wz * 0.0 - wx * riz)
+            uz = vz + (wx * riy - wy * 0.0)
+            ub = -st * uy + ct * uz
+            na, nb = _cone_clip(fa - k_inv * ua, fb - k_inv * ub, mu_w * step)
+            da = na - fa
+            db = nb - fb
+            fa = na
+            fb = nb
+            jx, jy, jz = da, -st * db, ct * db
+            vx += jx / m
+            vy += jy / m
+            vz += jz / m
+            wx += ki * (riy * jz - riz * jy)
+            wy += ki * (riz * jx)
+            wz += ki * (-riy * jx)
+            # Cloth normal impulse: keeps v_z at 0 (no moment).
+            npc = max(-m * vz + pc, 0.0)
+            vz += (npc - pc) / m
+            pc = npc
+            # Slip at C: r = (0, 0, -R): u = (vx - wy R, vy + wx R).
+            ca = vx - wy * R
+            cb = vy + wx * R
+            ng, nh = _cone_clip(ga - k_inv * ca, gb - k_inv * cb, mu_s * pc)
+            dg = ng - ga
+            dh = nh - gb
+            ga = ng
+            gb = nh
+            vx += dg / m
+            vy += dh / m
+            # r x (dg, dh, 0) with r = (0, 0, -R): (R dh, -R dg, 0).
+            wx += ki * (R * dh)
+            wy += ki * (-R * dg)
+        vn_after = ct * vy + st * vz
+        W -= 0.5 * (vn_before + vn_after) * step
+        P += step
+        if compressing and vn_after <= 0.0:
+            compressing = False
+            Wc = W
+        elif last or (not compressing and W >= (1.0 - e * e) * Wc):
+            break
+    v[0], v[1], v[2] = vx, vy, vz
+    w[0], w[1], w[2] = wx, wy, wz
     return P
