@@ -71,6 +71,10 @@ class UsualPlace:
     """The type of :data:`DEFAULT_RECOVERY`: stands for the usual folder."""
 
 
+IDLE_WAKE_MS = 250
+"""While idle the view sleeps in the event queue and wakes this often (ms) for
+its clocks; it redraws only on input, work in progress or a changed frame."""
+
 DEFAULT_RECOVERY = UsualPlace()
 """Pass as ``recovery_dir`` to use :func:`shotplan.view.recovery.default_recovery_dir`."""
 
@@ -714,6 +718,18 @@ class App:
         if self.help_visible:
             draw_help(surface, self.painter)
 
+    def _busy(self) -> bool:
+        """Whether the view has work of its own this frame: the animation
+        playing, a drag, the search not finished, or an edit under a second old."""
+        return (self.playback.playing or self.pointer.dragging
+                or self.predictor.busy(self.state) or self.now - self._edit_time < 1.0)
+
+    def _look(self) -> tuple[Any, ...]:
+        """What the frame shows, in a few values: equal keys, the same frame."""
+        return (self.state.revision, self.size, self.note, self.help_visible,
+                id(self.predictor.outcome), self.predictor.message, self.playback.t,
+                self._frame_key)
+
     def _hint(self) -> str:
         """The hint at the foot of the table: what to do next, or why
         nothing is predicted."""
@@ -771,14 +787,29 @@ class App:
         self.start(screen.get_size())
         self._draw_loading(screen)
         clock = pygame.time.Clock()
+        shown: Any = None
         try:
             while self.running:
-                dt = clock.tick(60) / 1000.0
-                for event in pygame.event.get():
+                if self._busy():
+                    dt = clock.tick(60) / 1000.0
+                    events = pygame.event.get()
+                else:
+                    # Idle: sleep until something happens, waking a few times a
+                    # second for the clocks (a note that expires, the autosave).
+                    first = pygame.event.wait(IDLE_WAKE_MS)
+                    events = [] if first.type == pygame.NOEVENT else [first, *pygame.event.get()]
+                    dt = clock.tick() / 1000.0
+                for event in events:
                     self.process_event(event)
                 self.update(dt)
-                self.draw(screen)
-                pygame.display.flip()
+                # Redraw only when something may look different: input, work
+                # in progress, or a change in what the frame shows (the view's
+                # widgets have no hover tips that appear without input).
+                key = self._look()
+                if events or self._busy() or key != shown:
+                    self.draw(screen)
+                    pygame.display.flip()
+                    shown = key
         finally:
             self.close()
             pygame.quit()
