@@ -15,6 +15,7 @@ under the slider where their ranges lie.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
@@ -61,7 +62,11 @@ if TYPE_CHECKING:
     from .predict import Predictor
     from .state import ViewState
 
-__all__ = ["Panels", "RecoveryDialog", "PathDialog"]
+__all__ = ["Panels", "RecoveryDialog", "PathDialog", "LIST_REFRESH_S"]
+
+LIST_REFRESH_S = 0.3
+"""While the search fills the proposals' list, it is laid out again at most
+this often (s): a few times a second instead of at every result."""
 
 class PathDialog(UIFileDialog):
     """pygame_gui's file dialog, where Return in the path field saves (or
@@ -152,6 +157,7 @@ class Panels:
         self._status_text = ""
         self._status_time = -1.0
         self._list_source: Any = None
+        self._list_time = -math.inf
         self._list_texts: list[str | tuple[str, str]] = []
         self._play_label = ""
         self.build()
@@ -477,7 +483,7 @@ class Panels:
         if aim_html != self._aim_text and (now - self._aim_time >= 0.12 or not busy):
             self._aim_text, self._aim_time = aim_html, now
             self.aim_box.set_text(aim_html)
-        self._sync_list(state)
+        self._sync_list(state, now)
         duration = predictor.duration
         label = f"{playback.t:.2f} / {duration:.2f} s"
         if label != self._play_label:
@@ -493,15 +499,22 @@ class Panels:
             self.status.set_text(status)
         self.title_label.set_text(title)
 
-    def _sync_list(self, state: Any) -> None:
+    def _sync_list(self, state: Any, now: float = math.inf) -> None:
         """The proposed shots' list (or why there are none), redrawn when the
-        search's results change."""
+        search's results change: while the search is still filling it, at
+        most every :data:`LIST_REFRESH_S` (pygame_gui lays the whole list out
+        again each time, about 10 ms), at once when it is done."""
         source = (state.proposals, state.rejections, state.proposals_done,
                   bool(state.problems()))
         old = self._list_source
-        if old is None or old[0] is not source[0] or old[1] is not source[1] or \
-                old[2:] != source[2:]:
+        changed = old is None or old[0] is not source[0] or old[1] is not source[1] or \
+            old[2:] != source[2:]
+        refilling = not state.proposals_done and old is not None and old[2:] == source[2:]
+        if changed and refilling and now - self._list_time < LIST_REFRESH_S:
+            return
+        if changed:
             self._list_source = source
+            self._list_time = now
             bw = ball_width(state.proposals)
             texts: list[str | tuple[str, str]] = [proposal_text(k + 1, shot, bw)
                                                   for k, shot in enumerate(state.proposals)]
