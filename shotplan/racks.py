@@ -158,7 +158,8 @@ def _snooker_setup(table: TableSpec) -> dict[str, tuple[float, float]]:
     """The snooker set-up (WPBSA rules, section 2, from memory): the colours on
     their spots, fifteen reds in a close triangle whose apex red is as near
     the pink as it can be without touching (here a millimetre), and the cue
-    ball in the D."""
+    ball in the D (in hand: our own choice of spot, between the brown and the
+    yellow)."""
     if table.game != "snooker" or table.baulk_line_x_m is None:
         raise LayoutError(f"rack: the snooker set-up is for a snooker table, {table.name!r} is "
                           f"a {table.game} table")
@@ -167,7 +168,11 @@ def _snooker_setup(table: TableSpec) -> dict[str, tuple[float, float]]:
     px, py = spots["pink"]
     apex = px + d + 0.001
     row_step = d * math.sqrt(3.0) / 2.0
-    out: dict[str, tuple[float, float]] = {"cue": start_spot(table)}
+    # The cue ball in hand in the D, placed as a break is often played: off
+    # the brown toward the yellow, clear of the baulk colours' line.
+    bx, by = spots["brown"]
+    out: dict[str, tuple[float, float]] = {
+        "cue": (bx - 0.05, by - 0.5 * (table.d_radius_m or 0.0))}
     n = 1
     for k in range(5):
         for j in range(k + 1):

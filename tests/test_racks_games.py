@@ -76,3 +76,19 @@ def test_a_carom_cloth_has_no_head_string():
     assert "head string" not in names
     assert "head string" in {n for n, _a, _b in Table(TableSpec.preset("pool-9ft")).strings()}
     assert "baulk line" in {n for n, _a, _b in Table(TableSpec.preset("snooker")).strings()}
+
+
+def test_the_view_sets_up_each_game_and_refuses_the_wrong_table():
+    # The view's set-up buttons: each set-up takes its game with it (the
+    # proposals then follow its rules); a set-up for another kind of table
+    # is refused with the rack's own one line.
+    from shotplan.racks import new_layout
+    from shotplan.view.state import ViewState
+
+    st = ViewState(new_layout(TableSpec.preset("snooker")), None, "")
+    assert st.set_rack("snooker")
+    assert st.layout.game == "snooker" and len(st.layout.ball_ids) == 22
+    with pytest.raises(LayoutError, match="pool tables"):
+        st.set_rack("9-ball")
+    carom = ViewState(new_layout(TableSpec.preset("carom")), None, "")
+    assert carom.set_rack("carom") and carom.layout.game == "three-cushion"

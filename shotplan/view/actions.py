@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import TYPE_CHECKING, Any
 
+from ..errors import LayoutError
 from .playback import Playback
 
 if TYPE_CHECKING:
@@ -46,7 +47,10 @@ def _redo(app: App, value: Any) -> None:
 
 def _rack(game: str) -> Callable[[App, Any], None]:
     def act(app: App, value: Any) -> None:
-        app.state.set_rack(game)
+        try:
+            app.state.set_rack(game)
+        except LayoutError as e:  # a set-up for another kind of table
+            app.say(str(e).removeprefix("rack: "))
     return act
 
 
@@ -164,6 +168,7 @@ def _quit(app: App, value: Any) -> None:
 ACTIONS: dict[str, Callable[[App, Any], None]] = {
     "open": _open, "save-as": _dialog("save-as"), "export": _dialog("export"), "save": _save,
     "undo": _undo, "redo": _redo, "rack-8": _rack("8-ball"), "rack-9": _rack("9-ball"),
+    "rack-snooker": _rack("snooker"), "rack-carom": _rack("carom"),
     "clear": _clear, "add": _add, "remove": _remove, "help": _help, "play": _play,
     "reset": _reset, "scrub": _scrub, "rate": _rate, "next-rate": _next_rate, "speed": _speed,
     "speed-step": _speed_step, "turn": _turn, "elevation": _elevation, "tip": _tip,

@@ -73,7 +73,8 @@ SLIDER_STEPS = 1000
 TOOLBAR: tuple[tuple[str, str], ...] = (
     ("open", "Open"), ("save", "Save"), ("save-as", "Save as"), ("export", "Export"),
     ("", ""), ("undo", "Undo"), ("redo", "Redo"),
-    ("", ""), ("rack-8", "8-ball rack"), ("rack-9", "9-ball rack"), ("clear", "Clear"),
+    ("", ""), ("rack-8", "8-ball rack"), ("rack-9", "9-ball rack"),
+    ("rack-snooker", "Snooker"), ("rack-carom", "Carom"), ("clear", "Clear"),
     ("add", "Add ball"), ("remove", "Remove ball"),
     ("", ""), ("help", "Keys"),
 )

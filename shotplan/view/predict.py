@@ -26,6 +26,7 @@ from typing import Any
 
 from ..aim import aim_at, contact_fraction
 from ..errors import ShotplanError
+from ..games import CAROM_GAMES, Rules
 from ..physics import Outcome
 from ..search import KINDS, Rejected, Shot, find_shots
 from .state import FreeAim, PocketAim, ViewState
@@ -419,11 +420,12 @@ class Predictor:
             self._prop_rejected = []
         t0 = time.perf_counter()
         added = False
+        rules = _rules(state)
         while self._prop_queue and time.perf_counter() - t0 < self.budget_s:
             ball, pocket, kind = self._prop_queue.pop(0)
             try:
                 res = find_shots(state.layout, balls=[ball], pockets=[pocket], kinds=(kind,),
-                                 physics=state.physics())
+                                 physics=state.physics(), rules=rules)
             except (ShotplanError, KeyError):
                 continue
             self._prop_rejected.extend(res.rejected)
@@ -442,3 +444,15 @@ class Predictor:
 
 def _xy(p: Any) -> tuple[float, float]:
     return (float(p[0]), float(p[1]))
+
+
+def _rules(state: ViewState) -> Rules | None:
+    """The layout's game's rules for the proposals (None: no game, a carom
+    game, or balls the game cannot name)."""
+    game = state.layout.game
+    if game == "any" or game in CAROM_GAMES:
+        return None
+    try:
+        return Rules(game, state.layout.ball_ids)
+    except ShotplanError:
+        return None

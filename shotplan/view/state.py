@@ -481,14 +481,15 @@ class ViewState:
         return changed
 
     def set_rack(self, kind: str) -> bool:
-        """Rack the balls as the trade does (``8-ball`` or ``9-ball``), cue ball
-        on the head spot. A new layout: titled after the rack, the old title
-        and note (which described other balls) dropped.
+        """Rack the balls as the trade does (``8-ball`` or ``9-ball``, cue ball
+        on the head spot), or set up ``snooker`` or ``carom``. A new layout,
+        played by that game's rules: titled after the rack, the old title and
+        note (which described other balls) dropped.
 
         Parameters
         ----------
         kind : str
-            ``8-ball`` or ``9-ball``.
+            One of :data:`shotplan.racks.RACKS`.
 
         Returns
         -------
@@ -496,8 +497,10 @@ class ViewState:
             Whether anything changed.
         """
         balls = rack(kind, self.layout.table)
+        game = {"carom": "three-cushion"}.get(kind, kind)  # the racks are the games' own
+        title = {"snooker": "snooker set-up", "carom": "carom start"}.get(kind, f"{kind} rack")
         layout = Layout(self.layout.table, tuple(balls.items()), self.layout.stroke,
-                        self.layout.physics_overrides, f"{kind} rack", "")
+                        self.layout.physics_overrides, title, "", game)
         self.selection = None
         return self._apply(None, layout=layout, aim=None)
 
