@@ -24,7 +24,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from .physics.params import Physics
 
 __all__ = ["Stroke", "STROKE_KEYS", "speed_word", "TIPS", "OLD_ROLL_WORDS", "tip_height",
-           "default_speed"]
+           "default_speed", "miscue_angle", "limit_angle", "is_miscue", "lowest_height"]
 
 TIPS = ("stun", "follow", "draw", "centre")
 """Tip choices: ``stun`` (no spin about the horizontal at contact), ``follow``
@@ -215,7 +215,120 @@ def speed_word(speed_mps: float) -> str:
 # The two functions below are stroke physics from closed forms: they read the
 # physics values but run no simulation, so this module imports the physics
 # only for type checking (the engine is not loaded by ``import shotplan``).
-def tip_height(tip: str, speed: float, distance: float, physics: Physics) -> float:
+def miscue_angle(side: float, height: float, elevation_deg: float) -> float:
+    """The angle between the cue and the ball's surface normal at the tip, radians.
+
+    Derivation (the module's frame, lengths in ball radii): the tip meets the
+    sphere at ``Q = (a, -c, b)`` with ``c = sqrt(1 - a^2 - b^2)``; the inward
+    normal there is ``-Q = (-a, c, -b)``; the cue runs along
+    ``d = (0, cos theta, -sin theta)``. Both are unit vectors, so
+
+        cos(phi) = d . (-Q) = c cos(theta) + b sin(theta).
+
+    A level cue gives ``cos(phi) = c``, so ``sin(phi) = sqrt(a^2 + b^2)``, the
+    tip offset. Raising the cue makes a strike below centre more glancing
+    and one above centre less so.
+
+    Parameters
+    ----------
+    side, height : float
+        Tip offset in ball radii (as :class:`shotplan.stroke.Stroke`).
+    elevation_deg : float
+        Cue elevation, degrees.
+
+    Returns
+    -------
+    float
+        The angle ``phi`` in radians, in [0, pi].
+    """
+    a, b = float(side), float(height)
+    c = math.sqrt(max(1.0 - a * a - b * b, 0.0))
+    th = math.radians(elevation_deg)
+    cos_phi = c * math.cos(th) + b * math.sin(th)
+    return math.acos(min(1.0, max(-1.0, cos_phi)))
+
+
+def limit_angle(miscue_limit: float) -> float:
+    """The largest angle between cue and surface normal, radians: ``asin(L)``.
+
+    For a level cue the tip offset is ``sin(phi)``, so a miscue limit of
+    ``L`` ball radii is the angle whose sine is ``L``.
+
+    Parameters
+    ----------
+    miscue_limit : float
+        The limit ``L``, ball radii (for a level cue).
+
+    Returns
+    -------
+    float
+        The angle, radians.
+    """
+    return math.asin(min(1.0, max(0.0, float(miscue_limit))))
+
+
+def is_miscue(side: float, height: float, elevation_deg: float, miscue_limit: float) -> bool:
+    """Whether this tip offset miscues at this elevation (:func:`miscue_angle` beyond
+    :func:`limit_angle`).
+
+    Parameters
+    ----------
+    side, height : float
+        Tip offset, ball radii.
+    elevation_deg : float
+        Cue elevation, degrees.
+    miscue_limit : float
+        The limit, ball radii (for a level cue).
+
+    Returns
+    -------
+    bool
+        True beyond the limit.
+    """
+    return miscue_angle(side, height, elevation_deg) > limit_angle(miscue_limit) + 1e-12
+
+
+def lowest_height(side: float, elevation_deg: float, miscue_limit: float) -> float:
+    """The lowest tip height (most draw) inside the miscue limit at this side
+    and elevation, ball radii.
+
+    Along ``b`` the angle of :func:`miscue_angle` grows as the tip goes down
+    (for ``b <= 0``), so the edge is found by bisection on ``[-1, 0]`` to
+    1e-9 R. A level cue gives ``-sqrt(L^2 - a^2)``.
+
+    Parameters
+    ----------
+    side : float
+        Tip side offset, ball radii.
+    elevation_deg : float
+        Cue elevation, degrees.
+    miscue_limit : float
+        The limit, ball radii (for a level cue).
+
+    Returns
+    -------
+    float
+        The height (at most 0); 0 when even the centre height is beyond the
+        limit (the caller must then refuse the stroke).
+    """
+    if is_miscue(side, 0.0, elevation_deg, miscue_limit):
+        return 0.0
+    if elevation_deg == 0.0:  # level: the offset itself is the limit
+        return -math.sqrt(max(miscue_limit * miscue_limit - side * side, 0.0))
+    lo, hi = -math.sqrt(max(1.0 - side * side, 0.0)), 0.0  # hi inside, lo maybe not
+    if not is_miscue(side, lo, elevation_deg, miscue_limit):
+        return lo
+    while hi - lo > 1e-9:
+        mid = 0.5 * (lo + hi)
+        if is_miscue(side, mid, elevation_deg, miscue_limit):
+            lo = mid
+        else:
+            hi = mid
+    return hi
+
+
+def tip_height(tip: str, speed: float, distance: float, physics: Physics,
+               elevation_deg: float = 0.0) -> float:
     """Tip height for a tip choice, a launch speed and the cue ball's travel to contact.
 
     ``stun`` is the draw that exactly wears off at contact: while sliding, the
@@ -234,6 +347,10 @@ def tip_height(tip: str, speed: float, distance: float, physics: Physics) -> flo
         The cue ball's travel to contact, m.
     physics : Physics
         Cloth friction, gravity and ball radius.
+    elevation_deg : float, optional
+        Cue elevation, degrees: ``draw`` and the deepest ``stun`` stay at 0.9
+        of the lowest height inside the miscue limit at this elevation
+        (:func:`lowest_height`; ``0.9 L`` below centre for a level cue).
 
     Returns
     -------
@@ -245,7 +362,7 @@ def tip_height(tip: str, speed: float, distance: float, physics: Physics) -> flo
     InputError
         If ``tip`` is not a tip choice.
     """
-    limit = physics.miscue_limit * 0.9
+    limit = -0.9 * lowest_height(0.0, elevation_deg, physics.miscue_limit)
     if tip == "follow":
         return 0.4
     if tip == "draw":

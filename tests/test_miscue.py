@@ -9,6 +9,7 @@ the angle to the normal taken with numpy.
 from __future__ import annotations
 
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -19,6 +20,8 @@ from shotplan.errors import StrokeError
 from shotplan.physics import Physics
 from shotplan.physics.strike import check_tip, is_miscue, launch, limit_angle, miscue_angle
 from shotplan.stroke import Stroke
+
+ROOT = Path(__file__).resolve().parents[1]
 
 
 def _numeric_angle(side: float, height: float, elevation_deg: float) -> float | None:
@@ -97,3 +100,47 @@ def test_search_refuses_tip_beyond_limit_at_elevation() -> None:
     _check_settings(["direct"], "centre", None, 0.3, 0.0, phys, None, 0.0)
     with pytest.raises(InputError, match="elevation"):
         _check_settings(["direct"], "centre", None, 0.3, 0.0, phys, None, 30.0)
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.floats(-0.3, 0.3), st.floats(0.0, 45.0))
+def test_lowest_height_is_the_edge_of_the_limit(a: float, elev: float) -> None:
+    # Independent check: at the height lowest_height gives, the numpy
+    # intersection of the cue line with the sphere meets it at the limit
+    # angle (30 degrees for L = 0.5); a hair lower is beyond it.
+    from shotplan.stroke import lowest_height
+
+    b = lowest_height(a, elev, 0.5)
+    if b == 0.0:
+        centre = _numeric_angle(a, 0.0, elev)
+        assert centre is None or centre >= math.asin(0.5) - 1e-9
+        return
+    phi = _numeric_angle(a, b, elev)
+    assert phi is not None and phi == pytest.approx(math.asin(0.5), abs=1e-7)
+    if a * a + (b - 1e-4) ** 2 < 1.0:
+        lower = _numeric_angle(a, b - 1e-4, elev)
+        assert lower is None or lower > math.asin(0.5)
+
+
+def test_level_lowest_height_is_the_offset_rule() -> None:
+    # Hand-worked: a level cue's limit is the tip offset, so with side a the
+    # lowest height is -sqrt(L^2 - a^2).
+    from shotplan.stroke import lowest_height
+
+    assert lowest_height(0.3, 0.0, 0.5) == pytest.approx(-0.4)
+    assert lowest_height(0.0, 0.0, 0.5) == pytest.approx(-0.5)
+
+
+@pytest.mark.parametrize("elev", [0.0, 10.0, 20.0, 30.0])
+def test_draw_shots_the_search_proposes_stay_inside_the_limit(elev: float) -> None:
+    # The search's own draw heights at elevation: every proposed stroke is a
+    # legal one (the numpy intersection angle within 30 degrees).
+    from shotplan.layout import load_layout
+    from shotplan.search import find_shots
+
+    lay = load_layout(ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json")
+    res = find_shots(lay, tip="draw", elevation_deg=elev, kinds=("direct", "bank"))
+    assert res.shots
+    for s in res.shots:
+        phi = _numeric_angle(s.side, s.height, elev)
+        assert phi is not None and phi <= math.asin(0.5) + 1e-9

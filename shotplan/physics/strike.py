@@ -29,7 +29,7 @@ import math
 from dataclasses import dataclass
 
 from ..errors import StrokeError
-from ..stroke import Stroke
+from ..stroke import Stroke, is_miscue, limit_angle, miscue_angle
 from .params import Physics
 
 __all__ = ["Launch", "check_tip", "launch", "is_miscue", "limit_angle", "miscue_angle", "squirt_angle"]
@@ -73,56 +73,17 @@ def squirt_angle(side: float, ball_mass: float, end_mass: float) -> float:
     return math.atan(s / (1.0 + ball_mass / end_mass + 2.5 * (1.0 - a * a)))
 
 
-def miscue_angle(side: float, height: float, elevation_deg: float) -> float:
-    """The angle between the cue and the ball's surface normal at the tip, radians.
-
-    Derivation (the module's frame, lengths in ball radii): the tip meets the
-    sphere at ``Q = (a, -c, b)`` with ``c = sqrt(1 - a^2 - b^2)``; the inward
-    normal there is ``-Q = (-a, c, -b)``; the cue runs along
-    ``d = (0, cos theta, -sin theta)``. Both are unit vectors, so
-
-        cos(phi) = d . (-Q) = c cos(theta) + b sin(theta).
-
-    A level cue gives ``cos(phi) = c``, so ``sin(phi) = sqrt(a^2 + b^2)``, the
-    tip offset. Raising the cue makes a strike below centre more glancing
-    and one above centre less so.
+def check_tip(side: float, height: float, elevation_deg: float, miscue_limit: float) -> None:
+    """Refuse a tip offset that miscues at this elevation (the one home of the rule).
 
     Parameters
     ----------
     side, height : float
-        Tip offset in ball radii (as :class:`shotplan.stroke.Stroke`).
+        Tip offset, ball radii.
     elevation_deg : float
         Cue elevation, degrees.
-
-    Returns
-    -------
-    float
-        The angle ``phi`` in radians, in [0, pi].
-    """
-    a, b = float(side), float(height)
-    c = math.sqrt(max(1.0 - a * a - b * b, 0.0))
-    th = math.radians(elevation_deg)
-    cos_phi = c * math.cos(th) + b * math.sin(th)
-    return math.acos(min(1.0, max(-1.0, cos_phi)))
-
-
-def limit_angle(miscue_limit: float) -> float:
-    """The largest angle between cue and surface normal, radians: ``asin(L)``.
-
-    For a level cue the tip offset is ``sin(phi)``, so a miscue limit of
-    ``L`` ball radii is the angle whose sine is ``L``.
-    """
-    return math.asin(min(1.0, max(0.0, float(miscue_limit))))
-
-
-def is_miscue(side: float, height: float, elevation_deg: float, miscue_limit: float) -> bool:
-    """Whether this tip offset miscues at this elevation (:func:`miscue_angle` beyond
-    :func:`limit_angle`)."""
-    return miscue_angle(side, height, elevation_deg) > limit_angle(miscue_limit) + 1e-12
-
-
-def check_tip(side: float, height: float, elevation_deg: float, miscue_limit: float) -> None:
-    """Refuse a tip offset that miscues at this elevation (the one home of the rule).
+    miscue_limit : float
+        The limit, ball radii (for a level cue).
 
     Raises
     ------

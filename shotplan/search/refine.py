@@ -234,7 +234,7 @@ def _speeds(player: StrokePlayer, cand: Candidate, s: Settings) -> list[float]:
 def _height(player: StrokePlayer, cand: Candidate, s: Settings, v: float) -> float:
     if s.height is not None:
         return s.height
-    h = tip_height(s.tip, v, max(cand.cue_distance, 0.0), player.physics)
+    h = tip_height(s.tip, v, max(cand.cue_distance, 0.0), player.physics, player.elevation)
     # With side on the tip, keep the whole offset inside the tip room.
     safe = safe_height(h, s.side, s.room)
     return safe if safe is not None else 0.0

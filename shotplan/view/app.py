@@ -42,9 +42,8 @@ from ..render.scene import Scene, Shape
 from ..render.table_shapes import layout_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
-from .controls import MIN_SIZE
 from .draw import Painter, TableCache, rgb
-from .frame import BACKGROUND, draw_help, draw_loading, draw_notes, fit_screen
+from .frame import BACKGROUND, draw_help, draw_loading, draw_notes
 from .keeping import Keeper
 from .keys import binding_for
 from .layers import view_shapes
@@ -70,10 +69,6 @@ AUTOSAVE_DELAY_S = 0.5
 class UsualPlace:
     """The type of :data:`DEFAULT_RECOVERY`: stands for the usual folder."""
 
-
-IDLE_WAKE_MS = 250
-"""While idle the view sleeps in the event queue and wakes this often (ms) for
-its clocks; it redraws only on input, work in progress or a changed frame."""
 
 DEFAULT_RECOVERY = UsualPlace()
 """Pass as ``recovery_dir`` to use :func:`shotplan.view.recovery.default_recovery_dir`."""
@@ -437,7 +432,8 @@ class App:
             return
         geometry = self.predictor.geometry
         distance = math.dist(geometry.cue, geometry.ghost) if geometry is not None else 0.5
-        height = tip_height(tip, st.settings.speed_mps, distance, st.physics())
+        height = tip_height(tip, st.settings.speed_mps, distance, st.physics(),
+                            st.settings.elevation_deg)
         height = max(min(height, limit), -limit)
         st.set_tip(side, height)
 
@@ -718,14 +714,26 @@ class App:
         if self.help_visible:
             draw_help(surface, self.painter)
 
-    def _busy(self) -> bool:
-        """Whether the view has work of its own this frame: the animation
-        playing, a drag, the search not finished, or an edit under a second old."""
+    def busy(self) -> bool:
+        """Whether the view has work of its own this frame.
+
+        Returns
+        -------
+        bool
+            The animation playing, a drag, the search not finished, or an
+            edit under a second old.
+        """
         return (self.playback.playing or self.pointer.dragging
                 or self.predictor.busy(self.state) or self.now - self._edit_time < 1.0)
 
-    def _look(self) -> tuple[Any, ...]:
-        """What the frame shows, in a few values: equal keys, the same frame."""
+    def look(self) -> tuple[Any, ...]:
+        """What the frame shows, in a few values.
+
+        Returns
+        -------
+        tuple
+            Equal keys, the same frame.
+        """
         return (self.state.revision, self.size, self.note, self.help_visible,
                 id(self.predictor.outcome), self.predictor.message, self.playback.t,
                 self._frame_key)
@@ -740,7 +748,14 @@ class App:
             return self.predictor.message
         return ""
 
-    def _draw_loading(self, screen: pygame.Surface) -> None:
+    def show_loading(self, screen: pygame.Surface) -> None:
+        """Draw the table with the loading note (before the first frame).
+
+        Parameters
+        ----------
+        screen : Surface
+            The window.
+        """
         assert self.panels is not None
         t = self.transform
         area = pygame.Rect(*self.panels.regions.table)
@@ -774,43 +789,8 @@ class App:
         return out
 
     def run(self) -> None:
-        """Open the window and run until it is closed."""
-        pygame.display.init()
-        pygame.font.init()
-        self.size = fit_screen(self.size, pygame.display.get_desktop_sizes())
-        screen = pygame.display.set_mode(self.size, pygame.RESIZABLE)
-        try:  # the panels are laid out for MIN_SIZE and up; SDL keeps the window there
-            pygame.Window.from_display_module().minimum_size = MIN_SIZE
-        except (AttributeError, pygame.error):  # pragma: no cover - an older pygame
-            pass
-        pygame.key.set_repeat(350, 35)
-        self.start(screen.get_size())
-        self._draw_loading(screen)
-        clock = pygame.time.Clock()
-        shown: Any = None
-        try:
-            while self.running:
-                if self._busy():
-                    dt = clock.tick(60) / 1000.0
-                    events = pygame.event.get()
-                else:
-                    # Idle: sleep until something happens, waking a few times a
-                    # second for the clocks (a note that expires, the autosave).
-                    first = pygame.event.wait(IDLE_WAKE_MS)
-                    events = [] if first.type == pygame.NOEVENT else [first, *pygame.event.get()]
-                    dt = clock.tick() / 1000.0
-                for event in events:
-                    self.process_event(event)
-                self.update(dt)
-                # Redraw only when something may look different: input, work
-                # in progress, or a change in what the frame shows (the view's
-                # widgets have no hover tips that appear without input).
-                key = self._look()
-                if events or self._busy() or key != shown:
-                    self.draw(screen)
-                    pygame.display.flip()
-                    shown = key
-        finally:
-            self.close()
-            pygame.quit()
+        """Open the window and run until it is closed (:func:`.mainloop.run_window`)."""
+        from .mainloop import run_window
+
+        run_window(self)
 
