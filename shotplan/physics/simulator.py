@@ -9,6 +9,7 @@ piecewise-polynomial trajectories, which can be sampled at any time.
 
 from __future__ import annotations
 
+import threading
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
@@ -191,6 +192,8 @@ class Simulator:
         self.drops = np.ascontiguousarray(table.drop_lines, dtype=float)
         self.radius = table.spec.ball.radius_m
         self.mass = table.spec.ball.mass_kg
+        self._local = threading.local()
+        """Each thread's reusable output arrays (:meth:`_buffers`)."""
 
     def __repr__(self) -> str:
         return f"Simulator({self.table!r}, {self.physics!r})"
@@ -245,28 +248,35 @@ class Simulator:
         if pocketed is not None:
             st[np.asarray(pocketed, dtype=bool)] = POCKETED
         max_ev = int(self.physics.max_events)
-        ev_t = np.zeros(max_ev)
-        ev_kind = np.zeros(max_ev, dtype=np.int64)
-        ev_a = np.zeros(max_ev, dtype=np.int64)
-        ev_b = np.zeros(max_ev, dtype=np.int64)
-        ev_elem = np.zeros(max_ev, dtype=np.int64)
-        ev_sa = np.zeros(max_ev, dtype=np.int64)
-        ev_sb = np.zeros(max_ev, dtype=np.int64)
-        max_seg = 2 * max_ev + n
-        seg_t = np.zeros(max_seg)
-        seg_ball = np.zeros(max_seg, dtype=np.int64)
-        seg_state = np.zeros(max_seg, dtype=np.int64)
-        seg_pos = np.zeros((max_seg, 2))
-        seg_vel = np.zeros((max_seg, 2))
-        seg_om = np.zeros((max_seg, 3))
+        ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb, seg_t, seg_ball, seg_state, \
+            seg_pos, seg_vel, seg_om = self._buffers(max_ev, 2 * max_ev + n)
         n_ev, n_seg, status = run_events(
             pos, vel, om, st, self.prm, self.lines, self.circles, self.drops, max_ev,
             ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_sa, ev_sb,
             seg_t, seg_ball, seg_state, seg_pos, seg_vel, seg_om,
         )
-        return Run(int(status), ev_t[:n_ev], ev_kind[:n_ev], ev_a[:n_ev], ev_b[:n_ev], ev_elem[:n_ev],
-                   ev_sa[:n_ev], ev_sb[:n_ev], seg_t[:n_seg], seg_ball[:n_seg],
-                   seg_state[:n_seg], seg_pos[:n_seg], seg_vel[:n_seg], seg_om[:n_seg], pos, st)
+        # The buffers serve the next run: the Run keeps copies of what was used.
+        return Run(int(status), ev_t[:n_ev].copy(), ev_kind[:n_ev].copy(), ev_a[:n_ev].copy(),
+                   ev_b[:n_ev].copy(), ev_elem[:n_ev].copy(), ev_sa[:n_ev].copy(),
+                   ev_sb[:n_ev].copy(), seg_t[:n_seg].copy(), seg_ball[:n_seg].copy(),
+                   seg_state[:n_seg].copy(), seg_pos[:n_seg].copy(), seg_vel[:n_seg].copy(),
+                   seg_om[:n_seg].copy(), pos, st)
+
+    def _buffers(self, max_ev: int, max_seg: int) -> tuple[np.ndarray, ...]:
+        """The engine's output arrays, made once per thread and size and reused:
+        allocating them for every run cost a tenth of a short shot's time, and
+        in a process whose C library hands large freed blocks back to the
+        system (Dask's workers) eight times that. Every entry a run reads is
+        one it wrote, so they need no clearing."""
+        key = (max_ev, max_seg)
+        bufs: tuple[np.ndarray, ...] | None = getattr(self._local, "bufs", None)
+        if bufs is None or getattr(self._local, "key", None) != key:
+            i8 = np.int64
+            bufs = (np.zeros(max_ev), *(np.zeros(max_ev, dtype=i8) for _ in range(6)),
+                    np.zeros(max_seg), np.zeros(max_seg, dtype=i8), np.zeros(max_seg, dtype=i8),
+                    np.zeros((max_seg, 2)), np.zeros((max_seg, 2)), np.zeros((max_seg, 3)))
+            self._local.bufs, self._local.key = bufs, key
+        return bufs
 
     def run(self, ids: Sequence[str], positions: ArrayLike, stroke: Stroke,
             cue: str = "cue") -> Outcome:
