@@ -28,7 +28,6 @@ import shutil
 import subprocess
 import sys
 import tempfile
-import time
 from collections.abc import Callable
 from types import ModuleType
 from typing import Any
@@ -36,6 +35,9 @@ from typing import Any
 import numpy as np
 
 import shotplan
+
+sys.path.insert(0, str(pathlib.Path(__file__).resolve().parent))
+from bench_physics import best_time  # noqa: E402  (the benchmarks' one timer)
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 LAYOUTS = ROOT / "assets" / "layouts"
@@ -114,24 +116,6 @@ def shots(pkg: ModuleType) -> list[tuple[str, Callable[[], object], Callable[[],
         add(f"{label} {BREAK_SPEED_MPS:g} m/s", physics.Simulator(table, physics.Physics()), ids,
             pos, stroke_mod.Stroke(direction, BREAK_SPEED_MPS))
     return out
-
-
-def best_time(fn: Callable[[], object], budget: float = 0.5, rounds: int = 5) -> float:
-    """Best time of one call over ``rounds`` rounds, after two warm-up calls."""
-    t0 = time.perf_counter()
-    fn()
-    once = time.perf_counter() - t0
-    t0 = time.perf_counter()
-    fn()
-    once = max(min(once, time.perf_counter() - t0), 1e-7)
-    repeat = max(1, int(budget / rounds / once))
-    best = math.inf
-    for _ in range(rounds):
-        t0 = time.perf_counter()
-        for _ in range(repeat):
-            fn()
-        best = min(best, (time.perf_counter() - t0) / repeat)
-    return best
 
 
 def fmt(t: float) -> str:

@@ -135,12 +135,7 @@ def rack(kind: str, table: TableSpec, gap_m: float = 0.0) -> dict[str, tuple[flo
             placed[ball] = (fx + k * row_step, fy + (j - (len(row) - 1) / 2) * pitch)
     for ball in sorted(placed, key=int):
         out[ball] = placed[ball]
-    bad = [b for b, ok in zip(out, geo.is_legal(np.array(list(out.values()))), strict=True)
-           if not ok]
-    if bad:
-        raise LayoutError(f"rack: the {kind} rack does not fit on the {table.name} table "
-                          f"(ball {quoted(bad[0])} would be off the bed or in a cushion)")
-    return out
+    return _checked(out, table, f"{kind} rack")
 
 
 def _checked(out: dict[str, tuple[float, float]], table: TableSpec, what: str
