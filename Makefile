@@ -8,7 +8,7 @@ DEMO   := assets/layouts/club-night-1-straight-in.json
 # The model and the engine are held to mypy --strict.
 STRICT := shotplan/errors.py shotplan/units.py shotplan/equipment shotplan/table.py \
           shotplan/stroke.py shotplan/aim.py shotplan/layout.py shotplan/racks.py shotplan/players.py \
-          shotplan/tablefile.py shotplan/placement.py \
+          shotplan/tablefile.py shotplan/placement.py shotplan/games.py \
           shotplan/files shotplan/physics
 
 .PHONY: run test bench check clean screenshots
