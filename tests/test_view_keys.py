@@ -55,7 +55,8 @@ def test_the_first_matching_binding_wins():
     assert binding_for(pygame.K_RIGHT, 0).value == -0.1
     assert binding_for(pygame.K_SLASH, pygame.KMOD_SHIFT, "?").action == "help"
     assert binding_for(pygame.K_s, 0) is None
-    assert binding_for(pygame.K_a, 0) is None
+    assert binding_for(pygame.K_a, 0).action == "atlas"
+    assert binding_for(pygame.K_j, 0) is None
 
 
 def _mods(b):

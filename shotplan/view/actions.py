@@ -54,6 +54,11 @@ def _rack(game: str) -> Callable[[App, Any], None]:
     return act
 
 
+def _atlas(app: App, value: Any) -> None:
+    app.atlas.toggle()
+    app.say("atlas shown" if app.atlas.on else "atlas hidden")
+
+
 def _clear(app: App, value: Any) -> None:
     app.state.clear()
 
@@ -168,7 +173,7 @@ def _quit(app: App, value: Any) -> None:
 ACTIONS: dict[str, Callable[[App, Any], None]] = {
     "open": _open, "save-as": _dialog("save-as"), "export": _dialog("export"), "save": _save,
     "undo": _undo, "redo": _redo, "rack-8": _rack("8-ball"), "rack-9": _rack("9-ball"),
-    "rack-snooker": _rack("snooker"), "rack-carom": _rack("carom"),
+    "rack-snooker": _rack("snooker"), "rack-carom": _rack("carom"), "atlas": _atlas,
     "clear": _clear, "add": _add, "remove": _remove, "help": _help, "play": _play,
     "reset": _reset, "scrub": _scrub, "rate": _rate, "next-rate": _next_rate, "speed": _speed,
     "speed-step": _speed_step, "turn": _turn, "elevation": _elevation, "tip": _tip,

@@ -42,6 +42,7 @@ from ..render.scene import Scene, Shape
 from ..render.table_shapes import layout_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
+from .atlas_layer import AtlasLayer
 from .draw import Painter, TableCache, rgb
 from .frame import BACKGROUND, draw_help, draw_loading, draw_notes
 from .keeping import Keeper
@@ -118,6 +119,7 @@ class App:
             layout = new_layout(TableSpec.preset(table))
         self.state = ViewState(layout, path, load_message)
         self.predictor = Predictor()
+        self.atlas = AtlasLayer()  # the selected ball's atlas behind the balls (A)
         self.playback = Playback()
         self.size = (int(size[0]), int(size[1]))
         self.running = True
@@ -590,6 +592,8 @@ class App:
         self._note_edit()
         dragging = self.pointer.dragging
         self.predictor.update(st, self.now, dragging)
+        if not dragging:
+            self.atlas.update(st)
         self.playback.advance(dt, self.predictor.duration)
         self._autosave()
         if self.note and self.now > self._note_until:
@@ -621,7 +625,6 @@ class App:
         self.predictor.settle(self.state, self.now, max_seconds)
         self.update(0.0)
 
-    # --------------------------------------------------------------- text
     def title_text(self) -> str:
         """The layout's title (or file name), and whether it is unsaved.
 
@@ -632,7 +635,7 @@ class App:
         return title_text(self.state)
 
     def status_text(self) -> str:
-        """Pointer position in mm and diamonds, and the last message.
+        """Pointer position in mm and diamonds, and the last message (or the atlas's line).
 
         Returns
         -------
@@ -644,6 +647,8 @@ class App:
             parts.append(pointer_words(*self.transform.to_table(*pos), self.state.table))
         if self.note:
             parts.append(self.note)
+        elif self.atlas.on:
+            parts.append(self.atlas.describe())
         elif not parts:
             parts.append("F1 lists the keys")
         return "     |     ".join(parts)
@@ -667,10 +672,10 @@ class App:
         mm_per_px = self.transform.metres(1.0) * 1000.0
         key = (st.layout, st.selection, self.hover_ball, id(pred.outcome), pred.geometry,
                id(pred.window), st.direction_deg, st.settings.elevation_deg, t, aimed,
-               tuple(p.ball for p in st.problems()), round(mm_per_px, 4))
+               tuple(p.ball for p in st.problems()), round(mm_per_px, 4), self.atlas.version)
         if key == self._shapes_key:
             return self._shapes
-        shapes = view_shapes(st, pred, t, self.hover_ball, mm_per_px)
+        shapes = self.atlas.shapes() + view_shapes(st, pred, t, self.hover_ball, mm_per_px)
         self._shapes_key, self._shapes = key, shapes
         return shapes
 
@@ -723,7 +728,7 @@ class App:
             The animation playing, a drag, the search not finished, or an
             edit under a second old.
         """
-        return (self.playback.playing or self.pointer.dragging
+        return (self.playback.playing or self.pointer.dragging or self.atlas.busy
                 or self.predictor.busy(self.state) or self.now - self._edit_time < 1.0)
 
     def look(self) -> tuple[Any, ...]:
@@ -764,7 +769,6 @@ class App:
         table = self.table_cache.surface(self.scene, local, area.size, BACKGROUND)
         draw_loading(screen, self.painter, table, area)
 
-    # ---------------------------------------------------------------- run
     def screenshot(self, path: str | os.PathLike[str]) -> Path:
         """Render the first frame (prediction and proposals complete) to a PNG.
 
