@@ -26,6 +26,7 @@ import hashlib
 import json
 import math
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Any
 
 import numpy as np
@@ -122,9 +123,10 @@ class AtlasJob:
             raise InputError(f"--tip: {self.tip!r} is not a tip choice, must be one of "
                              f"{', '.join(TIPS)}")
 
-    @property
+    @cached_property
     def grid(self) -> Grid:
-        """The job's grid (computed on each call; cheap)."""
+        """The job's grid (made once per job: every block, and the view's every
+        cell, reads it)."""
         return make_grid(self.layout, self.cell_m)
 
     def fingerprint(self) -> str:
