@@ -24,15 +24,16 @@ import sys
 from pathlib import Path
 
 import numpy as np
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from shotplan.physics.collide import cushion_frame_impact
+from shotplan.physics.collide import CUSHION_STEPS, cushion_frame_impact
 
 sys.path.insert(0, str(Path(__file__).parent / "reference"))
 import cushion_mathavan as cm  # noqa: E402
 
-STEPS = 40
+STEPS = CUSHION_STEPS  # the engine's own step count
 S = cm.WPA_POOL
 SIN_T = (S.nose_height_m - S.radius_m) / S.radius_m
 
@@ -97,3 +98,61 @@ def test_rolling_ball_straight_in_does_not_come_back_faster() -> None:
         v_in = cm.incoming_velocity(speed, 90.0)
         v, _ = _law(v_in, cm.spin("rolling", v_in, S.radius_m), S.e, S.mu_w, S.mu_s, SIN_T)
         assert math.hypot(v[0], v[1]) <= speed
+
+
+@settings(max_examples=25, deadline=None)
+@given(
+    psi=st.floats(-180.0, 180.0),
+    speed=st.floats(0.5, 4.0),
+    angle=st.floats(15.0, 90.0),
+    kind=st.sampled_from(["stun", "rolling", "draw"]),
+    side=st.floats(-0.3, 0.3),
+)
+def test_engine_law_on_a_cushion_of_any_direction(
+    psi: float, speed: float, angle: float, kind: str, side: float
+) -> None:
+    # Source: Mathavan, Jackson & Parkin 2010 via tests/reference. The
+    # engine's ball_cushion on a cushion whose inward normal points at psi:
+    # the incoming state is built in the paper's frame and turned onto the
+    # table; the rebound, turned back, must match the reference (issue 14's
+    # 0.5 degrees and 2 %). The spin converges to the reference at first
+    # order in the impulse step (stun at 70 degrees, the worst found: 3 % of
+    # its largest component with 16 steps, 0.3 % with 160): within 5 %, and
+    # the line the ball rolls on once the cloth has ended its slip
+    # (v - 2/7 u, solid sphere) within the same 0.5 degrees.
+    from shotplan.equipment import TableSpec
+    from shotplan.physics import Physics
+    from shotplan.physics.collide import ball_cushion
+    from shotplan.physics.simulator import _params_vector
+    from shotplan.table import Table
+
+    v_p = cm.incoming_velocity(speed, angle)
+    w_p = cm.spin("rolling", v_p, S.radius_m, side=side) if kind == "rolling" else cm.spin(
+        kind, v_p, S.radius_m)
+    ref = cm.impact(v_p, w_p, S.e, S.mu_w, S.mu_s, S.radius_m, S.mass_kg, S.nose_height_m)
+    c, s_ = math.cos(math.radians(psi)), math.sin(math.radians(psi))
+    hx, hy = c, s_  # inward normal; the paper's y is -h, its x is (-hy, hx)
+    ax, ay = -hy, hx
+
+    def to_table(p: np.ndarray) -> tuple[float, float]:
+        return p[0] * ax - p[1] * hx, p[0] * ay - p[1] * hy
+
+    spec = TableSpec.preset("pool-9ft")
+    prm = _params_vector(Table(spec), Physics(cloth_sliding_friction=S.mu_s))
+    vel = np.array([to_table(v_p)])
+    om = np.array([[*to_table(w_p), w_p[2]]])
+    ball_cushion(0, hx, hy, np.zeros((1, 2)), vel, om, prm, S.e, 0.0, S.mu_w)
+    want_v = to_table(ref.v_out)
+    got_v = (vel[0, 0], vel[0, 1])
+    d = abs(math.degrees(math.atan2(got_v[1], got_v[0]) - math.atan2(want_v[1], want_v[0])))
+    assert min(d, 360.0 - d) < 0.5
+    assert math.hypot(*got_v) == pytest.approx(math.hypot(*want_v), rel=0.02)
+    want_w = np.array([*to_table(ref.w_out), ref.w_out[2]])
+    assert np.max(np.abs(om[0] - want_w)) <= 0.05 * np.max(np.abs(want_w)) + 1e-9
+
+    def rolls_on(v: tuple[float, float], w: np.ndarray) -> float:
+        ux, uy = v[0] - S.radius_m * w[1], v[1] + S.radius_m * w[0]
+        return math.atan2(v[1] - 2.0 / 7.0 * uy, v[0] - 2.0 / 7.0 * ux)
+
+    d = abs(math.degrees(rolls_on(got_v, om[0]) - rolls_on(want_v, want_w)))
+    assert min(d, 360.0 - d) < 0.5

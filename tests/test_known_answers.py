@@ -40,14 +40,29 @@ def test_known_answer(path):
         assert math.isclose(g["t"], e["t"], abs_tol=1e-6), (g, e)
 
 
+def times(name, kind):
+    """The times of one kind of event in a known-answer file."""
+    data = json.loads((KNOWN / name).read_text(encoding="utf-8"))
+    return [e["t"] for e in data["events"] if e["kind"] == kind]
+
+
 def test_hand_checked_times_are_in_the_files():
     # The hand-worked times quoted in the notes (to 1e-5 s).
-    def times(name, kind):
-        data = json.loads((KNOWN / name).read_text(encoding="utf-8"))
-        return [e["t"] for e in data["events"] if e["kind"] == kind]
-
     assert times("follow-straight-in-corner.json", "rolling")[0] == pytest.approx(0.218511, abs=1e-5)
     assert times("follow-straight-in-corner.json", "collision")[0] == pytest.approx(0.433037, abs=1e-5)
     assert times("natural-roll-foot-rail.json", "cushion")[0] == pytest.approx(0.889052, abs=1e-5)
     assert times("draw-back-head-on.json", "collision")[0] == pytest.approx(0.129670, abs=1e-5)
     assert times("cut-into-side-pocket.json", "collision")[0] == pytest.approx(0.595732, abs=1e-5)
+
+
+def test_times_after_the_rail_follow_the_published_cushion_model():
+    # After a rail: the independent reference of Mathavan, Jackson & Parkin
+    # (2010) (tests/reference/cushion_mathavan.py, scipy over the impulse)
+    # fed the state at the rail, then the solid sphere's end of sliding
+    # v - 2/7 u and the rolling deceleration, worked out in the files' notes.
+    # Tolerances: the engine steps the impulse (collide.CUSHION_STEPS); 0.1 ms
+    # for the end of sliding, 2 ms for the rest several seconds later.
+    assert times("natural-roll-foot-rail.json", "rolling")[0] == pytest.approx(1.06074, abs=1e-4)
+    assert times("natural-roll-foot-rail.json", "rest")[0] == pytest.approx(7.2417, abs=2e-3)
+    assert times("draw-back-head-on.json", "rolling")[2] == pytest.approx(1.26437, abs=1e-4)
+    assert max(times("draw-back-head-on.json", "rest")) == pytest.approx(7.7279, abs=2e-3)

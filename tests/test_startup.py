@@ -98,7 +98,7 @@ def test_the_program_flushes_everything_before_it_ends_itself() -> None:
     proc = subprocess.run([sys.executable, "-m", "shotplan", "plan", str(CUT), "--json"],
                           capture_output=True, text=True, cwd=ROOT, timeout=300)
     assert proc.returncode == 0, proc.stderr
-    assert len(json.loads(proc.stdout)) == 12  # the README's count for the cut demo
+    assert len(json.loads(proc.stdout)) == 11  # the README's count for the cut demo
     bad = subprocess.run([sys.executable, "-m", "shotplan", "check", "no-such-file.json"],
                          capture_output=True, text=True, cwd=ROOT, timeout=300)
     assert bad.returncode == 2 and bad.stderr.count("\n") == 1

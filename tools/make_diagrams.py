@@ -15,7 +15,7 @@ LAYOUTS = ROOT / "assets" / "layouts"
 COMMANDS = [
     ["draw", str(LAYOUTS / "club-night-2-cut-to-corner.json"), "--shot", "1",
      "-o", str(OUT / "cut-to-corner-shot1.png"), "--dpi", "100"],
-    ["draw", str(LAYOUTS / "club-night-2-cut-to-corner.json"), "--shot", "3",
+    ["draw", str(LAYOUTS / "club-night-2-cut-to-corner.json"), "--shot", "4",
      "--style", "colour", "-o", str(OUT / "cut-to-corner-kick-colour.png"), "--dpi", "100"],
     ["position", str(LAYOUTS / "club-night-4-position-drill.json"), "--ball", "4",
      "--pocket", "foot-right", "--zone", "circle:1.9,0.9,0.2",

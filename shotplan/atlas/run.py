@@ -201,7 +201,10 @@ class AtlasCluster:
                 n = self.wanted if self.wanted else (os.cpu_count() or 1)
                 # The cluster's small web servers on free ports of this machine
                 # (":0"), so two atlases at once never fight over Dask's fixed
-                # default port; logs only for errors. Dask's nanny gives its
+                # default port; logs only for critical failures (a worker's
+                # heartbeat that meets the scheduler closing at the end of a
+                # busy run logs a whole traceback at the error level, and task
+                # errors reach this process as exceptions anyway). Dask's nanny gives its
                 # workers MALLOC_TRIM_THRESHOLD_=65536, which returns every
                 # freed block above 64 KiB to the system: the engine's event
                 # arrays are then fresh pages at every run, and a worker ran
@@ -216,7 +219,7 @@ class AtlasCluster:
                     self._local = LocalCluster(n_workers=n, threads_per_worker=1,
                                                processes=True, host="127.0.0.1",
                                                dashboard_address=":0",
-                                               worker_dashboard_address=":0", silence_logs=40)
+                                               worker_dashboard_address=":0", silence_logs=50)
                 self._client = Client(self._local)
             self.workers = len(self._client.scheduler_info().get("workers", {}))
         return self._client

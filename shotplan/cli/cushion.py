@@ -48,7 +48,7 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
     sub : argparse._SubParsersAction
         The ``shotplan`` command's subparsers.
     """
-    from ..cushion import FIRM_STROKE_MPS, RESTITUTION_MODELS
+    from ..cushion import BANK_SPEED_MPS, FIRM_STROKE_MPS, RESTITUTION_MODELS
     from ..equipment import PRESETS
 
     p = sub.add_parser("cushion", help="fit cushion and cloth measurements; report a profile",
@@ -97,7 +97,7 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
     r.add_argument("--firm-speed", type=_speed, default=FIRM_STROKE_MPS, metavar="MPS",
                    help=f"launch speed of the rebound test (default {FIRM_STROKE_MPS:g})")
     r.add_argument("--bank-speed", type=_speed, default=None, metavar="MPS",
-                   help="launch speed of the compared bank (default 3)")
+                   help=f"launch speed of the compared bank (default {BANK_SPEED_MPS:g})")
     r.set_defaults(run=_run_report)
 
 

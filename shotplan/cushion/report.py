@@ -59,8 +59,8 @@ __all__ = [
     "measured_up_to",
 ]
 
-BANK_SPEED_MPS = 3.0
-"""Launch speed of the one-rail bank compared in reports, m/s (a ``fast``
+BANK_SPEED_MPS = 2.5
+"""Launch speed of the one-rail bank compared in reports, m/s (a firm
 bank: common practice, no source). The same speed on both tables, so the
 aims differ by the cushion alone."""
 

@@ -31,6 +31,7 @@ from .state import (
     P_E_C,
     P_E_C_SLOPE,
     P_E_J,
+    P_E_J_SLOPE,
     P_G,
     P_M,
     P_MU_B,
@@ -288,16 +289,13 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                             hx = ex / en
                             hy = ey / en
                 vn_in = vel[a, 0] * hx + vel[a, 1] * hy
-                e0 = prm[P_E_C] if kind == EV_CUSHION else prm[P_E_J]
                 if kind == EV_CUSHION:
-                    ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
-                                 prm[P_MU_C])
+                    e0, e_slope, mu_c = prm[P_E_C], prm[P_E_C_SLOPE], prm[P_MU_C]
                 else:
-                    ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
-                                 prm[P_MU_J])
+                    e0, e_slope, mu_c = prm[P_E_J], prm[P_E_J_SLOPE], prm[P_MU_J]
+                ball_cushion(a, hx, hy, pos, vel, om, prm, e0, e_slope, mu_c)
                 # The same restitution as collide.ball_cushion used.
-                _settle(a, hx, hy, vn_in, max(e0 - prm[P_E_C_SLOPE] * (-vn_in), 0.05),
-                        vel, om, prm)
+                _settle(a, hx, hy, vn_in, max(e0 - e_slope * (-vn_in), 0.05), vel, om, prm)
             elif kind == EV_POCKET:
                 st[a] = POCKETED
                 vel[a, 0] = 0.0

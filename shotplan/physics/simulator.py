@@ -33,6 +33,7 @@ from .state import (
     P_E_C,
     P_E_C_SLOPE,
     P_E_J,
+    P_E_J_SLOPE,
     P_G,
     P_M,
     P_MU_B,
@@ -141,6 +142,7 @@ def _params_vector(table: Table, physics: Physics) -> np.ndarray:
     prm[P_E_C_SLOPE] = physics.cushion_restitution_slope
     prm[P_MU_C] = physics.cushion_friction
     prm[P_E_J] = physics.jaw_restitution
+    prm[P_E_J_SLOPE] = physics.jaw_restitution_slope
     prm[P_MU_J] = physics.jaw_friction
     prm[P_REFF] = table.contact_offset
     prm[P_SIN_NOSE] = (spec.cushion.nose_height_m - R) / R

@@ -38,7 +38,8 @@ P_E_J = 11  # jaw restitution
 P_MU_J = 12  # jaw friction
 P_REFF = 13  # horizontal centre-to-nose distance at contact, m
 P_SIN_NOSE = 14  # sin of the nose contact angle above the equator
-# 15-19: reserved for the contact laws (cushion/jaw law: 15-16; compliant
+P_E_J_SLOPE = 15  # fall of jaw restitution per m/s
+# 16-19: reserved for the contact laws (cushion/jaw law: 16; compliant
 # ball-ball contact: 17-19); unused slots hold 0.
 N_PARAMS = 20
 
