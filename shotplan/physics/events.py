@@ -25,7 +25,7 @@ import numpy as np
 
 from .jit import jit
 from .motion import linear_accel, state_at
-from .roots import first_down_crossing
+from .roots import _after_sign, _first_down_root, first_down_crossing, real_roots
 from .state import (
     EV_CUSHION,
     EV_JAW,
@@ -119,8 +119,43 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
         return math.inf
     c = np.empty(5)
     _circle_quartic(c, px, py, qx, qy, bx, by, D)
+    if c[0] <= 0.0:
+        return t_now + _contact_from_touching(c, h, buf)
     t = first_down_crossing(c, 4, h, buf)
     return t_now + t
+
+
+@jit
+def _contact_from_touching(c, h, buf):  # type: ignore[no-untyped-def]
+    """First contact time in ``[0, h]`` of a pair that starts touching or
+    (to rounding) a little inside contact: ``p(0) = c[0] <= 0``.
+
+    The quartic's roots alone cannot tell: a pair a fraction of a nanometre
+    inside contact and pushed together has a root where it comes out the
+    other side, which is not a separation. What counts is which comes first:
+
+    * ``p`` falls back below its start (``(p(t) - p(0)) / t``, the
+      polynomial ``c[1] + c[2] t + ...``, turns negative): the pair is closing
+      and the contact is then; at once if it closes at the first order
+      (``c[1] < 0``) or, at zero normal speed, at the second (``c[1] = 0``,
+      ``c[2] < 0``: a closing acceleration);
+    * ``p`` turns positive: the pair separates, and the contact is the next
+      time ``p`` comes down through zero (or never).
+    """
+    if c[1] < 0.0:
+        return 0.0
+    q = np.zeros(5)
+    for j in range(4):
+        q[j] = c[j + 1]
+    t_back = _first_down_root(q, 3, h, buf)
+    if t_back == 0.0:
+        return 0.0
+    k = real_roots(c, 4, 0.0, min(t_back, h), buf)
+    for i in range(k):
+        if _after_sign(c, 4, buf, k, i, min(t_back, h)) > 0.0:
+            # Apart first: the next approach from outside, if any.
+            return _first_down_root(c, 4, h, buf)
+    return t_back
 
 
 @jit
