@@ -237,3 +237,54 @@ def test_touching_clusters_never_overlap_nor_stop_dead(pos, stroke, aim, fullnes
     assert worst <= OVERLAP, f"overlap {worst:.3g} m at t={at}"
     assert np.all(out.energy_changes() <= 1e-9)
     no_pair_stopped_dead(out)
+
+
+# ------------------------------------------- the contact search from touching
+def _sliding_pair(overlap, v_rear, w_rear, v_both=0.0):
+    """Ball 0 behind ball 1 on the x axis, ``overlap`` inside contact; both
+    moving at ``v_both`` along x, ball 0 at ``v_both + v_rear`` with spin
+    ``w_rear`` about y (sliding), ball 1 rolling or at rest."""
+    from shotplan.physics.state import REST, ROLLING, SLIDING
+    pos = np.array([[1.0, 0.5], [1.0 + 2 * R - overlap, 0.5]])
+    vel = np.array([[v_both + v_rear, 0.0], [v_both, 0.0]])
+    om = np.array([[0.0, w_rear, 0.0], [0.0, v_both / R, 0.0]])
+    st = np.array([SLIDING, ROLLING if v_both else REST], dtype=np.int64)
+    return pos, vel, om, st
+
+
+@pytest.mark.parametrize("overlap", [2e-10, 1e-15, 0.0])
+@pytest.mark.parametrize("v_both", [0.0, 0.5])
+def test_touching_pair_pushed_together_is_in_contact_now(overlap, v_both):
+    # Zero separating speed, the rear ball's topspin drives it into the front
+    # one (a closing acceleration): the contact is now, not where the balls
+    # would come out the other side (issue 14; geometry).
+    from shotplan.physics.events import pair_contact_time
+    prm = _params_vector(TABLE, Physics())
+    from shotplan.physics.state import P_MU_S
+    w = 150.0  # its slip lasts R w / (3.5 mu_s g), 0.6 s: time to come out the far side
+    pos, vel, om, st = _sliding_pair(overlap, 0.0, v_both / R + w, v_both)
+    horizon = 0.9 * R * w / (3.5 * prm[P_MU_S] * prm[P_G])
+    t = pair_contact_time(0, 1, 3.0, horizon, pos, vel, om, st, np.full(2, 3.0), prm,
+                          np.zeros(8))
+    # Placed "exactly" touching, the rounding of 1 + 2R may leave a gap g of
+    # a few 1e-17 m: the rear ball then closes it from rest at mu_s g.
+    g = max(float(np.hypot(*(pos[1] - pos[0]))) - 2 * R, 0.0)
+    assert 3.0 <= t <= 3.0 + math.sqrt(2 * g / (prm[P_MU_S] * prm[P_G])) * (1 + 1e-6)
+
+
+def test_touching_pair_moving_apart_meets_again_when_it_comes_back():
+    # 0.2 nm inside contact, the rear ball sliding back at u = 1 cm/s with
+    # topspin: the cloth pulls it forward at a = mu_s g (its slip stays
+    # backward for (u + R w) / (3.5 mu_s g), longer than the time looked at).
+    # Hand-worked: the gap is -d0 + u t - a t^2 / 2; the contact is its later
+    # root, t = (u + sqrt(u^2 - 2 a d0)) / a, not now and not never.
+    from shotplan.physics.events import pair_contact_time
+    from shotplan.physics.state import P_MU_S
+    prm = _params_vector(TABLE, Physics())
+    d0, u, w = 2e-10, 0.01, 0.5 / R
+    pos, vel, om, st = _sliding_pair(d0, -u, w)
+    a = prm[P_MU_S] * prm[P_G]
+    horizon = 0.9 * (u + R * w) / (3.5 * a)
+    t = pair_contact_time(0, 1, 0.0, horizon, pos, vel, om, st, np.zeros(2), prm, np.zeros(8))
+    expect = (u + math.sqrt(u * u - 2 * a * d0)) / a
+    assert t == pytest.approx(expect, rel=1e-9)

@@ -62,6 +62,12 @@ memory): rebounds that would all come back within one contact time are not
 separate impacts at all; the ball never leaves the rubber. This is the time
 resolution below which instantaneous impacts stop describing a cushion."""
 
+BALL_CONTACT_S = 2e-4
+"""How long two balls are in contact at an impact, s: a few hundred
+microseconds (from memory). Impacts are instants here; a rebound that would
+bring two balls together again within this time is no separate impact, the
+balls never part (see :func:`_pressing`)."""
+
 
 @jit
 def _settle(i, hx, hy, vn_in, e, vel, om, prm):  # type: ignore[no-untyped-def]
@@ -106,17 +112,18 @@ def _settle(i, hx, hy, vn_in, e, vel, om, prm):  # type: ignore[no-untyped-def]
 
 @jit
 def _pressing(i, j, e, pos, vel, om, st, prm):  # type: ignore[no-untyped-def]
-    """Whether balls ``i`` and ``j``, in contact, are pressed together: their
-    impacts would form an inelastic collapse over within SETTLE_TIME_S.
+    """Whether balls ``i`` and ``j``, in contact, are pressed together: after
+    this impact they would meet again within BALL_CONTACT_S.
 
     The cloth's friction may drive them together (a closing relative
     acceleration ``a`` along the line of centres). An impact at approach
-    speed ``v_n`` sends them apart at ``e v_n``, they meet again after
-    ``2 e v_n / a`` at ``e v_n``: a geometric series of impacts that ends
-    after ``2 e v_n / (a (1 - e))`` (the same series as :func:`_settle`'s
-    at a cushion). When that is under SETTLE_TIME_S (at zero approach speed,
-    always), the impacts are not separate at all: the balls stay in contact,
-    one pushing the other (:func:`press_pair`)."""
+    speed ``v_n`` sends them apart at ``e v_n``, and they meet again after
+    ``2 e v_n / a`` (then at ``e v_n``: a series of ever-smaller impacts
+    that never ends when ``e = 1`` and, when ``e < 1``, ends in an inelastic
+    collapse, like :func:`_settle`'s at a cushion). When that return is
+    within one contact's duration (at zero approach speed, always), the
+    impacts are not separate at all: the balls stay in contact, one pushing
+    the other (:func:`press_pair`)."""
     dx = pos[j, 0] - pos[i, 0]
     dy = pos[j, 1] - pos[i, 1]
     d = math.hypot(dx, dy)
@@ -130,7 +137,7 @@ def _pressing(i, j, e, pos, vel, om, st, prm):  # type: ignore[no-untyped-def]
     if not closing > 0.0:
         return False
     vn = max((vel[i, 0] - vel[j, 0]) * nx + (vel[i, 1] - vel[j, 1]) * ny, 0.0)
-    return 2.0 * e * vn <= closing * (1.0 - e) * SETTLE_TIME_S
+    return 2.0 * e * vn <= closing * BALL_CONTACT_S
 
 
 @jit

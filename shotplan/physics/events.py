@@ -118,15 +118,38 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
     if gap > _reach(qx, qy, 2.0 * bx, 2.0 * by, h) + 1e-12:
         return math.inf
     c = np.empty(5)
+    # The rounding of c[0] (from the positions before they are subtracted),
+    # below which the pair is touching.
+    tol0 = _ROUNDING * 2.0 * D * (abs(xi) + abs(yi) + abs(xj) + abs(yj))
+    if (px * px + py * py) - D * D <= tol0:
+        # Touching: relative speed and acceleration within the rounding of
+        # the speeds and accelerations they are the difference of are none
+        # (a pair moving on as one after a push), and so are c[1] and c[2]
+        # within theirs; else a sign of a rounding error would decide.
+        speeds = math.hypot(vxi, vyi) + math.hypot(vxj, vyj)
+        accels = math.hypot(axi, ayi) + math.hypot(axj, ayj)
+        if math.hypot(qx, qy) <= _ROUNDING * speeds:
+            qx = qy = 0.0
+        if math.hypot(bx, by) <= _ROUNDING * accels:
+            bx = by = 0.0
+        _circle_quartic(c, px, py, qx, qy, bx, by, D)
+        c[0] = min(c[0], 0.0)
+        dist = math.hypot(px, py)
+        tol1 = _ROUNDING * 2.0 * dist * speeds
+        tol2 = _ROUNDING * (qx * qx + qy * qy + dist * accels)
+        return t_now + _contact_from_touching(c, h, buf, tol1, tol2)
     _circle_quartic(c, px, py, qx, qy, bx, by, D)
-    if c[0] <= 0.0:
-        return t_now + _contact_from_touching(c, h, buf)
     t = first_down_crossing(c, 4, h, buf)
     return t_now + t
 
 
+_ROUNDING = 64.0 * 2.220446049250313e-16
+"""Relative rounding of a quartic coefficient made of a few products and
+sums (a generous bound: 64 units in the last place)."""
+
+
 @jit
-def _contact_from_touching(c, h, buf):  # type: ignore[no-untyped-def]
+def _contact_from_touching(c, h, buf, tol1, tol2):  # type: ignore[no-untyped-def]
     """First contact time in ``[0, h]`` of a pair that starts touching or
     (to rounding) a little inside contact: ``p(0) = c[0] <= 0``.
 
@@ -141,12 +164,23 @@ def _contact_from_touching(c, h, buf):  # type: ignore[no-untyped-def]
       ``c[2] < 0``: a closing acceleration);
     * ``p`` turns positive: the pair separates, and the contact is the next
       time ``p`` comes down through zero (or never).
+
+    ``c[1]`` and ``c[2]`` within their rounding (``tol1``, ``tol2``) count
+    as zero: a pair rolling along each other, or moving on as one after a
+    push, would otherwise be "closing" on the sign of a rounding error, at
+    one instant without end.
     """
-    if c[1] < 0.0:
+    if c[1] < -tol1:
         return 0.0
     q = np.zeros(5)
     for j in range(4):
         q[j] = c[j + 1]
+    if abs(q[0]) <= tol1:
+        q[0] = 0.0
+        if abs(q[1]) <= tol2:
+            q[1] = 0.0
+    c[1] = q[0]
+    c[2] = q[1]
     t_back = _first_down_root(q, 3, h, buf)
     if t_back == 0.0:
         return 0.0
