@@ -288,3 +288,34 @@ def test_touching_pair_moving_apart_meets_again_when_it_comes_back():
     t = pair_contact_time(0, 1, 0.0, horizon, pos, vel, om, st, np.zeros(2), prm, np.zeros(8))
     expect = (u + math.sqrt(u * u - 2 * a * d0)) / a
     assert t == pytest.approx(expect, rel=1e-9)
+
+
+@pytest.mark.parametrize("e", [0.2, 0.5, 0.95])
+def test_long_frozen_line_struck_at_one_end_ends_and_keeps_momentum(e):
+    # Fifteen balls frozen in a line along x, the cue ball sent into the
+    # first: with e < 1 the impacts at that instant leave each pair
+    # approaching at a fraction of the speed before, without end (an
+    # inelastic collapse). The run must end and stop no pair. Over that
+    # instant the balls push each other at the height of their centres
+    # (no ball friction here) and a pressed pair is moved on by the cloth's
+    # friction at the contact points: both keep the line's angular momentum
+    # about the cloth contact points, sum of m v + (2/5) m R (w_y, -w_x)
+    # (hand-worked in the module docstring; Newton's third law for the
+    # pushes).
+    sim = Simulator(TABLE, Physics(ball_restitution=e, ball_friction=0.0))
+    pos = np.vstack([[[0.3, 0.6]], [[0.5 + k * 2 * R, 0.6] for k in range(15)]])
+    out = sim.run(["cue"] + [f"b{k}" for k in range(15)], pos, Stroke(0.0, 2.0, 0.0, 0.0, 0.0))
+    assert out.complete
+    no_pair_stopped_dead(out)
+    assert np.all(out.energy_changes() <= 1e-12)
+    t_hit = out.events[0].t
+    assert sum(ev.t <= t_hit + 1e-12 for ev in out.events) > 15  # a cascade at one instant
+
+    def momentum(s):
+        return s[:, 2:4].sum(axis=0) + 0.4 * R * np.array([s[:, 5].sum(), -s[:, 4].sum()])
+
+    before = momentum(out.states(float(np.nextafter(t_hit, -np.inf))))
+    after = momentum(out.states(float(np.nextafter(t_hit, np.inf))))
+    np.testing.assert_allclose(after, before, rtol=1e-12, atol=1e-12)
+    worst, at = worst_overlap(out, extra=50)
+    assert worst <= OVERLAP, f"overlap {worst:.3g} m at t={at}"

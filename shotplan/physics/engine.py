@@ -51,7 +51,13 @@ JAM_EVENTS = 64
 """Events at (nearly) one instant after which the ball of a cushion or jaw
 event is taken as wedged and stopped (an inelastic collapse: infinitely many
 ever-smaller impacts in finite time, as between a jaw tip and a jaw face).
-Ball-ball impacts never stop balls: see :func:`press_pair`."""
+Ball-ball impacts never stop balls: past this many events at one instant,
+further impacts at that instant are elastic (the TC model of Luding &
+McNamara 1998, Granular Matter 1, 113-128: an inelastic collapse among
+touching balls, such as a long frozen line struck at one end, where each
+impact leaves the next pair approaching at a fraction of the speed before,
+without end; elastic impacts end it, conserving momentum and adding no
+energy). See also :func:`press_pair`."""
 
 
 SETTLE_TIME_S = 1e-3
@@ -366,13 +372,14 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
         if b >= 0:
             advance(a, t, pos, vel, om, st, tref, prm)
             advance(b, t, pos, vel, om, st, tref, prm)
-            if _pressing(a, b, e_b, pos, vel, om, st, prm):
+            e_now = e_b if same_instant < JAM_EVENTS else 1.0
+            if _pressing(a, b, e_now, pos, vel, om, st, prm):
                 press_pair(a, b, pos, vel, om, prm)
                 classify(a, vel, om, st, prm)
                 classify(b, vel, om, st, prm)
                 _press_residual(a, b, pos, vel, om, st, prm)
             else:
-                ball_ball(a, b, pos, vel, om, prm, e_b, mu_b)
+                ball_ball(a, b, pos, vel, om, prm, e_now, mu_b)
             kind = EV_COLLISION
         else:
             advance(a, t, pos, vel, om, st, tref, prm)
@@ -417,23 +424,13 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                 om[a, 0] = 0.0
                 om[a, 1] = 0.0
                 om[a, 2] = 0.0
-        if same_instant >= JAM_EVENTS:
-            if b >= 0:
-                # Ever-smaller impacts at one instant among touching balls
-                # (a collapse with no cloth to drive it): the pair moves on
-                # as one (press_pair), which conserves the pair's momentum
-                # along the line of centres when neither slips there.
-                press_pair(a, b, pos, vel, om, prm)
-                classify(a, vel, om, st, prm)
-                classify(b, vel, om, st, prm)
-                _press_residual(a, b, pos, vel, om, st, prm)
-            else:
-                # Wedged (a jaw tip and a jaw face): stop the ball where it is.
-                vel[a, 0] = 0.0
-                vel[a, 1] = 0.0
-                om[a, 0] = 0.0
-                om[a, 1] = 0.0
-                om[a, 2] = 0.0
+        if same_instant >= JAM_EVENTS and b < 0:
+            # Wedged (a jaw tip and a jaw face): stop the ball where it is.
+            vel[a, 0] = 0.0
+            vel[a, 1] = 0.0
+            om[a, 0] = 0.0
+            om[a, 1] = 0.0
+            om[a, 2] = 0.0
             same_instant = 0
         classify(a, vel, om, st, prm)
         if b >= 0:
