@@ -424,7 +424,7 @@ def test_invariants_touching_balls_clusters_and_cushions(setup, stroke, phys, ai
     # No pair closer than 2R - 1 um at any time: the robust-contact bound
     # the contact-physics issue sets (balls starting a few nanometres apart
     # may be resolved a fraction of a micrometre inside contact).
-    check_invariants(out, table, check_momentum=False, overlap=1e-6)
+    check_invariants(out, table, check_momentum=True, overlap=1e-6)
     event(f"{n} balls")
 
 
