@@ -319,3 +319,27 @@ def test_long_frozen_line_struck_at_one_end_ends_and_keeps_momentum(e):
     np.testing.assert_allclose(after, before, rtol=1e-12, atol=1e-12)
     worst, at = worst_overlap(out, extra=50)
     assert worst <= OVERLAP, f"overlap {worst:.3g} m at t={at}"
+
+
+def test_pressed_pair_still_closing_rolls_on_as_one():
+    # Two rolling balls touching along x, the rear one also rolling across
+    # at U: both roll along x at V after a push, but a rolling ball slows
+    # along its own velocity (mu_r g), so the front one slows more along x
+    # and the pair would close again. Then both roll on with one velocity.
+    # Hand-worked: rolling, m v + (2/5) m R w = (7/5) m v for each ball, so
+    # keeping the pair's angular momentum about the cloth contact points
+    # gives the mean velocity, ((V + V) / 2, U / 2), and less energy.
+    from shotplan.physics.engine import _press_residual
+    from shotplan.physics.state import ROLLING
+    prm = _params_vector(TABLE, Physics())
+    V, U = 0.2, 0.5
+    pos = np.array([[1.0, 0.5], [1.0 + 2 * R, 0.5]])
+    vel = np.array([[V, U], [V, 0.0]])
+    om = np.array([[-U / R, V / R, 3.0], [0.0, V / R, -1.0]])
+    st_ = np.array([ROLLING, ROLLING], dtype=np.int64)
+    e0 = float(np.sum(vel**2) + 0.4 * R * R * np.sum(om**2))
+    _press_residual(0, 1, pos, vel, om, st_, prm)
+    np.testing.assert_allclose(vel, [[V, U / 2], [V, U / 2]], rtol=1e-12)
+    np.testing.assert_allclose(om[:, :2], [[-U / 2 / R, V / R]] * 2, rtol=1e-12)
+    np.testing.assert_array_equal(om[:, 2], [3.0, -1.0])  # spin about the vertical untouched
+    assert float(np.sum(vel**2) + 0.4 * R * R * np.sum(om**2)) < e0

@@ -52,8 +52,9 @@ JAM_EVENTS = 64
 event is taken as wedged and stopped (an inelastic collapse: infinitely many
 ever-smaller impacts in finite time, as between a jaw tip and a jaw face).
 Ball-ball impacts never stop balls: past this many events at one instant,
-further impacts at that instant are elastic (the TC model of Luding &
-McNamara 1998, Granular Matter 1, 113-128: an inelastic collapse among
+further impacts at that instant are elastic (the idea of the TC model of
+Luding & McNamara 1998, Granular Matter 1, 113-128, restitution 1 for an
+impact that follows others too closely: an inelastic collapse among
 touching balls, such as a long frozen line struck at one end, where each
 impact leaves the next pair approaching at a fraction of the speed before,
 without end; elastic impacts end it, conserving momentum and adding no
