@@ -25,7 +25,7 @@ import numpy as np
 
 from .jit import jit
 from .motion import linear_accel, state_at
-from .roots import _after_sign, _first_down_root, first_down_crossing, real_roots
+from .roots import first_down_crossing, poly_eval, real_roots
 from .state import (
     EV_CUSHION,
     EV_JAW,
@@ -181,14 +181,19 @@ def _contact_from_touching(c, h, buf, tol1, tol2):  # type: ignore[no-untyped-de
             q[1] = 0.0
     c[1] = q[0]
     c[2] = q[1]
-    t_back = _first_down_root(q, 3, h, buf)
+    t_back = first_down_crossing(q, 3, h, buf)
     if t_back == 0.0:
         return 0.0
-    k = real_roots(c, 4, 0.0, min(t_back, h), buf)
-    for i in range(k):
-        if _after_sign(c, 4, buf, k, i, min(t_back, h)) > 0.0:
+    # Does p turn positive before t_back? It keeps its sign between roots.
+    end = min(t_back, h)
+    k = real_roots(c, 4, 0.0, end, buf)
+    a = 0.0
+    for i in range(k + 1):
+        b = buf[i] if i < k else end
+        if b > a and poly_eval(c, 4, 0.5 * (a + b)) > 0.0:
             # Apart first: the next approach from outside, if any.
-            return _first_down_root(c, 4, h, buf)
+            return first_down_crossing(c, 4, h, buf)
+        a = b
     return t_back
 
 
