@@ -21,7 +21,7 @@ import numpy as np
 from .collide import ball_ball, ball_cushion
 from .events import own_event, pair_contact_time
 from .jit import jit
-from .motion import advance, classify
+from .motion import advance, classify, linear_accel
 from .state import (
     EV_COLLISION,
     EV_CUSHION,
@@ -33,7 +33,6 @@ from .state import (
     P_E_J,
     P_E_J_SLOPE,
     P_G,
-    P_M,
     P_MU_B,
     P_MU_C,
     P_MU_J,
@@ -50,16 +49,17 @@ STATUS_DONE = 0
 STATUS_MAX_EVENTS = 1
 
 JAM_EVENTS = 64
-"""Events at (nearly) one instant after which the balls involved are taken as
-jammed and stopped (an inelastic collapse: infinitely many ever-smaller
-impacts in finite time, as between a jaw tip and a jaw face)."""
-
-JAM_CREEP_MPS = 1e-5
-"""Two balls that meet JAM_EVENTS times in a row, each time approaching at
-less than this speed (m/s, a hundredth of a millimetre per second), are
-jammed as well: one pushing the other (a rolling ball that keeps catching up
-with the ball ahead) gives an endless run of ever-smaller impacts whose
-spacing ends at the rounding of the contact time, not at one instant."""
+"""Events at (nearly) one instant after which the ball of a cushion or jaw
+event is taken as wedged and stopped (an inelastic collapse: infinitely many
+ever-smaller impacts in finite time, as between a jaw tip and a jaw face).
+Ball-ball impacts never stop balls: past this many events at one instant,
+further impacts at that instant are elastic (the idea of the TC model of
+Luding & McNamara 1998, Granular Matter 1, 113-128, restitution 1 for an
+impact that follows others too closely: an inelastic collapse among
+touching balls, such as a long frozen line struck at one end, where each
+impact leaves the next pair approaching at a fraction of the speed before,
+without end; elastic impacts end it, conserving momentum and adding no
+energy). See also :func:`press_pair`."""
 
 
 SETTLE_TIME_S = 1e-3
@@ -69,6 +69,12 @@ are instants here, but a real cushion contact lasts about a millisecond (from
 memory): rebounds that would all come back within one contact time are not
 separate impacts at all; the ball never leaves the rubber. This is the time
 resolution below which instantaneous impacts stop describing a cushion."""
+
+BALL_CONTACT_S = 2e-4
+"""How long two balls are in contact at an impact, s: a few hundred
+microseconds (from memory). Impacts are instants here; a rebound that would
+bring two balls together again within this time is no separate impact, the
+balls never part (see :func:`_pressing`)."""
 
 
 @jit
@@ -110,6 +116,116 @@ def _settle(i, hx, hy, vn_in, e, vel, om, prm):  # type: ignore[no-untyped-def]
     om[i, 0] -= w * hy
     om[i, 1] += w * hx
     return True
+
+
+@jit
+def _pressing(i, j, e, pos, vel, om, st, prm):  # type: ignore[no-untyped-def]
+    """Whether balls ``i`` and ``j``, in contact, are pressed together: after
+    this impact they would meet again within BALL_CONTACT_S.
+
+    The cloth's friction may drive them together (a closing relative
+    acceleration ``a`` along the line of centres). An impact at approach
+    speed ``v_n`` sends them apart at ``e v_n``, and they meet again after
+    ``2 e v_n / a`` (then at ``e v_n``: a series of ever-smaller impacts
+    that never ends when ``e = 1`` and, when ``e < 1``, ends in an inelastic
+    collapse, like :func:`_settle`'s at a cushion). When that return is
+    within one contact's duration (at zero approach speed, always), the
+    impacts are not separate at all: the balls stay in contact, one pushing
+    the other (:func:`press_pair`)."""
+    dx = pos[j, 0] - pos[i, 0]
+    dy = pos[j, 1] - pos[i, 1]
+    d = math.hypot(dx, dy)
+    if d == 0.0:
+        return False
+    nx = dx / d
+    ny = dy / d
+    axi, ayi = linear_accel(st[i], vel[i, 0], vel[i, 1], om[i, 0], om[i, 1], prm)
+    axj, ayj = linear_accel(st[j], vel[j, 0], vel[j, 1], om[j, 0], om[j, 1], prm)
+    closing = (axi - axj) * nx + (ayi - ayj) * ny
+    if not closing > 0.0:
+        return False
+    vn = max((vel[i, 0] - vel[j, 0]) * nx + (vel[i, 1] - vel[j, 1]) * ny, 0.0)
+    return 2.0 * e * vn <= closing * BALL_CONTACT_S
+
+
+@jit
+def _roll_along(i, nx, ny, v, vel, om, prm):  # type: ignore[no-untyped-def]
+    """Set ball ``i``'s velocity along ``(nx, ny)`` to ``v`` and its spin
+    about ``(-ny, nx)`` to ``v / R`` (rolling along n); the rest untouched."""
+    R = prm[P_R]
+    vn = vel[i, 0] * nx + vel[i, 1] * ny
+    vel[i, 0] += (v - vn) * nx
+    vel[i, 1] += (v - vn) * ny
+    # Spin about e = (-ny, nx): rolling along n is v_n = R (w . e).
+    w = -om[i, 0] * ny + om[i, 1] * nx
+    om[i, 0] -= (v / R - w) * ny
+    om[i, 1] += (v / R - w) * nx
+
+
+@jit
+def press_pair(i, j, pos, vel, om, prm):  # type: ignore[no-untyped-def]
+    """A pressed pair of balls (in place): ``i`` pushes ``j`` (or ``j`` holds
+    ``i`` back) until both roll together along the line of centres.
+
+    While one ball is pressed against the other, they move as one along the
+    line of centres ``n``; the cloth's friction acts at each ball's contact
+    point and their push on each other at the height of their centres, so
+    the pair's angular momentum about the cloth contact points along ``n``,
+    ``m (v_in + v_jn) + (I / R) (w_i + w_j)`` (``w`` the spin that rolls a
+    ball along ``n``, ``I = 2/5 m R^2``), is conserved while the cloth's
+    friction brings each ball's slip along ``n`` to zero (Marlow 1995 gives
+    the same law for a single ball, whose slide ends at 5/7 of
+    ``v + (2/5) R w``). The push ends when both roll along ``n``:
+
+        V = (5 (v_in + v_jn) + 2 R (w_i + w_j)) / 14.
+
+    That is the state of least kinetic energy with that angular momentum,
+    so energy never rises. Like :func:`_settle` at a cushion, the push is
+    taken at once (where the balls went during it is not followed): it ends
+    the endless run of ever-smaller impacts the event engine would otherwise
+    see, with the balls moving on instead of stopped. Motion across ``n``
+    and the spin about the vertical are untouched (the balls' friction on
+    each other during the push is left out).
+
+    Should the pair still close after that, :func:`_press_residual` makes
+    its motion across ``n`` common too. The arguments are those of
+    :func:`.collide.ball_ball` without the restitution and friction.
+    """
+    R = prm[P_R]
+    dx = pos[j, 0] - pos[i, 0]
+    dy = pos[j, 1] - pos[i, 1]
+    d = math.hypot(dx, dy)
+    if d == 0.0:
+        return
+    nx = dx / d
+    ny = dy / d
+    v = 5.0 * ((vel[i, 0] + vel[j, 0]) * nx + (vel[i, 1] + vel[j, 1]) * ny) + 2.0 * R * (
+        -(om[i, 0] + om[j, 0]) * ny + (om[i, 1] + om[j, 1]) * nx)
+    _roll_along(i, nx, ny, v / 14.0, vel, om, prm)
+    _roll_along(j, nx, ny, v / 14.0, vel, om, prm)
+
+
+@jit
+def _press_residual(i, j, pos, vel, om, st, prm):  # type: ignore[no-untyped-def]
+    """After :func:`press_pair` (states classified): if the pair still closes
+    (only a rolling ball's resistance, along its own velocity, can then drive
+    it), both roll on with one velocity, by the press law along x and along
+    y; nothing drives them together again."""
+    dx = pos[j, 0] - pos[i, 0]
+    dy = pos[j, 1] - pos[i, 1]
+    d = math.hypot(dx, dy)
+    if d == 0.0:
+        return
+    axi, ayi = linear_accel(st[i], vel[i, 0], vel[i, 1], om[i, 0], om[i, 1], prm)
+    axj, ayj = linear_accel(st[j], vel[j, 0], vel[j, 1], om[j, 0], om[j, 1], prm)
+    if not (axi - axj) * dx + (ayi - ayj) * dy > 0.0:
+        return
+    R = prm[P_R]
+    vx = (5.0 * (vel[i, 0] + vel[j, 0]) + 2.0 * R * (om[i, 1] + om[j, 1])) / 14.0
+    vy = (5.0 * (vel[i, 1] + vel[j, 1]) - 2.0 * R * (om[i, 0] + om[j, 0])) / 14.0
+    for k in (i, j):
+        _roll_along(k, 1.0, 0.0, vx, vel, om, prm)
+        _roll_along(k, 0.0, 1.0, vy, vel, om, prm)
 
 
 @jit
@@ -225,8 +341,6 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     n_ev = 0
     t_last = 0.0
     same_instant = 0
-    pair_run = np.zeros((n, n), dtype=np.int64)
-    m_ball = prm[P_M]
     status = STATUS_DONE
     while True:
         # Earliest event
@@ -257,11 +371,17 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
         t_last = t
         kind = 0
         elem = -1
-        impulse = 0.0
         if b >= 0:
             advance(a, t, pos, vel, om, st, tref, prm)
             advance(b, t, pos, vel, om, st, tref, prm)
-            impulse = ball_ball(a, b, pos, vel, om, prm, e_b, mu_b)
+            e_now = e_b if same_instant < JAM_EVENTS else 1.0
+            if _pressing(a, b, e_now, pos, vel, om, st, prm):
+                press_pair(a, b, pos, vel, om, prm)
+                classify(a, vel, om, st, prm)
+                classify(b, vel, om, st, prm)
+                _press_residual(a, b, pos, vel, om, st, prm)
+            else:
+                ball_ball(a, b, pos, vel, om, prm, e_now, mu_b)
             kind = EV_COLLISION
         else:
             advance(a, t, pos, vel, om, st, tref, prm)
@@ -303,29 +423,13 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                 om[a, 0] = 0.0
                 om[a, 1] = 0.0
                 om[a, 2] = 0.0
-        jammed_pair = False
-        if b >= 0:
-            # Approach speed of this impact: impulse = (1 + e) m v_n / 2.
-            if impulse <= 0.5 * (1.0 + e_b) * m_ball * JAM_CREEP_MPS:
-                pair_run[a, b] += 1
-            else:
-                pair_run[a, b] = 0
-            if pair_run[a, b] >= JAM_EVENTS:
-                jammed_pair = True
-                pair_run[a, b] = 0
-        if same_instant >= JAM_EVENTS or jammed_pair:
-            # Jammed: stop the balls of this event where they are.
+        if same_instant >= JAM_EVENTS and b < 0:
+            # Wedged (a jaw tip and a jaw face): stop the ball where it is.
             vel[a, 0] = 0.0
             vel[a, 1] = 0.0
             om[a, 0] = 0.0
             om[a, 1] = 0.0
             om[a, 2] = 0.0
-            if b >= 0:
-                vel[b, 0] = 0.0
-                vel[b, 1] = 0.0
-                om[b, 0] = 0.0
-                om[b, 1] = 0.0
-                om[b, 2] = 0.0
             same_instant = 0
         classify(a, vel, om, st, prm)
         if b >= 0:

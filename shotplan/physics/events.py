@@ -25,7 +25,7 @@ import numpy as np
 
 from .jit import jit
 from .motion import linear_accel, state_at
-from .roots import first_down_crossing
+from .roots import first_down_crossing, poly_eval, real_roots
 from .state import (
     EV_CUSHION,
     EV_JAW,
@@ -118,9 +118,83 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
     if gap > _reach(qx, qy, 2.0 * bx, 2.0 * by, h) + 1e-12:
         return math.inf
     c = np.empty(5)
+    # The rounding of c[0] (from the positions before they are subtracted),
+    # below which the pair is touching.
+    tol0 = _ROUNDING * 2.0 * D * (abs(xi) + abs(yi) + abs(xj) + abs(yj))
+    if (px * px + py * py) - D * D <= tol0:
+        # Touching: relative speed and acceleration within the rounding of
+        # the speeds and accelerations they are the difference of are none
+        # (a pair moving on as one after a push), and so are c[1] and c[2]
+        # within theirs; else a sign of a rounding error would decide.
+        speeds = math.hypot(vxi, vyi) + math.hypot(vxj, vyj)
+        accels = math.hypot(axi, ayi) + math.hypot(axj, ayj)
+        if math.hypot(qx, qy) <= _ROUNDING * speeds:
+            qx = qy = 0.0
+        if math.hypot(bx, by) <= _ROUNDING * accels:
+            bx = by = 0.0
+        _circle_quartic(c, px, py, qx, qy, bx, by, D)
+        c[0] = min(c[0], 0.0)
+        dist = math.hypot(px, py)
+        tol1 = _ROUNDING * 2.0 * dist * speeds
+        tol2 = _ROUNDING * (qx * qx + qy * qy + dist * accels)
+        return t_now + _contact_from_touching(c, h, buf, tol1, tol2)
     _circle_quartic(c, px, py, qx, qy, bx, by, D)
     t = first_down_crossing(c, 4, h, buf)
     return t_now + t
+
+
+_ROUNDING = 64.0 * 2.220446049250313e-16
+"""Relative rounding of a quartic coefficient made of a few products and
+sums (a generous bound: 64 units in the last place)."""
+
+
+@jit
+def _contact_from_touching(c, h, buf, tol1, tol2):  # type: ignore[no-untyped-def]
+    """First contact time in ``[0, h]`` of a pair that starts touching or
+    (to rounding) a little inside contact: ``p(0) = c[0] <= 0``.
+
+    The quartic's roots alone cannot tell: a pair a fraction of a nanometre
+    inside contact and pushed together has a root where it comes out the
+    other side, which is not a separation. What counts is which comes first:
+
+    * ``p`` falls back below its start (``(p(t) - p(0)) / t``, the
+      polynomial ``c[1] + c[2] t + ...``, turns negative): the pair is closing
+      and the contact is then; at once if it closes at the first order
+      (``c[1] < 0``) or, at zero normal speed, at the second (``c[1] = 0``,
+      ``c[2] < 0``: a closing acceleration);
+    * ``p`` turns positive: the pair separates, and the contact is the next
+      time ``p`` comes down through zero (or never).
+
+    ``c[1]`` and ``c[2]`` within their rounding (``tol1``, ``tol2``) count
+    as zero: a pair rolling along each other, or moving on as one after a
+    push, would otherwise be "closing" on the sign of a rounding error, at
+    one instant without end.
+    """
+    if c[1] < -tol1:
+        return 0.0
+    q = np.zeros(5)
+    for j in range(4):
+        q[j] = c[j + 1]
+    if abs(q[0]) <= tol1:
+        q[0] = 0.0
+        if abs(q[1]) <= tol2:
+            q[1] = 0.0
+    c[1] = q[0]
+    c[2] = q[1]
+    t_back = first_down_crossing(q, 3, h, buf)
+    if t_back == 0.0:
+        return 0.0
+    # Does p turn positive before t_back? It keeps its sign between roots.
+    end = min(t_back, h)
+    k = real_roots(c, 4, 0.0, end, buf)
+    a = 0.0
+    for i in range(k + 1):
+        b = buf[i] if i < k else end
+        if b > a and poly_eval(c, 4, 0.5 * (a + b)) > 0.0:
+            # Apart first: the next approach from outside, if any.
+            return first_down_crossing(c, 4, h, buf)
+        a = b
+    return t_back
 
 
 @jit
