@@ -41,8 +41,8 @@ from dataclasses import dataclass
 
 from .errors import InputError, LayoutError
 
-__all__ = ["check_game", "GAMES", "POOL_GAMES", "CAROM_GAMES", "SNOOKER_COLOURS", "GROUPS", "Rules",
-           "Verdict", "carom_scores"]
+__all__ = ["check_game", "games_for", "GAMES", "POOL_GAMES", "CAROM_GAMES", "SNOOKER_COLOURS",
+           "GROUPS", "Rules", "Verdict", "carom_scores"]
 
 GAMES = ("any", "8-ball", "9-ball", "10-ball", "snooker", "three-cushion", "straight-rail")
 """Every game a layout, drill station or command may name."""
@@ -54,6 +54,24 @@ SNOOKER_COLOURS = ("yellow", "green", "brown", "blue", "pink", "black")
 """The colours in the order they are on once the reds are gone (WPBSA)."""
 GROUPS = ("solids", "stripes")
 """The 8-ball groups."""
+
+
+def games_for(table_game: str) -> tuple[str, ...]:
+    """The games played on a kind of table, ``any`` first.
+
+    Parameters
+    ----------
+    table_game : str
+        The table's kind (:attr:`shotplan.equipment.TableSpec.game`):
+        ``pool``, ``snooker`` or ``carom``.
+
+    Returns
+    -------
+    tuple of str
+        Names from :data:`GAMES`.
+    """
+    own = {"pool": POOL_GAMES, "snooker": ("snooker",), "carom": CAROM_GAMES}
+    return ("any",) + own.get(table_game, ())
 
 
 def check_game(value: object, where: str = "game") -> str:

@@ -49,7 +49,7 @@ from .candidates import rails_of
 from .shots import MIN_WINDOW_DEG
 
 __all__ = ["CaromShot", "CaromResult", "find_caroms", "carom_path", "SCAN_STEP_DEG",
-           "EDGE_STEP_DEG", "SPEED_STEP_MPS", "SCAN_TIPS", "FAMILIES"]
+           "EDGE_STEP_DEG", "SPEED_STEP_MPS", "SCAN_TIPS", "FAMILIES", "scan_speeds", "best_per_way"]
 
 SCAN_STEP_DEG = 0.4
 """Spacing of the scanned cue directions, degrees."""
@@ -102,6 +102,25 @@ class CaromShot:
     def window_deg(self) -> float:
         """Window width, degrees."""
         return self.window_high_deg - self.window_low_deg
+
+    @property
+    def cut_angle_deg(self) -> float:
+        """The cut on the first ball that the ball-hit fraction means:
+        ``fraction = 1 - sin(cut)`` (a full hit 0, a half-ball hit 30 degrees)."""
+        return math.degrees(math.asin(min(max(1.0 - self.fraction, 0.0), 1.0)))
+
+    def describe(self) -> str:
+        """One line for people.
+
+        Returns
+        -------
+        str
+        """
+        route = ", ".join(self.cushions) if self.cushions else "no cushion"
+        return (f"carom ({self.family}): {self.first_ball} first, then {self.second_ball} "
+                f"after {route}; aim {self.direction_deg:.2f} deg, window "
+                f"{self.window_deg:.2f} deg, speed {self.speed_mps:.2f} m/s "
+                f"({self.speed_window_mps[0]:.2f}-{self.speed_window_mps[1]:.2f})")
 
     def to_dict(self) -> dict[str, Any]:
         """The JSON object of ``plan --json`` on a carom game.
@@ -267,6 +286,22 @@ def _mirror(p: np.ndarray, line: np.ndarray) -> np.ndarray:
     return np.array([p[0] - 2 * dist * nx, p[1] - 2 * dist * ny])
 
 
+def scan_speeds(game: str) -> tuple[float, ...]:
+    """The launch speeds the carom search scans by default for a game.
+
+    Parameters
+    ----------
+    game : str
+        ``three-cushion`` or ``straight-rail``.
+
+    Returns
+    -------
+    tuple of float
+        Speeds, m/s.
+    """
+    return _SPEEDS[game]
+
+
 def find_caroms(player: StrokePlayer, rules: Rules, *, speeds: Sequence[float] | None = None,
                 tips: Sequence[tuple[float, float]] = SCAN_TIPS,
                 top: int | None = None) -> CaromResult:
@@ -305,7 +340,7 @@ def find_caroms(player: StrokePlayer, rules: Rules, *, speeds: Sequence[float] |
                          f"other balls, this one has {len(others)}")
     rails = rails_of(player.sim.table)
     names = {r.index: r.name for r in rails}
-    scan_speeds = list(speeds) if speeds is not None else list(_SPEEDS[rules.game])
+    scan = list(speeds) if speeds is not None else list(scan_speeds(rules.game))
     runs0 = player.runs
 
     def classify(phi: float, v: float, side: float, height: float
@@ -320,7 +355,7 @@ def find_caroms(player: StrokePlayer, rules: Rules, *, speeds: Sequence[float] |
     for lo, hi in _ranges(player, rails, others):
         n = max(int(math.ceil((hi - lo) / SCAN_STEP_DEG)), 1)
         phis = [lo + (k + 0.5) * (hi - lo) / n for k in range(n)]
-        for v in scan_speeds:
+        for v in scan:
             for side, height in tips:
                 marks = [classify(p, v, side, height) for p in phis]
                 k = 0
@@ -335,7 +370,7 @@ def find_caroms(player: StrokePlayer, rules: Rules, *, speeds: Sequence[float] |
                     shots.append(_shot(player, classify, mark, phis[k], phis[j], v, side,
                                        height, names, rules))
                     k = j + 1
-    best = _best_per_way([s for s in shots if s.window_deg >= MIN_WINDOW_DEG])
+    best = best_per_way([s for s in shots if s.window_deg >= MIN_WINDOW_DEG])
     if top is not None:
         best = best[:top]
     return CaromResult(tuple(best), player.runs - runs0, time.perf_counter() - t0)
@@ -388,9 +423,21 @@ def _contiguous(speeds: list[float], v: float) -> tuple[float, float]:
     return (round(lo, 6), round(hi, 6))
 
 
-def _best_per_way(shots: list[CaromShot]) -> list[CaromShot]:
+def best_per_way(shots: list[CaromShot]) -> list[CaromShot]:
     """The widest window of each way of scoring (first ball, cushions,
-    family), best first."""
+    family), best first: how the scans of several speeds and tips (or the
+    slices of a scan that the table view runs a frame at a time) are merged.
+
+    Parameters
+    ----------
+    shots : list of CaromShot
+        Proposals, in any order.
+
+    Returns
+    -------
+    list of CaromShot
+        One a way, widest window first.
+    """
     best: dict[tuple[str, tuple[str, ...], str], CaromShot] = {}
     for s in shots:
         key = (s.first_ball, s.cushions, s.family)

@@ -54,6 +54,18 @@ def _rack(game: str) -> Callable[[App, Any], None]:
     return act
 
 
+def _game(app: App, value: Any) -> None:
+    try:
+        changed = app.state.set_game(str(value))
+    except LayoutError as e:
+        app.say(str(e))
+        return
+    if changed:
+        game = app.state.layout.game
+        app.say("no rules: any ball into any pocket" if game == "any"
+                else f"playing {game}: only legal shots are proposed")
+
+
 def _atlas(app: App, value: Any) -> None:
     app.atlas.toggle()
     app.say("atlas shown" if app.atlas.on else "atlas hidden")
@@ -174,6 +186,7 @@ ACTIONS: dict[str, Callable[[App, Any], None]] = {
     "open": _open, "save-as": _dialog("save-as"), "export": _dialog("export"), "save": _save,
     "undo": _undo, "redo": _redo, "rack-8": _rack("8-ball"), "rack-9": _rack("9-ball"),
     "rack-snooker": _rack("snooker"), "rack-carom": _rack("carom"), "atlas": _atlas,
+    "game": _game,
     "clear": _clear, "add": _add, "remove": _remove, "help": _help, "play": _play,
     "reset": _reset, "scrub": _scrub, "rate": _rate, "next-rate": _next_rate, "speed": _speed,
     "speed-step": _speed_step, "turn": _turn, "elevation": _elevation, "tip": _tip,

@@ -18,6 +18,7 @@ from typing import TYPE_CHECKING
 
 import pygame
 
+from ..search.carom import CaromShot
 from ..stroke import speed_word
 from .draw import rgb
 from .state import SPEED_RANGE_MPS
@@ -393,7 +394,7 @@ RAIL_LEGEND = "F H L R: off the foot, head, left, right rail \u00b7 angles in \u
 """The key under the shots list."""
 
 
-def shot_columns(ball_width: int = 4) -> str:
+def shot_columns(ball_width: int = 4, carom: bool = False) -> str:
     """The heading over the shots list's columns, for a ball column
     ``ball_width`` characters wide (the rows come from :func:`proposal_text`).
 
@@ -401,34 +402,48 @@ def shot_columns(ball_width: int = 4) -> str:
     ----------
     ball_width : int
         Characters.
+    carom : bool
+        Caroms: the first ball and the shot's family where pool shots show
+        the balls and the pocket.
 
     Returns
     -------
     str
     """
-    return f"{'#':>2} {'shot':<7} {'ball':<{ball_width}} {'pocket':<10} {'cut':>3} {'window':>6}"
+    ball, where = ("first", "family") if carom else ("ball", "pocket")
+    return f"{'#':>2} {'shot':<7} {ball:<{ball_width}} {where:<10} {'cut':>3} {'window':>6}"
 
 
 SHOT_COLUMNS = shot_columns()
 """The heading over the shots list's columns, for ball ids of up to four characters."""
 
 
-def ball_width(shots: Sequence[Shot]) -> int:
-    """The ball column's width for ``shots`` (at least 4 characters).
+def ball_width(shots: Sequence[Shot | CaromShot]) -> int:
+    """The ball column's width for ``shots`` (at least 4 characters, 5 over
+    caroms: the heading's ``first``).
 
     Parameters
     ----------
-    shots : sequence of Shot
+    shots : sequence of Shot or CaromShot
         The proposals.
 
     Returns
     -------
     int
     """
-    return max([4] + [len("-".join(s.balls)) for s in shots])
+    least = 5 if any(isinstance(s, CaromShot) for s in shots) else 4
+    return max([least] + [len(_balls(s)) for s in shots])
 
 
-def proposal_text(k: int, shot: Shot, ball_width: int = 4) -> str:
+def _balls(shot: Shot | CaromShot) -> str:
+    return shot.first_ball if isinstance(shot, CaromShot) else "-".join(shot.balls)
+
+
+_FAMILY_SHORT = {"around the table": "around"}
+"""Carom families written shorter in the list's narrow column."""
+
+
+def proposal_text(k: int, shot: Shot | CaromShot, ball_width: int = 4) -> str:
     """One line of the shots list, under :func:`shot_columns`: number, the
     kind with the rails in turn (their initials: ``bank FH`` goes off the
     foot rail, then the head rail), the balls, the pocket, the cut angle and
@@ -438,8 +453,10 @@ def proposal_text(k: int, shot: Shot, ball_width: int = 4) -> str:
     ----------
     k : int
         The line's number, from 1.
-    shot : Shot
-        The proposal.
+    shot : Shot or CaromShot
+        The proposal (a carom shows ``carom N`` with the cushions before the
+        second ball, the first ball, its family, and the cut on the first
+        ball that its ball-hit fraction means).
     ball_width : int
         The ball column's width, characters.
 
@@ -447,10 +464,14 @@ def proposal_text(k: int, shot: Shot, ball_width: int = 4) -> str:
     -------
     str
     """
-    balls = "-".join(shot.balls)
-    via = "".join(r.split()[0][0].upper() for r in shot.rails)
-    kind = _KIND_SHORT.get(shot.kind, shot.kind) + (f" {via}" if via else "")
-    return (f"{k:>2} {kind:<7} {balls:<{ball_width}} {shot.pocket:<10} "
+    if isinstance(shot, CaromShot):
+        # The cushions before the second ball, counted: their initials
+        # would not fit a three-cushion route.
+        kind, where = f"carom {len(shot.cushions)}", _FAMILY_SHORT.get(shot.family, shot.family)
+    else:
+        via = "".join(r.split()[0][0].upper() for r in shot.rails)
+        kind, where = _KIND_SHORT.get(shot.kind, shot.kind) + (f" {via}" if via else ""), shot.pocket
+    return (f"{k:>2} {kind:<7} {_balls(shot):<{ball_width}} {where:<10} "
             f"{shot.cut_angle_deg:3.0f} {shot.window_deg:6.2f}")
 
 

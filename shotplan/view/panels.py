@@ -35,6 +35,7 @@ from pygame_gui.elements import (
 )
 from pygame_gui.windows import UIFileDialog
 
+from ..games import CAROM_GAMES, games_for
 from ..stroke import speed_word
 from .controls import (
     MIN_SIZE,
@@ -253,15 +254,20 @@ class Panels:
         if roomy:  # in a low window the box speaks for itself
             UILabel(pygame.Rect(12, y, iw, 22), "Aim", m, container=side, object_id="#heading")
             y += 23
-        heading_h, columns_h, legend_h, bottom = (23 if roomy else 0), 19, 18, 6
+        heading_h, columns_h, legend_h, bottom = 27, 19, 18, 6
         list_min = (4 if roomy else 3) * 24 + 4
         free = ph - y - heading_h - columns_h - legend_h - bottom - 6
         aim_h = max(min(free - list_min, 150), 60)
         self.aim_box = UITextBox("", pygame.Rect(12, y, iw, aim_h), m, container=side)
         y += aim_h + 6
-        if roomy:  # else the column heading says what the list is
-            UILabel(pygame.Rect(12, y, iw, 22), "Shots, best first", m, container=side,
-                    object_id="#heading")
+        # The list's heading shares its row with the game whose rules the
+        # search follows (the menu is made by sync, which knows the table).
+        game_w = 150
+        UILabel(pygame.Rect(12, y, iw - game_w - 4, 22), "Shots, best first" if roomy else "Shots",
+                m, container=side, object_id="#heading")
+        self._game_rect = pygame.Rect(12 + iw - game_w, y, game_w, 24)
+        self.game_menu: UIDropDownMenu | None = None
+        self._game_key: tuple[tuple[str, ...], str] | None = None
         y += heading_h
         # The column heading is a list of one row, so that it is drawn exactly
         # as the rows under it are (a label's text is spaced a little apart).
@@ -318,6 +324,8 @@ class Panels:
                      "legend", "play_button", "reset_button", "rate_menu", "time_slider",
                      "time_label", "status"):
             out[name] = getattr(self, name)
+        if self.game_menu is not None:
+            out["game_menu"] = self.game_menu
         return out
 
     def resize(self, size: Sequence[int]) -> None:
@@ -420,14 +428,22 @@ class Panels:
                 return ("elevation", float(event.value))
             if el is self.time_slider:
                 return ("scrub", float(event.value) / SLIDER_STEPS)
-        elif event.type == pygame_gui.UI_DROP_DOWN_MENU_CHANGED and event.ui_element is self.rate_menu:
-            rates = dict(Playback.RATES)
-            return ("rate", rates.get(event.text, 1.0))
+        elif event.type == pygame_gui.UI_DROP_DOWN_MENU_CHANGED:
+            return self._menu_action(event)
         elif event.type == pygame_gui.UI_SELECTION_LIST_NEW_SELECTION and event.ui_element is self.shots:
             words = str(event.text).split()
             head = words[0] if words else ""
             if head.isdigit():
                 return ("proposal", int(head) - 1)
+        return None
+
+    def _menu_action(self, event: pygame.event.Event) -> tuple[str, object] | None:
+        """The action a drop-down menu's new choice asks for."""
+        if event.ui_element is self.rate_menu:
+            rates = dict(Playback.RATES)
+            return ("rate", rates.get(event.text, 1.0))
+        if event.ui_element is self.game_menu:
+            return ("game", str(event.text).removeprefix(GAME_PREFIX))
         return None
 
     def slider_held(self) -> bool:
@@ -483,6 +499,7 @@ class Panels:
         if aim_html != self._aim_text and (now - self._aim_time >= 0.12 or not busy):
             self._aim_text, self._aim_time = aim_html, now
             self.aim_box.set_text(aim_html)
+        self._sync_game(state)
         self._sync_list(state, now)
         duration = predictor.duration
         label = f"{playback.t:.2f} / {duration:.2f} s"
@@ -498,6 +515,20 @@ class Panels:
             self._status_text, self._status_time = status, now
             self.status.set_text(status)
         self.title_label.set_text(title)
+
+    def _sync_game(self, state: Any) -> None:
+        """The game menu: the games of the table's kind, the layout's chosen
+        (made again when either changes: a menu's choices are fixed)."""
+        key = (games_for(state.layout.table.game), state.layout.game)
+        if key == self._game_key:
+            return
+        self._game_key = key
+        if self.game_menu is not None:
+            self.game_menu.kill()
+        options: list[str | tuple[str, str]] = [GAME_PREFIX + g for g in key[0]]
+        current = GAME_PREFIX + (key[1] if key[1] in key[0] else "any")
+        self.game_menu = UIDropDownMenu(options, current, self._game_rect, self.manager,
+                                        container=self.side)
 
     def _sync_list(self, state: Any, now: float = math.inf) -> None:
         """The proposed shots' list (or why there are none), redrawn when the
@@ -518,7 +549,7 @@ class Panels:
             bw = ball_width(state.proposals)
             texts: list[str | tuple[str, str]] = [proposal_text(k + 1, shot, bw)
                                                   for k, shot in enumerate(state.proposals)]
-            columns = shot_columns(bw)
+            columns = shot_columns(bw, carom=state.layout.game in CAROM_GAMES)
             if columns != self._columns_text:
                 self._columns_text = columns
                 self.columns.set_item_list([columns])
@@ -545,6 +576,10 @@ class Panels:
                 self.why.hide()
                 self.columns.show()
                 self.shots.show()
+
+
+GAME_PREFIX = "game: "
+"""Starts each choice of the game menu (the menu shows only its choice)."""
 
 
 def _held(slider: UIHorizontalSlider) -> bool:

@@ -28,7 +28,9 @@ from ..aim import aim_at, contact_fraction
 from ..errors import ShotplanError
 from ..games import CAROM_GAMES, Rules
 from ..physics import Outcome
+from ..physics.run import StrokePlayer
 from ..search import KINDS, Rejected, Shot, find_shots
+from ..search.carom import SCAN_TIPS, CaromShot, best_per_way, find_caroms, scan_speeds
 from .state import FreeAim, PocketAim, ViewState
 
 __all__ = ["AimGeometry", "Predictor", "MAX_PROPOSALS"]
@@ -103,6 +105,8 @@ class Predictor:
         self._prop_queue: list[tuple[str, str, str]] | None = None
         self._prop_shots: list[Shot] = []
         self._prop_rejected: list[Rejected] = []
+        self._carom_queue: list[tuple[float, tuple[float, float]]] | None = None
+        self._carom_shots: list[CaromShot] = []
         self._layout_time = 0.0
 
     # ------------------------------------------------------------- queries
@@ -184,8 +188,9 @@ class Predictor:
         layout = state.layout
         if layout is not self._prop_layout:
             self._prop_layout = layout
-            self._prop_queue = None
+            self._prop_queue = self._carom_queue = None
             self._prop_shots = []
+            self._carom_shots = []
             self._prop_rejected = []
             self._layout_time = now
             state.set_proposals((), False)
@@ -411,6 +416,8 @@ class Predictor:
     def _proposals_step(self, state: ViewState, now: float, dragging: bool) -> bool:
         if state.proposals_done or dragging or now - self._layout_time < self.settle_s:
             return False
+        if state.layout.game in CAROM_GAMES:
+            return self._carom_step(state)
         if self._prop_queue is None:
             # One ball, one pocket, one kind at a time: the slowest such search
             # takes a couple of frames, a whole ball and pocket up to ten.
@@ -440,6 +447,33 @@ class Predictor:
                                 self._prop_rejected if done else ())
             return True
         return False
+
+
+    def _carom_step(self, state: ViewState) -> bool:
+        """The carom search, one speed and tip of its scan a frame (each
+        about a tenth of the whole, some 30 ms), merged as the whole search
+        merges them."""
+        if self._carom_queue is None:
+            self._carom_queue = [(v, tip) for v in scan_speeds(state.layout.game)
+                                 for tip in SCAN_TIPS]
+            self._carom_shots = []
+            self._prop_rejected = []
+        v, tip = self._carom_queue.pop(0)
+        try:
+            player = StrokePlayer.for_layout(state.layout, physics=state.physics(),
+                                             elevation=state.settings.elevation_deg)
+            res = find_caroms(player, Rules(state.layout.game, state.layout.ball_ids),
+                              speeds=[v], tips=[tip])
+            self._carom_shots = best_per_way(self._carom_shots + list(res.shots))
+        except ShotplanError as e:
+            # Not two object balls, say: no proposals, and the reason shown.
+            self._carom_queue = []
+            self._carom_shots = []
+            self._prop_rejected = [Rejected("carom", (), "", (), str(e))]
+        done = not self._carom_queue
+        state.set_proposals(self._carom_shots[:MAX_PROPOSALS], done,
+                            self._prop_rejected if done else ())
+        return True
 
 
 def _xy(p: Any) -> tuple[float, float]:

@@ -20,6 +20,7 @@ allowed).
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
@@ -28,9 +29,11 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from ..errors import InputError, LayoutError
+from ..games import check_game
 from ..layout import Layout, Problem
 from ..physics.params import Physics
 from ..racks import new_layout, rack, start_spot
+from ..search.carom import CaromShot
 from ..stroke import MAX_SPEED_MPS, Stroke
 from ..table import Table
 
@@ -504,6 +507,29 @@ class ViewState:
         self.selection = None
         return self._apply(None, layout=layout, aim=None)
 
+    def set_game(self, game: str) -> bool:
+        """Play the layout by another game's rules (an edit: it can be undone).
+
+        Parameters
+        ----------
+        game : str
+            One of :data:`shotplan.games.GAMES`.
+
+        Returns
+        -------
+        bool
+            Whether anything changed.
+
+        Raises
+        ------
+        LayoutError
+            If ``game`` is not a game's name.
+        """
+        game = check_game(game, "game")
+        if game == self.layout.game:
+            return False
+        return self._apply(None, layout=dataclasses.replace(self.layout, game=game))
+
     def clear(self) -> bool:
         """Take every object ball off; the cue ball stays (or comes back to the
         head spot). The title and the note go with the balls they described.
@@ -654,7 +680,7 @@ class ViewState:
         """
         return self._apply(None, aim=None)
 
-    def set_proposals(self, shots: Sequence[Shot], done: bool,
+    def set_proposals(self, shots: Sequence[Shot | CaromShot], done: bool,
                       rejected: Sequence[Rejected] = ()) -> None:
         """Replace the proposals and the candidates turned down (the predictor
         calls this; not an edit).
@@ -694,6 +720,13 @@ class ViewState:
             raise InputError(f"proposal {index + 1} does not exist, there are "
                              f"{len(self.proposals)}")
         shot = self.proposals[index]
+        if isinstance(shot, CaromShot):
+            # A carom is aimed by its cue direction: no pocket to aim at.
+            settings = StrokeSettings(shot.speed_mps, shot.side, shot.height, 0.0)
+            self._apply(None, settings=settings, aim=FreeAim(float(shot.direction_deg)))
+            self.chosen = index
+            self.selection = None
+            return True
         settings = StrokeSettings(shot.speed_mps, shot.side, shot.height, 0.0)
         aim = PocketAim(shot.balls[0], shot.pocket, shot.kind, tuple(shot.rails), tuple(shot.balls))
         self._apply(None, settings=settings, aim=aim)
