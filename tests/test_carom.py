@@ -14,6 +14,7 @@ import math
 
 import numpy as np
 import pytest
+from carom_events import judge_from_events
 
 from shotplan.cli import main
 from shotplan.equipment import TableSpec
@@ -69,23 +70,6 @@ def test_one_and_two_cushion_paths_follow_the_mirror_construction(direction):
         d[k] = -d[k]
 
 
-def _judge_from_events(outcome) -> tuple[list[str], int]:
-    """Balls the cue ball met in order, and the cushions before it met the
-    second one, read from the event list."""
-    met: list[str] = []
-    cushions = 0
-    for e in outcome.events:
-        if e.kind.word == "collision" and "cue" in e.balls:
-            other = [b for b in e.balls if b != "cue"][0]
-            if other not in met:
-                met.append(other)
-            if len(met) == 2:
-                break
-        elif e.kind.word == "cushion" and e.balls[0] == "cue":
-            cushions += 1
-    return met, cushions
-
-
 def test_every_three_cushion_proposal_scores_when_played_again():
     # UMB three-cushion: the cue ball meets both balls, with three or more
     # cushions before the second; each proposal is played again through
@@ -98,7 +82,7 @@ def test_every_three_cushion_proposal_scores_when_played_again():
         lo, hi = s.speed_window_mps
         assert lo <= s.speed_mps <= hi
         out = simulate(lay, Stroke(s.direction_deg, s.speed_mps, s.side, s.height))
-        met, cushions = _judge_from_events(out)
+        met, cushions = judge_from_events(out)
         assert met[:1] == [s.first_ball] and len(met) == 2 and cushions >= 3
         assert cushions == len(s.cushions)
 

@@ -36,13 +36,7 @@ TABLE = Table(SPEC)
 R = SPEC.ball.radius_m
 
 
-@pytest.fixture(scope="module", autouse=True)
-def display():
-    pygame.display.init()
-    pygame.font.init()
-    screen = pygame.display.set_mode((1280, 800))
-    yield screen
-    pygame.display.quit()
+pytestmark = pytest.mark.usefixtures("display")  # conftest.py
 
 
 def make_app(tmp_path, layout=None, path=None, **kw):

@@ -20,6 +20,7 @@ import math
 import pygame
 import pygame_gui
 import pytest
+from carom_events import judge_from_events
 
 from shotplan.equipment import TableSpec
 from shotplan.games import Rules, games_for
@@ -38,13 +39,7 @@ CAROM = {"format": "shotplan-layout", "version": 1, "game": "three-cushion", "ta
          "balls": {"cue": [0.7, 0.45], "yellow": [1.0, 0.9], "red": [2.2, 1.0]}}
 
 
-@pytest.fixture(scope="module", autouse=True)
-def display():
-    pygame.display.init()
-    pygame.font.init()
-    screen = pygame.display.set_mode((1280, 800))
-    yield screen
-    pygame.display.quit()
+pytestmark = pytest.mark.usefixtures("display")
 
 
 def make_app(tmp_path, layout):
@@ -105,17 +100,7 @@ def test_the_view_proposes_caroms_that_score(tmp_path):
                          for p in whole.shots[:len(props)])
     for p in props:
         out = simulate(lay, Stroke(p.direction_deg, p.speed_mps, p.side, p.height))
-        met: list[str] = []
-        cushions = 0
-        for e in out.events:
-            if e.kind.word == "collision" and "cue" in e.balls:
-                other = next(b for b in e.balls if b != "cue")
-                if other not in met:
-                    met.append(other)
-                if len(met) == 2:
-                    break
-            elif e.kind.word == "cushion" and e.balls[0] == "cue":
-                cushions += 1
+        met, cushions = judge_from_events(out)
         assert met[:1] == [p.first_ball] and len(met) == 2 and cushions >= 3
     # The list shows them, and choosing one aims the cue at its direction.
     rows = app.panels._list_texts  # noqa: SLF001 - the list as shown
