@@ -12,7 +12,7 @@ from pathlib import Path
 
 import pygame
 import pytest
-from test_view import display, drag, pump  # noqa: F401 - display: the same headless window
+from test_view import drag, pump
 
 from shotplan.equipment import TableSpec
 from shotplan.layout import Layout, load_layout
@@ -23,6 +23,8 @@ from shotplan.view.app import App
 from shotplan.view.controls import MIN_SIZE, ball_width, proposal_text, shot_columns, toolbar_layout
 from shotplan.view.layers import _HALO, path_styles, shown_positions
 from shotplan.view.panels import PathDialog
+
+pytestmark = pytest.mark.usefixtures("display")  # conftest.py: the headless window
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "assets" / "layouts" / "club-night-2-cut-to-corner.json"

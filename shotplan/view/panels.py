@@ -262,9 +262,10 @@ class Panels:
         y += aim_h + 6
         # The list's heading shares its row with the game whose rules the
         # search follows (the menu is made by sync, which knows the table).
-        game_w = 150
-        UILabel(pygame.Rect(12, y, iw - game_w - 4, 22), "Shots, best first" if roomy else "Shots",
-                m, container=side, object_id="#heading")
+        heading = "Shots, best first" if roomy and iw >= 350 else "Shots"
+        game_w = min(200, iw - (154 if len(heading) > 5 else 64))
+        UILabel(pygame.Rect(12, y, iw - game_w - 4, 22), heading, m, container=side,
+                object_id="#heading")
         self._game_rect = pygame.Rect(12 + iw - game_w, y, game_w, 24)
         self.game_menu: UIDropDownMenu | None = None
         self._game_key: tuple[tuple[str, ...], str] | None = None
