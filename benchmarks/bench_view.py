@@ -92,6 +92,26 @@ def main() -> None:
     ms = frames(60)
     print(f"  {'idle (nothing changes)':<46} p50 {np.percentile(ms, 50):6.2f}  "
           f"p95 {np.percentile(ms, 95):6.2f}  max {ms.max():6.2f}")
+
+    # The same refill with the proposals searched in the worker process, as
+    # `shotplan view` does: frames only poll the pipe.
+    from shotplan.view.searcher import SearchWorker
+
+    with SearchWorker() as worker:
+        app.predictor.worker = worker
+        for k, label in enumerate(("refill in the worker (first: loads engine)",
+                                   "refill in the worker process")):
+            x, y = st.layout.position("9")
+            st.move_ball("9", (x + 0.05 * (1 - 2 * k), y))
+            app.now += 1.0  # the layout has settled: the search starts
+            t0 = time.perf_counter()
+            ms = frames(60)
+            while app.predictor.busy(st) and time.perf_counter() - t0 < 60.0:
+                ms = np.concatenate([ms, frames(30)])
+            print(f"  {label:<46} p50 {np.percentile(ms, 50):6.2f}  "
+                  f"p95 {np.percentile(ms, 95):6.2f}  max {ms.max():6.2f}  "
+                  f"({len(ms)} frames until the list was whole)")
+        app.predictor.worker = None
     print(f"  simulations run: {app.predictor.simulations}, window searches: "
           f"{app.predictor.window_searches}")
     pygame.quit()

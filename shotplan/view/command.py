@@ -142,5 +142,9 @@ def run_view(args: argparse.Namespace) -> int:
         raise InputError(f"{NO_DISPLAY} ({e})") from None
     app = App(layout, args.layout if layout is not None else None,
               table=spec.name if spec else "pool-9ft", load_message=message)
-    app.run()
+    from .searcher import SearchWorker
+
+    with SearchWorker() as worker:  # the proposals are searched beside the window
+        app.predictor.worker = worker
+        app.run()
     return 0

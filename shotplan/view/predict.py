@@ -31,6 +31,7 @@ from ..physics import Outcome
 from ..physics.run import StrokePlayer
 from ..search import KINDS, Rejected, Shot, find_shots
 from ..search.carom import SCAN_TIPS, CaromShot, best_per_way, find_caroms, scan_speeds
+from .searcher import SearchWorker
 from .state import FreeAim, PocketAim, ViewState
 
 __all__ = ["AimGeometry", "Predictor", "MAX_PROPOSALS"]
@@ -108,6 +109,10 @@ class Predictor:
         self._carom_queue: list[tuple[float, tuple[float, float]]] | None = None
         self._carom_shots: list[CaromShot] = []
         self._layout_time = 0.0
+        self.worker: SearchWorker | None = None
+        """The worker process that searches the proposals (``shotplan view``
+        starts one); ``None``: they are searched a slice a frame here."""
+        self._job = 0
 
     # ------------------------------------------------------------- queries
     def busy(self, state: ViewState) -> bool:
@@ -189,6 +194,7 @@ class Predictor:
         if layout is not self._prop_layout:
             self._prop_layout = layout
             self._prop_queue = self._carom_queue = None
+            self._job = 0
             self._prop_shots = []
             self._carom_shots = []
             self._prop_rejected = []
@@ -262,6 +268,8 @@ class Predictor:
                 self.update(state, now + self.settle_s + 1.0)
                 if not self.busy(state) or time.perf_counter() - t0 > max_seconds:
                     break
+                if self.worker is not None:
+                    time.sleep(0.002)  # the worker is searching: wait, not spin
         finally:
             self.budget_s = budget
 
@@ -416,6 +424,10 @@ class Predictor:
     def _proposals_step(self, state: ViewState, now: float, dragging: bool) -> bool:
         if state.proposals_done or dragging or now - self._layout_time < self.settle_s:
             return False
+        if self.worker is not None:
+            if self.worker.alive:
+                return self._worker_step(state)
+            self.worker, self._job = None, 0  # it died: search in these frames again
         if state.layout.game in CAROM_GAMES:
             return self._carom_step(state)
         if self._prop_queue is None:
@@ -448,6 +460,17 @@ class Predictor:
             return True
         return False
 
+
+    def _worker_step(self, state: ViewState) -> bool:
+        """Send the settled layout to the worker once; show what has come back."""
+        assert self.worker is not None
+        if self._job == 0:
+            self._job = self.worker.submit(state.layout, state.physics(), MAX_PROPOSALS)
+        changed = False
+        for part in self.worker.parts(self._job):
+            state.set_proposals(part.shots, part.done, part.rejected if part.done else ())
+            changed = True
+        return changed
 
     def _carom_step(self, state: ViewState) -> bool:
         """The carom search, one speed and tip of its scan a frame (each
