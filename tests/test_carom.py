@@ -107,3 +107,24 @@ def test_a_carom_layout_needs_two_other_balls(tmp_path, capsys):
     assert main(["plan", str(path)]) == 2
     err = capsys.readouterr()[1]
     assert "exactly two" in err and len(err.strip().splitlines()) == 1
+
+
+def test_draw_shot_on_a_carom_layout_draws_the_carom(tmp_path, capsys):
+    # Issue 17: plan, draw --shot K and the view show the caroms. The drawing
+    # plays the K-th carom of the same search that plan lists, and its
+    # caption names it; past the last one is one line, exit 2.
+    path = tmp_path / "c.json"
+    path.write_text(json.dumps(CAROM))
+    assert main(["plan", str(path), "--explain", "--json"]) == 0
+    doc = json.loads(capsys.readouterr()[0])
+    assert set(doc) == {"shots", "rejected"} and doc["shots"]
+    best = doc["shots"][0]
+    out = tmp_path / "c.svg"
+    assert main(["draw", str(path), "--shot", "1", "-o", str(out)]) == 0
+    svg = out.read_text()
+    assert f"the {best['first_ball']} first, then the {best['second_ball']}" in svg
+    assert f"aim {best['direction_deg']:.2f}" in svg
+    capsys.readouterr()
+    assert main(["draw", str(path), "--shot", str(len(doc["shots"]) + 1), "-o", str(out)]) == 2
+    err = capsys.readouterr()[1]
+    assert "the carom search found" in err and len(err.strip().splitlines()) == 1

@@ -66,7 +66,8 @@ def test_check_demo_layouts(path, capsys):
     code, out, err = run(capsys, "check", str(path))
     assert code == 0 and err == ""
     n = len(json.loads(path.read_text())["balls"])
-    table = "pool-8ft" if "8ft" in path.name else "pool-9ft"
+    table = json.loads(path.read_text())["table"]
+    table = table if isinstance(table, str) else table["preset"]
     assert out.strip() == f"ok: {path}: {n} balls on {table}"
     code, out, err = run(capsys, "check", str(path), "--json")
     assert code == 0

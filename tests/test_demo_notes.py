@@ -17,7 +17,8 @@ import pytest
 
 import shotplan
 from shotplan.aim import aim_at
-from shotplan.search import aim_direct
+from shotplan.games import Rules
+from shotplan.search import aim_direct, find_shots
 from shotplan.units import inches
 
 LAYOUTS = Path(__file__).resolve().parents[1] / "assets" / "layouts"
@@ -45,7 +46,9 @@ def finish(outcome: shotplan.Outcome, ball: str) -> tuple[float, float]:
 def test_every_demo_has_a_note_and_a_test():
     tested = {"club-night-1-straight-in", "club-night-2-cut-to-corner",
               "club-night-3-bank-practice", "club-night-4-position-drill",
-              "club-night-5-9ball-rack", "club-night-6-8ft-custom"}
+              "club-night-5-9ball-rack", "club-night-6-8ft-custom",
+              "club-night-7-nine-ball-rules", "club-night-8-snooker-red-on",
+              "club-night-9-three-cushion"}
     assert {p.stem for p in LAYOUTS.glob("*.json")} == tested
     for name in tested:
         assert load(name).note
@@ -171,7 +174,7 @@ def test_custom_eight_foot_table():
     lay = load("club-night-6-8ft-custom")
     claim(lay, "corners 112.5 mm between the jaw points (narrower than the standard's 4.5 in)")
     claim(lay, "sides 127 mm (the standard's narrowest)")
-    claim(lay, "cushions that rebound at 0.78")
+    claim(lay, "cushions with a restitution of 0.78")
     claim(lay, "A 15-degree cut on the 6 into the head-left corner")
     spec = lay.table
     assert spec.corner is not None and spec.side is not None
@@ -184,3 +187,61 @@ def test_custom_eight_foot_table():
     assert 14.0 <= a.cut_deg <= 16.0
     out = shotplan.simulate(lay)
     assert out.final["6"]["pocket"] == "head-left"
+
+
+def _first_contact(layout: shotplan.Layout, shot) -> str:
+    """The ball the cue ball meets first when the proposal is played again."""
+    out = shotplan.simulate(layout, shot.stroke())
+    hit = next(e for e in out.events if e.kind.word == "collision" and "cue" in e.balls)
+    return next(b for b in hit.balls if b != "cue")
+
+
+def test_nine_ball_rules_keep_the_one_first():
+    lay = load("club-night-7-nine-ball-rules")
+    claim(lay, "the 1 is the lowest ball on the table, so the cue ball must meet it first")
+    claim(lay, "Without rules the widest shot is the 4 into the foot-left corner")
+    claim(lay, "under the rules every proposal hits the 1 first")
+    claim(lay, "the 1-9 combination into the foot-right corner wins the game")
+    assert lay.game == "9-ball"
+    free = find_shots(lay).shots
+    assert free[0].balls == ("4",) and free[0].pocket == "foot-left"
+    ruled = find_shots(lay, rules=Rules("9-ball", lay.ball_ids)).shots
+    assert ruled
+    # WPA 9-ball: the first ball the cue ball contacts is the lowest on the table.
+    assert all(_first_contact(lay, s) == "1" for s in ruled)
+    combo = [s for s in ruled if s.balls == ("1", "9") and s.pocket == "foot-right"]
+    assert combo
+    out = shotplan.simulate(lay, combo[0].stroke())
+    assert out.final["9"]["state"] == "pocketed" and out.final["9"]["pocket"] == "foot-right"
+
+
+def test_snooker_red_on_not_the_black():
+    lay = load("club-night-8-snooker-red-on")
+    claim(lay, "two reds are left, so the ball on is a red")
+    claim(lay, "The black hanging over the foot-right corner is the easiest pot on the table")
+    claim(lay, "it is not on and is not proposed")
+    claim(lay, "the best red is red2 into the side-left pocket")
+    reds = [b for b in lay.ball_ids if b.startswith("red")]
+    assert len(reds) == 2
+    free = find_shots(lay).shots
+    assert free[0].balls == ("black",) and free[0].pocket == "foot-right"  # "easiest": widest
+    # WPBSA: while reds remain, the ball on is a red.
+    ruled = find_shots(lay, rules=Rules("snooker", lay.ball_ids)).shots
+    assert ruled and all(s.balls[0].startswith("red") for s in ruled)
+    assert not any("black" in s.balls for s in ruled)
+    assert ruled[0].balls == ("red2",) and ruled[0].pocket == "side-left"
+
+
+def test_three_cushion_widest_carom():
+    from shotplan.physics.run import StrokePlayer
+    from shotplan.search.carom import find_caroms
+
+    lay = load("club-night-9-three-cushion")
+    claim(lay, "the cue ball must meet both other balls, with at least three cushions before "
+               "the second")
+    claim(lay, "the widest here takes the yellow first and three cushions before the red")
+    res = find_caroms(StrokePlayer.for_layout(lay), Rules("three-cushion", lay.ball_ids))
+    best = res.shots[0]
+    assert best.first_ball == "yellow" and best.second_ball == "red"
+    assert len(best.cushions) == 3
+    assert all(s.window_deg <= best.window_deg for s in res.shots)

@@ -3,20 +3,25 @@
 from __future__ import annotations
 
 import argparse
-from typing import TYPE_CHECKING
+from collections.abc import Sequence
+from typing import TYPE_CHECKING, TypeVar
 
 from ..errors import InputError
 from ..files.write import check_output_path
 from ..layout import load_layout
 from .common import EXIT_OK, FIGURE_SUFFIXES, plural, require_playable
+from .games import game_rules
 from .options import int_in
 from .plan import add_search_options, run_search
 
 if TYPE_CHECKING:
+    from ..games import Rules
     from ..layout import Layout
     from ..render.scene import Scene
 
 __all__ = ["add_subcommands", "run_draw"]
+
+T = TypeVar("T")
 
 
 def add_subcommands(sub: argparse._SubParsersAction) -> None:
@@ -91,13 +96,37 @@ def _scene(args: argparse.Namespace, layout: Layout) -> Scene:
             raise InputError(f"{args.layout}: stroke: --paths needs a stroke in the layout")
         return shot_scene(layout, simulate(layout), None, title=args.title, note=args.note,
                           style=args.style)
+    rules = game_rules(args, layout)
+    if rules is not None and rules.is_carom:
+        return _carom_scene(args, layout, rules)
     result = run_search(args, layout)
-    found = len(result.shots)
-    if args.shot > found:
-        raise InputError(f"--shot {args.shot}: the search found {plural(found, 'shot')}, "
-                         f"must be between 1 and {found}"
-                         if found else f"--shot {args.shot}: no shot found")
-    shot = result.shots[args.shot - 1]
+    shot = _kth(args.shot, result.shots, "search", "shot")
     outcome = simulate(layout, shot.stroke())
     note = args.note if args.note is not None else shot_caption(shot)
     return shot_scene(layout, outcome, shot, title=args.title, note=note, style=args.style)
+
+
+def _carom_scene(args: argparse.Namespace, layout: Layout, rules: Rules) -> Scene:
+    """The K-th carom of the carom search, played and drawn with its caption."""
+    from ..physics import simulate
+    from ..physics.run import StrokePlayer
+    from ..render.captions import carom_caption
+    from ..render.overlays import shot_scene
+    from ..search.carom import find_caroms
+    from ..stroke import Stroke
+
+    res = find_caroms(StrokePlayer.for_layout(layout, elevation=args.elevation), rules,
+                      speeds=[args.speed] if args.speed else None)
+    c = _kth(args.shot, res.shots, "carom search", "carom")
+    outcome = simulate(layout, Stroke(c.direction_deg, c.speed_mps, c.side, c.height,
+                                      args.elevation))
+    note = args.note if args.note is not None else carom_caption(c)
+    return shot_scene(layout, outcome, None, title=args.title, note=note, style=args.style)
+
+
+def _kth(k: int, found: Sequence[T], search: str, word: str) -> T:
+    """The K-th of what a search found, or one line saying what is valid."""
+    if k > len(found):
+        raise InputError(f"--shot {k}: the {search} found {plural(len(found), word)}, must be "
+                         f"between 1 and {len(found)}" if found else f"--shot {k}: no {word} found")
+    return found[k - 1]

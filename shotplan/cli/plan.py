@@ -175,7 +175,12 @@ def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading
     result = find_caroms(player, rules, speeds=[args.speed] if args.speed else None,
                          top=args.top)
     if args.json:
-        emit_json([s.to_dict() for s in result.shots])
+        doc: Any = [s.to_dict() for s in result.shots]
+        if args.explain:
+            # The carom scan keeps no rejected candidates: every direction it
+            # tries either scores or does not (the same keys as pool's).
+            doc = {"shots": doc, "rejected": []}
+        emit_json(doc)
         return EXIT_OK
     print(f"{args.layout}: {plural(len(result.shots), 'carom')} found "
           f"({result.simulations} simulations, {result.seconds * 1000:.0f} ms) "
@@ -190,6 +195,9 @@ def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading
     if rows:
         for line in format_table(CAROM_COLUMNS, rows):
             print(line)
+    if args.explain:
+        print("rejected: the carom scan lists no rejected candidates (a direction it tries "
+              "scores or not; see the windows)")
     return EXIT_OK
 
 

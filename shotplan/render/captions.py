@@ -8,8 +8,9 @@ from ..stroke import speed_word
 
 if TYPE_CHECKING:
     from ..search import Shot
+    from ..search.carom import CaromShot
 
-__all__ = ["shot_caption"]
+__all__ = ["shot_caption", "carom_caption"]
 
 
 def _tip_words(height: float, side: float) -> str:
@@ -57,3 +58,28 @@ def shot_caption(shot: Shot) -> str:
             f"Cut {shot.cut_angle_deg:.1f}°, aim {shot.direction_deg:.2f}°, window "
             f"{shot.window_deg:.2f}° ({shot.window_mm:.0f} mm); speed {shot.speed_mps:.2f} m/s "
             f"({speed_word(float(shot.speed_mps))}); {tip}.")
+
+
+def carom_caption(shot: CaromShot) -> str:
+    """The caption of a proposed carom, two lines: the family, the balls in
+    turn and the cushions before the second; then the ball-hit fraction, the
+    aim and its window, the speed and its window, and the tip.
+
+    Parameters
+    ----------
+    shot : CaromShot
+        A proposed carom.
+
+    Returns
+    -------
+    str
+        Two lines joined by a newline.
+    """
+    route = ", ".join(shot.cushions) if shot.cushions else "no cushion"
+    lo, hi = shot.speed_window_mps
+    tip = _tip_words(float(shot.height), float(shot.side))
+    return (f"Carom ({shot.family}): the {shot.first_ball} first, then the {shot.second_ball} "
+            f"after {route}.\n"
+            f"Ball-hit {shot.fraction:.2f}, aim {shot.direction_deg:.2f}°, window "
+            f"{shot.window_deg:.2f}°; speed {shot.speed_mps:.2f} m/s ({lo:.2f}-{hi:.2f}); "
+            f"tip: {tip}.")
