@@ -1,0 +1,78 @@
+"""The event engine's speed, this checkout against an earlier commit, in one process.
+
+For engine speed work (issue 15): the four shots of ``bench_contact.py`` (a
+cut, a bank, a 9-ball and a 15-ball break) and the seeded random shots of
+``engine_identity.py``, each timed with the engine of this checkout and with
+the engine at ``--against`` (default ``HEAD``: the last commit, so a change
+can be measured before it is committed), alternately, best of several rounds.
+The earlier package is taken out of git once (as ``bench_contact.py`` does).
+Nothing is asserted; the machine may be shared.
+
+Run: ``python benchmarks/bench_engine_parts.py [--against REV] [--shots N]``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import pathlib
+import subprocess
+import sys
+import time
+from collections.abc import Callable
+
+import shotplan
+
+HERE = pathlib.Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
+from bench_contact import before_package, fmt, shots  # noqa: E402
+from bench_physics import best_time  # noqa: E402
+from engine_identity import shots as random_shots  # noqa: E402
+
+
+def batch(pkg, count: int, seed: int) -> Callable[[], object]:  # type: ignore[no-untyped-def]
+    """One call plays every random shot once (launches made beforehand)."""
+    plays = []
+    for sim, pos, cue, stroke in random_shots(count, seed, pkg):
+        ln = sim.launch(stroke)
+        plays.append((sim, pos, cue, ln.velocity, ln.spin))
+
+    def once() -> object:
+        for sim, pos, cue, v, w in plays:
+            sim.run_raw(pos, cue, v, w)
+        return None
+
+    return once
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--against", default="HEAD", help="the earlier commit (default HEAD)")
+    ap.add_argument("--shots", type=int, default=300, help="random shots in the batch")
+    ap.add_argument("--rounds", type=int, default=3, help="alternate rounds (best is kept)")
+    args = ap.parse_args()
+    sha = subprocess.run(["git", "-C", str(HERE.parent), "rev-parse", args.against],
+                         check=True, capture_output=True, text=True).stdout.strip()
+    old_pkg = before_package(sha, f"shotplan_at_{sha[:12]}")
+    if old_pkg is None:
+        return
+    t0 = time.perf_counter()
+    now = [(name, once) for name, once, _ in shots(shotplan)]
+    now.append((f"{args.shots} random shots", batch(shotplan, args.shots, 15)))
+    old = [(name, once) for name, once, _ in shots(old_pkg)]
+    old.append((f"{args.shots} random shots", batch(old_pkg, args.shots, 15)))
+    for (_, a), (_, b) in zip(now, old, strict=True):
+        a()
+        b()
+    print(f"engine: this checkout against {args.against} ({sha[:12]}); set-up and "
+          f"compile {time.perf_counter() - t0:.1f} s")
+    print(f"  {'shot':<24} {'before':>11} {'now':>11} {'before/now':>10}")
+    for (name, a), (_, b) in zip(now, old, strict=True):
+        ta = tb = float("inf")
+        for _ in range(args.rounds):
+            tb = min(tb, best_time(b, budget=0.2, rounds=3))
+            ta = min(ta, best_time(a, budget=0.2, rounds=3))
+        print(f"  {name:<24} {fmt(tb)} {fmt(ta)} {tb / ta:9.2f}x")
+
+
+if __name__ == "__main__":
+    main()
