@@ -8,7 +8,9 @@ for bit (``np.array_equal``). A re-runnable check, not a test: its reference
 is the engine before the change, on this machine.
 
 Run: ``python benchmarks/engine_identity.py --save /tmp/ref.npz`` before,
-``python benchmarks/engine_identity.py --compare /tmp/ref.npz`` after.
+``python benchmarks/engine_identity.py --compare /tmp/ref.npz`` after; or
+``--against REV`` to play the same shots with the engine of commit ``REV`` in
+this process (taken out of git as ``bench_contact.py`` does) and compare.
 """
 
 from __future__ import annotations
@@ -16,6 +18,8 @@ from __future__ import annotations
 import argparse
 import importlib
 import math
+import pathlib
+import subprocess
 import sys
 import time
 from types import ModuleType
@@ -93,12 +97,13 @@ def shots(count: int, seed: int, pkg: ModuleType = shotplan):  # type: ignore[no
     return out
 
 
-def play(count: int, seed: int) -> tuple[dict[str, np.ndarray], float, int]:
+def play(count: int, seed: int, pkg: ModuleType = shotplan
+         ) -> tuple[dict[str, np.ndarray], float, int]:
     """Every array of every run, keyed ``<shot>_<field>``; seconds; events."""
     arrays: dict[str, np.ndarray] = {}
     total = 0.0
     events = 0
-    for k, (sim, pos, cue, stroke) in enumerate(shots(count, seed)):
+    for k, (sim, pos, cue, stroke) in enumerate(shots(count, seed, pkg)):
         ln = sim.launch(stroke)
         t0 = time.perf_counter()
         run = sim.run_raw(pos, cue, ln.velocity, ln.spin)
@@ -115,6 +120,7 @@ def main() -> int:
     ap.add_argument("--compare", help="compare the runs with this .npz")
     ap.add_argument("--count", type=int, default=300)
     ap.add_argument("--seed", type=int, default=15)
+    ap.add_argument("--against", help="compare with the engine of this commit, played here")
     args = ap.parse_args()
     play(3, args.seed)  # compile or load the kernels outside the timing
     arrays, secs, events = play(args.count, args.seed)
@@ -122,12 +128,25 @@ def main() -> int:
     if args.save:
         np.savez(args.save, **arrays)
         print(f"saved {args.save}")
-    if args.compare:
-        ref = np.load(args.compare)
-        bad = sorted({k.split("_", 1)[0] for k in ref.files
+    if args.compare or args.against:
+        if args.against:
+            sys.path.insert(0, str(pathlib.Path(__file__).resolve().parent))
+            from bench_contact import before_package
+
+            sha = subprocess.run(["git", "rev-parse", args.against], check=True,
+                                 capture_output=True, text=True).stdout.strip()
+            old = before_package(sha, f"shotplan_at_{sha[:12]}")
+            if old is None:
+                return 1
+            play(3, args.seed, old)  # compile or load its kernels
+            ref, secs_old, _ = play(args.count, args.seed, old)
+            print(f"{args.against} ({sha[:12]}): {secs_old:.3f} s in run_raw")
+        else:
+            ref = dict(np.load(args.compare))
+        bad = sorted({k.split("_", 1)[0] for k in ref
                       if k not in arrays or not np.array_equal(ref[k], arrays[k])},
                      key=int)
-        if set(ref.files) != set(arrays):
+        if set(ref) != set(arrays):
             print("different sets of arrays (another count or seed?)")
             return 1
         if bad:

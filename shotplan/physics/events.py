@@ -49,6 +49,31 @@ def _reach(vx, vy, ax, ay, h):  # type: ignore[no-untyped-def]
     return math.hypot(vx, vy) * h + 0.5 * math.hypot(ax, ay) * h * h
 
 
+BOX_MARGIN_M = 1e-7
+"""Slack (m) added to every box test of :func:`own_event`. A box test only
+skips a polynomial whose first root would be rejected anyway; this margin,
+far above the rounding of positions and of the polynomials' values (about
+1e-12 m on a table), keeps a contact grazed within rounding from being
+skipped where the polynomial would have reported it, so results stay the
+same bit for bit."""
+
+
+@jit
+def _path_span(x, v, a, T):  # type: ignore[no-untyped-def]
+    """(lowest, highest) of ``x + v t + a t^2 / 2`` over ``[0, T]``: its ends
+    and, if inside, its vertex."""
+    xT = x + v * T + 0.5 * a * T * T
+    lo = min(x, xT)
+    hi = max(x, xT)
+    if a != 0.0:
+        tv = -v / a
+        if 0.0 < tv < T:
+            xv = x + v * tv + 0.5 * a * tv * tv
+            lo = min(lo, xv)
+            hi = max(hi, xv)
+    return lo, hi
+
+
 @jit
 def _circle_quartic(c, qx, qy, vx, vy, bx, by, rr):  # type: ignore[no-untyped-def]
     """Fill c with |q + v t + b t^2|^2 - rr^2: a point moving on a parabola
@@ -191,6 +216,14 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
     x, y = pos[i, 0], pos[i, 1]
     reach = _reach(vx, vy, ax, ay, dt_tr) + 1e-9
     c = np.empty(5)
+    # The box the centre's path stays in over [0, box_t]; box_t >= best
+    # always (made again, smaller, whenever best has shrunk). Every contact
+    # with an element puts the centre within the element's box grown by the
+    # contact distance, so an element whose grown box misses the path's box
+    # has no event before best: its polynomial is skipped.
+    box_t = best
+    bx0, bx1 = _path_span(x, vx, ax, box_t)
+    by0, by1 = _path_span(y, vy, ay, box_t)
     # Straight noses: rails and jaw faces
     for k in range(lines.shape[0]):
         x0, y0, x1, y1 = lines[k, 0], lines[k, 1], lines[k, 2], lines[k, 3]
@@ -202,6 +235,16 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             # back in front of it. A ball only a little behind can: a curved
             # (sliding) path may cross the extension and come back onto the
             # face from the front.
+            continue
+        if best < box_t:
+            box_t = best
+            bx0, bx1 = _path_span(x, vx, ax, box_t)
+            by0, by1 = _path_span(y, vy, ay, box_t)
+        # A face contact or the corner at its far end: the centre within reff
+        # of the segment.
+        g = reff + BOX_MARGIN_M
+        if (bx1 < min(x0, x1) - g or bx0 > max(x0, x1) + g
+                or by1 < min(y0, y1) - g or by0 > max(y0, y1) + g):
             continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
@@ -244,6 +287,13 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         qy = y - cy
         rr = rho + reff
         if math.hypot(qx, qy) - rr > reach:
+            continue
+        if best < box_t:
+            box_t = best
+            bx0, bx1 = _path_span(x, vx, ax, box_t)
+            by0, by1 = _path_span(y, vy, ay, box_t)
+        g = rr + BOX_MARGIN_M
+        if bx1 < cx - g or bx0 > cx + g or by1 < cy - g or by0 > cy + g:
             continue
         _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, rr)
         t = first_down_crossing(c, 4, best, buf)
