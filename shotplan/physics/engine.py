@@ -22,6 +22,7 @@ from .collide import ball_ball, ball_cushion
 from .events import own_event, pair_contact_time
 from .jit import jit
 from .motion import advance, classify
+from .roots import SCRATCH_LEN
 from .state import (
     EV_COLLISION,
     EV_CUSHION,
@@ -206,7 +207,7 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     own_elem = np.full(n, -1, dtype=np.int64)
     trans_t = np.full(n, math.inf)
     pair_t = np.full((n, n), math.inf)
-    buf = np.zeros(8)
+    buf = np.zeros(SCRATCH_LEN)
     n_seg = 0
     for i in range(n):
         classify(i, vel, om, st, prm)

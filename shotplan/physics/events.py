@@ -21,11 +21,9 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
 from .jit import jit
 from .motion import linear_accel, state_at
-from .roots import first_down_crossing
+from .roots import coef_room, first_down_crossing
 from .state import (
     EV_CUSHION,
     EV_JAW,
@@ -142,7 +140,7 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
         h = 1e6
     if gap > _reach(qx, qy, 2.0 * bx, 2.0 * by, h) + 1e-12:
         return math.inf
-    c = np.empty(5)
+    c = coef_room(buf)
     _circle_quartic(c, px, py, qx, qy, bx, by, D)
     t = first_down_crossing(c, 4, h, buf)
     return t_now + t
@@ -172,7 +170,7 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         The table's nose segments, jaw tip circles and drop lines
         (:attr:`shotplan.table.Table.cushion_lines` and the like).
     buf : ndarray
-        Scratch room for roots (length >= 8).
+        Scratch room for roots (length >= 8; :data:`.roots.SCRATCH_LEN` to allocate nothing).
 
     Returns
     -------
@@ -215,7 +213,7 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
     reff = prm[P_REFF]
     x, y = pos[i, 0], pos[i, 1]
     reach = _reach(vx, vy, ax, ay, dt_tr) + 1e-9
-    c = np.empty(5)
+    c = coef_room(buf)
     # The box the centre's path stays in over [0, box_t]; box_t >= best
     # always (made again, smaller, whenever best has shrunk). Every contact
     # with an element puts the centre within the element's box grown by the
