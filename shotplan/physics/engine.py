@@ -19,9 +19,9 @@ import math
 import numpy as np
 
 from .collide import ball_ball, ball_cushion
-from .events import own_event, pair_contact_time
+from .events import own_event, pair_contact_time, path_span
 from .jit import jit
-from .motion import advance, classify
+from .motion import advance, classify, linear_accel
 from .roots import SCRATCH_LEN
 from .state import (
     EV_COLLISION,
@@ -130,9 +130,23 @@ def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball,  # type: ignore[no-
     return n_seg + 1
 
 
+PAIR_BOX_SLACK_M = 1e-3
+"""Slack (m) added to the contact distance 2R in the box test of
+:func:`_refresh_pair`: far above the rounding of positions and of the contact
+polynomial (about 1e-12 m on a table), so that the test only skips pairs the
+polynomial would find apart, and room for a contact law that starts a little
+before the centres are 2R apart."""
+
+
 @jit
 def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-untyped-def]
-                  circles, drops, buf, own_t, own_kind, own_elem, trans_t):
+                  circles, drops, buf, own_t, own_kind, own_elem, trans_t, box):
+    """Ball ``i``'s next event of its own, its next change of state and the box
+    its centre stays in until that event (``box[i]``: x low, x high, y low, y
+    high); ``t`` must be its reference time."""
+    x, y = pos[i, 0], pos[i, 1]
+    box[i, 0] = box[i, 1] = x
+    box[i, 2] = box[i, 3] = y
     if st[i] == POCKETED:
         own_t[i] = math.inf
         own_kind[i] = 0
@@ -144,10 +158,24 @@ def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-u
     own_kind[i] = kind
     own_elem[i] = elem
     trans_t[i] = tt
+    s = st[i]
+    if s == SLIDING or s == ROLLING:
+        ax, ay = linear_accel(s, vel[i, 0], vel[i, 1], om[i, 0], om[i, 1], prm)
+        box[i, 0], box[i, 1] = path_span(x, vel[i, 0], ax, te - t)
+        box[i, 2], box[i, 3] = path_span(y, vel[i, 1], ay, te - t)
 
 
 @jit
-def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  # type: ignore[no-untyped-def]
+def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,  # type: ignore[no-untyped-def]  # noqa: E501
+                  box):
+    """Balls ``i`` and ``j``'s next contact into ``pair_t``.
+
+    A contact at or after either ball's next event of its own is never used:
+    that event comes first (ties go to a ball's own event) and gives the pair
+    a new time. So when the boxes the two centres stay in until their own
+    events (:func:`_refresh_ball`) are more than 2R apart, the pair gets
+    ``inf`` without its polynomial: the run is the same bit for bit.
+    """
     a = min(i, j)
     b = max(i, j)
     if st[a] == POCKETED or st[b] == POCKETED:
@@ -156,6 +184,11 @@ def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  
     ma = st[a] == SLIDING or st[a] == ROLLING
     mb = st[b] == SLIDING or st[b] == ROLLING
     if not (ma or mb):
+        pair_t[a, b] = math.inf
+        return
+    g = 2.0 * prm[P_R] + PAIR_BOX_SLACK_M
+    if (box[a, 1] + g < box[b, 0] or box[b, 1] + g < box[a, 0]
+            or box[a, 3] + g < box[b, 2] or box[b, 3] + g < box[a, 2]):
         pair_t[a, b] = math.inf
         return
     ha = trans_t[a] if ma else math.inf
@@ -206,6 +239,7 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     own_kind = np.zeros(n, dtype=np.int64)
     own_elem = np.full(n, -1, dtype=np.int64)
     trans_t = np.full(n, math.inf)
+    box = np.zeros((n, 4))
     pair_t = np.full((n, n), math.inf)
     buf = np.zeros(SCRATCH_LEN)
     n_seg = 0
@@ -215,10 +249,10 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                                 seg_vel, seg_om, n_seg)
     for i in range(n):
         _refresh_ball(i, 0.0, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                      own_t, own_kind, own_elem, trans_t)
+                      own_t, own_kind, own_elem, trans_t, box)
     for i in range(n):
         for j in range(i + 1, n):
-            _refresh_pair(i, j, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+            _refresh_pair(i, j, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t, box)
 
     e_b = prm[P_E_B]
     mu_b = prm[P_MU_B]
@@ -350,14 +384,16 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
         n_ev += 1
         # New times for the changed balls and their pairs
         _refresh_ball(a, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                      own_t, own_kind, own_elem, trans_t)
+                      own_t, own_kind, own_elem, trans_t, box)
         if b >= 0:
             _refresh_ball(b, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                          own_t, own_kind, own_elem, trans_t)
+                          own_t, own_kind, own_elem, trans_t, box)
         for k in range(n):
             if k != a:
-                _refresh_pair(a, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+                _refresh_pair(a, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                              box)
             if b >= 0 and k != b and k != a:
-                _refresh_pair(b, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+                _refresh_pair(b, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                              box)
     # Bring every ball to its final state at the end time.
     return n_ev, n_seg, status

@@ -14,7 +14,10 @@ Between events every ball moves on ``r(t) = r0 + v0 t + a t^2 / 2``, so
 Each search runs on ``[0, horizon]``, the horizon being the next change of
 state of the ball(s) (past it the quadratic no longer describes the motion).
 A cheap bound on the distance a ball can travel in the horizon skips the
-polynomial for anything out of reach.
+polynomial for anything out of reach; then a box test (the box the path stays
+in until the earliest event found so far, against the element's box) skips
+the elements the ball cannot meet first, such as the jaw tips of pockets it
+rolls past: most of a shot's polynomials, measured.
 """
 
 from __future__ import annotations
@@ -38,7 +41,7 @@ from .state import (
     SPINNING,
 )
 
-__all__ = ["pair_contact_time", "own_event"]
+__all__ = ["pair_contact_time", "own_event", "path_span", "BOX_MARGIN_M"]
 
 
 @jit
@@ -57,7 +60,7 @@ same bit for bit."""
 
 
 @jit
-def _path_span(x, v, a, T):  # type: ignore[no-untyped-def]
+def path_span(x, v, a, T):  # type: ignore[no-untyped-def]
     """(lowest, highest) of ``x + v t + a t^2 / 2`` over ``[0, T]``: its ends
     and, if inside, its vertex."""
     xT = x + v * T + 0.5 * a * T * T
@@ -220,8 +223,8 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
     # contact distance, so an element whose grown box misses the path's box
     # has no event before best: its polynomial is skipped.
     box_t = best
-    bx0, bx1 = _path_span(x, vx, ax, box_t)
-    by0, by1 = _path_span(y, vy, ay, box_t)
+    bx0, bx1 = path_span(x, vx, ax, box_t)
+    by0, by1 = path_span(y, vy, ay, box_t)
     # Straight noses: rails and jaw faces
     for k in range(lines.shape[0]):
         x0, y0, x1, y1 = lines[k, 0], lines[k, 1], lines[k, 2], lines[k, 3]
@@ -236,8 +239,8 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             continue
         if best < box_t:
             box_t = best
-            bx0, bx1 = _path_span(x, vx, ax, box_t)
-            by0, by1 = _path_span(y, vy, ay, box_t)
+            bx0, bx1 = path_span(x, vx, ax, box_t)
+            by0, by1 = path_span(y, vy, ay, box_t)
         # A face contact or the corner at its far end: the centre within reff
         # of the segment.
         g = reff + BOX_MARGIN_M
@@ -288,8 +291,8 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             continue
         if best < box_t:
             box_t = best
-            bx0, bx1 = _path_span(x, vx, ax, box_t)
-            by0, by1 = _path_span(y, vy, ay, box_t)
+            bx0, bx1 = path_span(x, vx, ax, box_t)
+            by0, by1 = path_span(y, vy, ay, box_t)
         g = rr + BOX_MARGIN_M
         if bx1 < cx - g or bx0 > cx + g or by1 < cy - g or by0 > cy + g:
             continue
