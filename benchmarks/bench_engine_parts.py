@@ -14,18 +14,21 @@ Run: ``python benchmarks/bench_engine_parts.py [--against REV] [--shots N]``.
 from __future__ import annotations
 
 import argparse
+import importlib
 import pathlib
 import subprocess
 import sys
 import time
 from collections.abc import Callable
 
+import numpy as np
+
 import shotplan
 
 HERE = pathlib.Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 from bench_contact import before_package, fmt, shots  # noqa: E402
-from bench_physics import best_time  # noqa: E402
+from bench_physics import best_time, kernel_buffers, scattered_balls  # noqa: E402
 from engine_identity import shots as random_shots  # noqa: E402
 
 
@@ -42,6 +45,32 @@ def batch(pkg, count: int, seed: int) -> Callable[[], object]:  # type: ignore[n
         return None
 
     return once
+
+
+def scaling(pkg, ns: tuple[int, ...]) -> list[Callable[[], int]]:  # type: ignore[no-untyped-def]
+    """For each n: one call runs the first 5 n events of 5 layouts of n balls
+    sliding off at once on a carom table (``bench_physics.scattered_balls``)
+    and returns the events run."""
+    sub = lambda name: importlib.import_module(f"{pkg.__name__}.{name}")  # noqa: E731
+    table = sub("table").Table(sub("equipment").TableSpec.preset("carom"))
+    sim = sub("physics").Simulator(table, sub("physics").Physics())
+    run_events = sub("physics.engine").run_events
+    out = []
+    for n in ns:
+        rng = np.random.default_rng(1000 + n)
+        runs = [scattered_balls(n, rng, table) for _ in range(5)]
+        bufs = kernel_buffers(n, 5 * n)
+
+        def once(runs=runs, bufs=bufs, n=n) -> int:
+            total = 0
+            for pos, vel, om in runs:
+                total += int(run_events(pos.copy(), vel.copy(), om.copy(),
+                                        np.zeros(n, dtype=np.int64), sim.prm, sim.lines,
+                                        sim.circles, sim.drops, 5 * n, *bufs)[0])
+            return total
+
+        out.append(once)
+    return out
 
 
 def main() -> None:
@@ -72,6 +101,22 @@ def main() -> None:
             tb = min(tb, best_time(b, budget=0.2, rounds=3))
             ta = min(ta, best_time(a, budget=0.2, rounds=3))
         print(f"  {name:<24} {fmt(tb)} {fmt(ta)} {tb / ta:9.2f}x")
+    ns = (2, 4, 8, 16, 32)
+    print("  cost per event, n balls sliding off at once (carom table, first 5 n events of 5 "
+          "layouts)")
+    print(f"  {'balls':>5} {'before':>11} {'now':>11} {'before/now':>10}")
+    cost: dict[str, list[float]] = {"before": [], "now": []}
+    for n, a, b in zip(ns, scaling(shotplan, ns), scaling(old_pkg, ns), strict=True):
+        events = a()
+        b()
+        ta = min(best_time(a, budget=0.2, rounds=3) for _ in range(args.rounds)) / events
+        tb = min(best_time(b, budget=0.2, rounds=3) for _ in range(args.rounds)) / events
+        cost["now"].append(ta)
+        cost["before"].append(tb)
+        print(f"  {n:5d} {fmt(tb)} {fmt(ta)} {tb / ta:9.2f}x")
+    fit = {k: np.polyfit(np.log(ns), np.log(v), 1)[0] for k, v in cost.items()}
+    print(f"  fitted exponent of the cost per event: before n^{fit['before']:.2f}, "
+          f"now n^{fit['now']:.2f}")
 
 
 if __name__ == "__main__":
