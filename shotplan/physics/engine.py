@@ -131,8 +131,8 @@ def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball,  # type: ignore[no-
 
 
 PAIR_BOX_SLACK_M = 1e-3
-"""Slack (m) added to the contact distance 2R in the box test of
-:func:`_refresh_pair`: far above the rounding of positions and of the contact
+"""Slack (m) added to the contact distance 2R in the box tests of
+:func:`_refresh_pairs`: far above the rounding of positions and of the contact
 polynomial (about 1e-12 m on a table), so that the test only skips pairs the
 polynomial would find apart, and room for a contact law that starts a little
 before the centres are 2R apart."""
@@ -140,13 +140,17 @@ before the centres are 2R apart."""
 
 @jit
 def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-untyped-def]
-                  circles, drops, buf, own_t, own_kind, own_elem, trans_t, box):
-    """Ball ``i``'s next event of its own, its next change of state and the box
-    its centre stays in until that event (``box[i]``: x low, x high, y low, y
-    high); ``t`` must be its reference time."""
+                  circles, drops, buf, own_t, own_kind, own_elem, trans_t, box, mot):
+    """Ball ``i``'s next event of its own and next change of state; ``t`` must
+    be its reference time. For the pair tests of :func:`_refresh_pairs`, also
+    the box its centre stays in until that event (``box[i]``: x low, x high,
+    y low, y high) and its motion (``mot[i]``: position, velocity and
+    acceleration at ``t``, x and y each; zero velocity and acceleration for a
+    ball that does not move)."""
     x, y = pos[i, 0], pos[i, 1]
-    box[i, 0] = box[i, 1] = x
-    box[i, 2] = box[i, 3] = y
+    box[i, 0] = box[i, 1] = mot[i, 0] = x
+    box[i, 2] = box[i, 3] = mot[i, 1] = y
+    mot[i, 2] = mot[i, 3] = mot[i, 4] = mot[i, 5] = 0.0
     if st[i] == POCKETED:
         own_t[i] = math.inf
         own_kind[i] = 0
@@ -163,38 +167,64 @@ def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-u
         ax, ay = linear_accel(s, vel[i, 0], vel[i, 1], om[i, 0], om[i, 1], prm)
         box[i, 0], box[i, 1] = path_span(x, vel[i, 0], ax, te - t)
         box[i, 2], box[i, 3] = path_span(y, vel[i, 1], ay, te - t)
+        mot[i, 2] = vel[i, 0]
+        mot[i, 3] = vel[i, 1]
+        mot[i, 4] = ax
+        mot[i, 5] = ay
 
 
 @jit
-def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,  # type: ignore[no-untyped-def]  # noqa: E501
-                  box):
-    """Balls ``i`` and ``j``'s next contact into ``pair_t``.
+def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ignore[no-untyped-def]  # noqa: C901, E501
+                   buf, trans_t, pair_t, own_t, box, mot):
+    """The next contact of ball ``i`` with every ball ``k >= k_from`` but
+    ``skip`` into ``pair_t`` (one call for all of a ball's pairs: a call per
+    pair cost more than most pairs' work).
 
     A contact at or after either ball's next event of its own is never used:
     that event comes first (ties go to a ball's own event) and gives the pair
     a new time. So when the boxes the two centres stay in until their own
-    events (:func:`_refresh_ball`) are more than 2R apart, the pair gets
-    ``inf`` without its polynomial: the run is the same bit for bit.
+    events (:func:`_refresh_ball`) are more than 2R apart, or the box of
+    their relative path until the first of those events is (ends and vertex
+    per coordinate), the pair gets ``inf`` without its polynomial: the run is
+    the same bit for bit.
     """
-    a = min(i, j)
-    b = max(i, j)
-    if st[a] == POCKETED or st[b] == POCKETED:
-        pair_t[a, b] = math.inf
-        return
-    ma = st[a] == SLIDING or st[a] == ROLLING
-    mb = st[b] == SLIDING or st[b] == ROLLING
-    if not (ma or mb):
-        pair_t[a, b] = math.inf
-        return
+    n = pos.shape[0]
     g = 2.0 * prm[P_R] + PAIR_BOX_SLACK_M
-    if (box[a, 1] + g < box[b, 0] or box[b, 1] + g < box[a, 0]
-            or box[a, 3] + g < box[b, 2] or box[b, 3] + g < box[a, 2]):
-        pair_t[a, b] = math.inf
-        return
-    ha = trans_t[a] if ma else math.inf
-    hb = trans_t[b] if mb else math.inf
-    horizon = min(ha, hb) - t
-    pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
+    si = st[i]
+    mi = si == SLIDING or si == ROLLING
+    ui = t - tref[i]
+    xi = mot[i, 0] + mot[i, 2] * ui + 0.5 * mot[i, 4] * ui * ui
+    yi = mot[i, 1] + mot[i, 3] * ui + 0.5 * mot[i, 5] * ui * ui
+    vxi = mot[i, 2] + mot[i, 4] * ui
+    vyi = mot[i, 3] + mot[i, 5] * ui
+    for k in range(k_from, n):
+        if k == i or k == skip:
+            continue
+        a = min(i, k)
+        b = max(i, k)
+        sk = st[k]
+        mk = sk == SLIDING or sk == ROLLING
+        if (si == POCKETED or sk == POCKETED or not (mi or mk)
+                or box[i, 1] + g < box[k, 0] or box[k, 1] + g < box[i, 0]
+                or box[i, 3] + g < box[k, 2] or box[k, 3] + g < box[i, 2]):
+            pair_t[a, b] = math.inf
+            continue
+        uk = t - tref[k]
+        span = min(own_t[i], own_t[k]) - t
+        lo, hi = path_span(mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi,
+                           mot[k, 2] + mot[k, 4] * uk - vxi, mot[k, 4] - mot[i, 4], span)
+        if lo > g or hi < -g:
+            pair_t[a, b] = math.inf
+            continue
+        lo, hi = path_span(mot[k, 1] + mot[k, 3] * uk + 0.5 * mot[k, 5] * uk * uk - yi,
+                           mot[k, 3] + mot[k, 5] * uk - vyi, mot[k, 5] - mot[i, 5], span)
+        if lo > g or hi < -g:
+            pair_t[a, b] = math.inf
+            continue
+        ha = trans_t[a] if (st[a] == SLIDING or st[a] == ROLLING) else math.inf
+        hb = trans_t[b] if (st[b] == SLIDING or st[b] == ROLLING) else math.inf
+        horizon = min(ha, hb) - t
+        pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
 
 
 # noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
@@ -240,6 +270,7 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     own_elem = np.full(n, -1, dtype=np.int64)
     trans_t = np.full(n, math.inf)
     box = np.zeros((n, 4))
+    mot = np.zeros((n, 6))
     pair_t = np.full((n, n), math.inf)
     buf = np.zeros(SCRATCH_LEN)
     n_seg = 0
@@ -249,10 +280,10 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                                 seg_vel, seg_om, n_seg)
     for i in range(n):
         _refresh_ball(i, 0.0, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                      own_t, own_kind, own_elem, trans_t, box)
+                      own_t, own_kind, own_elem, trans_t, box, mot)
     for i in range(n):
-        for j in range(i + 1, n):
-            _refresh_pair(i, j, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t, box)
+        _refresh_pairs(i, -1, i + 1, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                       own_t, box, mot)
 
     e_b = prm[P_E_B]
     mu_b = prm[P_MU_B]
@@ -384,16 +415,14 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
         n_ev += 1
         # New times for the changed balls and their pairs
         _refresh_ball(a, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                      own_t, own_kind, own_elem, trans_t, box)
+                      own_t, own_kind, own_elem, trans_t, box, mot)
         if b >= 0:
             _refresh_ball(b, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                          own_t, own_kind, own_elem, trans_t, box)
-        for k in range(n):
-            if k != a:
-                _refresh_pair(a, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
-                              box)
-            if b >= 0 and k != b and k != a:
-                _refresh_pair(b, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
-                              box)
+                          own_t, own_kind, own_elem, trans_t, box, mot)
+        _refresh_pairs(a, -1, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t, own_t,
+                       box, mot)
+        if b >= 0:
+            _refresh_pairs(b, a, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                           own_t, box, mot)
     # Bring every ball to its final state at the end time.
     return n_ev, n_seg, status
