@@ -318,6 +318,19 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         along = ((x - x0) * dx + (y - y0) * dy) / L
         if along < -0.05 * L - reach or along > 1.05 * L + reach:
             continue
+        if best < box_t:
+            box_t = best
+            bx0, bx1 = path_span(x, vx, ax, box_t)
+            by0, by1 = path_span(y, vy, ay, box_t)
+        # A drop puts the centre on the line within the ends grown by 5 %.
+        ex0 = x0 - 0.05 * dx
+        ex1 = x1 + 0.05 * dx
+        ey0 = y0 - 0.05 * dy
+        ey1 = y1 + 0.05 * dy
+        g = BOX_MARGIN_M
+        if (bx1 < min(ex0, ex1) - g or bx0 > max(ex0, ex1) + g
+                or by1 < min(ey0, ey1) - g or by0 > max(ey0, ey1) + g):
+            continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
         c[2] = 0.5 * (ax * nx + ay * ny)
