@@ -175,7 +175,7 @@ def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-u
 
 @jit
 def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ignore[no-untyped-def]  # noqa: C901, E501
-                   buf, trans_t, pair_t, own_t, box, mot):
+                   buf, trans_t, pair_t, own_t, box, mot, row_t, row_j):
     """The next contact of ball ``i`` with every ball ``k >= k_from`` but
     ``skip`` into ``pair_t`` (one call for all of a ball's pairs: a call per
     pair cost more than most pairs' work).
@@ -204,27 +204,44 @@ def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ign
         b = max(i, k)
         sk = st[k]
         mk = sk == SLIDING or sk == ROLLING
-        if (si == POCKETED or sk == POCKETED or not (mi or mk)
+        val = math.inf
+        if not (si == POCKETED or sk == POCKETED or not (mi or mk)
                 or box[i, 1] + g < box[k, 0] or box[k, 1] + g < box[i, 0]
                 or box[i, 3] + g < box[k, 2] or box[k, 3] + g < box[i, 2]):
-            pair_t[a, b] = math.inf
-            continue
-        uk = t - tref[k]
-        span = min(own_t[i], own_t[k]) - t
-        lo, hi = path_span(mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi,
-                           mot[k, 2] + mot[k, 4] * uk - vxi, mot[k, 4] - mot[i, 4], span)
-        if lo > g or hi < -g:
-            pair_t[a, b] = math.inf
-            continue
-        lo, hi = path_span(mot[k, 1] + mot[k, 3] * uk + 0.5 * mot[k, 5] * uk * uk - yi,
-                           mot[k, 3] + mot[k, 5] * uk - vyi, mot[k, 5] - mot[i, 5], span)
-        if lo > g or hi < -g:
-            pair_t[a, b] = math.inf
-            continue
-        ha = trans_t[a] if (st[a] == SLIDING or st[a] == ROLLING) else math.inf
-        hb = trans_t[b] if (st[b] == SLIDING or st[b] == ROLLING) else math.inf
-        horizon = min(ha, hb) - t
-        pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
+            uk = t - tref[k]
+            span = min(own_t[i], own_t[k]) - t
+            lo, hi = path_span(mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi,
+                               mot[k, 2] + mot[k, 4] * uk - vxi, mot[k, 4] - mot[i, 4], span)
+            lo2, hi2 = path_span(mot[k, 1] + mot[k, 3] * uk + 0.5 * mot[k, 5] * uk * uk - yi,
+                                 mot[k, 3] + mot[k, 5] * uk - vyi, mot[k, 5] - mot[i, 5], span)
+            if not (lo > g or hi < -g or lo2 > g or hi2 < -g):
+                ha = trans_t[a] if (st[a] == SLIDING or st[a] == ROLLING) else math.inf
+                hb = trans_t[b] if (st[b] == SLIDING or st[b] == ROLLING) else math.inf
+                horizon = min(ha, hb) - t
+                val = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
+        pair_t[a, b] = val
+        if k < i:
+            # Row k's earliest pair, its entry i changed.
+            if val < row_t[k] or (val == row_t[k] and i < row_j[k]):
+                row_t[k] = val
+                row_j[k] = i
+            elif row_j[k] == i and val > row_t[k]:
+                _row_min(k, pair_t, row_t, row_j)
+    _row_min(i, pair_t, row_t, row_j)
+
+
+@jit
+def _row_min(i, pair_t, row_t, row_j):  # type: ignore[no-untyped-def]
+    """Row ``i``'s earliest pair time (``pair_t[i, j]``, ``j > i``) into
+    ``row_t[i]`` and its first ``j`` into ``row_j[i]`` (-1 if all are inf)."""
+    best = math.inf
+    jb = -1
+    for j in range(i + 1, pair_t.shape[0]):
+        if pair_t[i, j] < best:
+            best = pair_t[i, j]
+            jb = j
+    row_t[i] = best
+    row_j[i] = jb
 
 
 # noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
@@ -272,6 +289,8 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     box = np.zeros((n, 4))
     mot = np.zeros((n, 6))
     pair_t = np.full((n, n), math.inf)
+    row_t = np.full(n, math.inf)
+    row_j = np.full(n, -1, dtype=np.int64)
     buf = np.zeros(SCRATCH_LEN)
     n_seg = 0
     for i in range(n):
@@ -283,7 +302,7 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                       own_t, own_kind, own_elem, trans_t, box, mot)
     for i in range(n):
         _refresh_pairs(i, -1, i + 1, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
-                       own_t, box, mot)
+                       own_t, box, mot, row_t, row_j)
 
     e_b = prm[P_E_B]
     mu_b = prm[P_MU_B]
@@ -304,11 +323,10 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                 a = i
                 b = -1
         for i in range(n):
-            for j in range(i + 1, n):
-                if pair_t[i, j] < t_best:
-                    t_best = pair_t[i, j]
-                    a = i
-                    b = j
+            if row_t[i] < t_best:
+                t_best = row_t[i]
+                a = i
+                b = row_j[i]
         if a < 0 or math.isinf(t_best):
             break
         if n_ev >= max_events:
@@ -420,9 +438,9 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
             _refresh_ball(b, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
                           own_t, own_kind, own_elem, trans_t, box, mot)
         _refresh_pairs(a, -1, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t, own_t,
-                       box, mot)
+                       box, mot, row_t, row_j)
         if b >= 0:
             _refresh_pairs(b, a, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
-                           own_t, box, mot)
+                           own_t, box, mot, row_t, row_j)
     # Bring every ball to its final state at the end time.
     return n_ev, n_seg, status
