@@ -62,7 +62,20 @@ same bit for bit."""
 @jit
 def path_span(x, v, a, T):  # type: ignore[no-untyped-def]
     """(lowest, highest) of ``x + v t + a t^2 / 2`` over ``[0, T]``: its ends
-    and, if inside, its vertex."""
+    and, if inside, its vertex.
+
+    Parameters
+    ----------
+    x, v, a : float
+        Position (m), velocity (m/s) and acceleration (m/s^2) along one axis at t = 0.
+    T : float
+        The end of the interval, s (>= 0).
+
+    Returns
+    -------
+    tuple of float
+        The lowest and the highest position, m.
+    """
     xT = x + v * T + 0.5 * a * T * T
     lo = min(x, xT)
     hi = max(x, xT)
