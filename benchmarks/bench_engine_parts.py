@@ -3,8 +3,10 @@
 For engine speed work (issue 15): the four shots of ``bench_contact.py`` (a
 cut, a bank, a 9-ball and a 15-ball break) and the seeded random shots of
 ``engine_identity.py``, each timed with the engine of this checkout and with
-the engine at ``--against`` (default ``HEAD``: the last commit, so a change
-can be measured before it is committed), alternately, best of several rounds.
+the engine at ``--against`` (by default main before the speed work of issue
+15; ``--against HEAD`` measures a change before it is committed),
+alternately, best of several rounds; then the cost per event from 2 to 32
+moving balls, with its fitted exponent.
 The earlier package is taken out of git once (as ``bench_contact.py`` does).
 Nothing is asserted; the machine may be shared.
 
@@ -30,6 +32,10 @@ sys.path.insert(0, str(HERE))
 from bench_contact import before_package, fmt, shots  # noqa: E402
 from bench_physics import best_time, kernel_buffers, scattered_balls  # noqa: E402
 from engine_identity import shots as random_shots  # noqa: E402
+
+BEFORE_SPEED_WORK = "4ec501e99cf93b8b9b9f6d1597fc69b30582a5d5"
+"""main just before the engine speed work of issue 15 (box tests, one call per
+ball's pairs, row minima, no allocation in the root finders)."""
 
 
 def batch(pkg, count: int, seed: int) -> Callable[[], object]:  # type: ignore[no-untyped-def]
@@ -75,7 +81,9 @@ def scaling(pkg, ns: tuple[int, ...]) -> list[Callable[[], int]]:  # type: ignor
 
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    ap.add_argument("--against", default="HEAD", help="the earlier commit (default HEAD)")
+    ap.add_argument("--against", default=BEFORE_SPEED_WORK,
+                    help="the earlier commit (default: main before the engine speed work; "
+                         "HEAD measures an uncommitted change)")
     ap.add_argument("--shots", type=int, default=300, help="random shots in the batch")
     ap.add_argument("--rounds", type=int, default=3, help="alternate rounds (best is kept)")
     args = ap.parse_args()
