@@ -44,9 +44,32 @@ def _spots(rng: np.random.Generator, table, n: int) -> np.ndarray:  # type: igno
     return np.array(out)
 
 
-def shots(count: int, seed: int, pkg: ModuleType = shotplan):  # type: ignore[no-untyped-def]
+def _cluster(rng: np.random.Generator, table, R: float) -> np.ndarray:  # type: ignore[no-untyped-def]
+    """A cue ball and a chain or clump of 2-8 balls touching (or a micrometre
+    apart) in the middle of the table, the cue ball 0.1-0.6 m from it."""
+    n = int(rng.integers(2, 9))
+    centre = np.array([0.5 * table.length, 0.5 * table.width])
+    pts = [centre]
+    while len(pts) < n:  # each new ball touches a random earlier one
+        base = pts[int(rng.integers(0, len(pts)))]
+        ang = rng.uniform(0.0, 2.0 * math.pi)
+        p = base + (2.0 * R + float(rng.choice([0.0, 0.0, 1e-6]))) * np.array(
+            [math.cos(ang), math.sin(ang)])
+        if all(np.hypot(*(p - q)) >= 2.0 * R - 1e-12 for q in pts):
+            pts.append(p)
+    ang = rng.uniform(0.0, 2.0 * math.pi)
+    cue = centre + rng.uniform(0.1, 0.6) * np.array([math.cos(ang), math.sin(ang)])
+    if any(np.hypot(*(cue - q)) < 2.0 * R + 1e-3 for q in pts):
+        cue = centre + 0.8 * np.array([math.cos(ang), math.sin(ang)])
+    return np.array([cue, *pts])
+
+
+def shots(count: int, seed: int, pkg: ModuleType = shotplan,  # type: ignore[no-untyped-def]
+          clusters: bool = False):
     """(simulator, positions, cue index, stroke) for ``count`` seeded shots,
-    built by the package ``pkg`` (``shotplan`` or an older copy of it)."""
+    built by the package ``pkg`` (``shotplan`` or an older copy of it); with
+    ``clusters``, every shot is a slow or medium stroke into touching balls
+    (pushes, rolling balls catching up with the ball ahead)."""
     def sub(name: str):  # type: ignore[no-untyped-def]
         return importlib.import_module(f"{pkg.__name__}.{name}")
 
@@ -64,7 +87,13 @@ def shots(count: int, seed: int, pkg: ModuleType = shotplan):  # type: ignore[no
         name = ("pool-9ft", "pool-7ft", "snooker")[k % 3]
         sim = sims[name]
         table = sim.table
-        if k % 4 == 0 and name != "snooker":
+        if clusters:
+            pos = _cluster(rng, table, table.ball_radius)
+            d = pos[int(rng.integers(1, len(pos)))] - pos[0]
+            direction = math.degrees(math.atan2(d[1], d[0])) + rng.normal(0.0, 2.0)
+            stroke = Stroke(direction, rng.uniform(0.1, 3.0), rng.uniform(-0.3, 0.3),
+                            rng.uniform(-0.4, 0.4))
+        elif k % 4 == 0 and name != "snooker":
             balls = rack(("9-ball", "8-ball")[(k // 4) % 2], table.spec,
                          gap_m=float(rng.choice([0.0, 0.0, 2e-4])))
             pos = np.array(list(balls.values()), dtype=float)
@@ -97,13 +126,13 @@ def shots(count: int, seed: int, pkg: ModuleType = shotplan):  # type: ignore[no
     return out
 
 
-def play(count: int, seed: int, pkg: ModuleType = shotplan
+def play(count: int, seed: int, pkg: ModuleType = shotplan, clusters: bool = False
          ) -> tuple[dict[str, np.ndarray], float, int]:
     """Every array of every run, keyed ``<shot>_<field>``; seconds; events."""
     arrays: dict[str, np.ndarray] = {}
     total = 0.0
     events = 0
-    for k, (sim, pos, cue, stroke) in enumerate(shots(count, seed, pkg)):
+    for k, (sim, pos, cue, stroke) in enumerate(shots(count, seed, pkg, clusters)):
         ln = sim.launch(stroke)
         t0 = time.perf_counter()
         run = sim.run_raw(pos, cue, ln.velocity, ln.spin)
@@ -121,9 +150,11 @@ def main() -> int:
     ap.add_argument("--count", type=int, default=300)
     ap.add_argument("--seed", type=int, default=15)
     ap.add_argument("--against", help="compare with the engine of this commit, played here")
+    ap.add_argument("--clusters", action="store_true",
+                    help="strokes into touching balls only (pushes, catch-ups)")
     args = ap.parse_args()
     play(3, args.seed)  # compile or load the kernels outside the timing
-    arrays, secs, events = play(args.count, args.seed)
+    arrays, secs, events = play(args.count, args.seed, shotplan, args.clusters)
     print(f"{args.count} shots, {events} events, {secs:.3f} s in run_raw")
     if args.save:
         np.savez(args.save, **arrays)
@@ -139,7 +170,7 @@ def main() -> int:
             if old is None:
                 return 1
             play(3, args.seed, old)  # compile or load its kernels
-            ref, secs_old, _ = play(args.count, args.seed, old)
+            ref, secs_old, _ = play(args.count, args.seed, old, args.clusters)
             print(f"{args.against} ({sha[:12]}): {secs_old:.3f} s in run_raw")
         else:
             ref = dict(np.load(args.compare))

@@ -30,7 +30,7 @@ from shotplan.equipment import TableSpec
 from shotplan.physics import Physics, Simulator
 from shotplan.physics.events import path_span
 from shotplan.physics.roots import SCRATCH_LEN, first_down_crossing, real_roots
-from shotplan.physics.state import EV_COLLISION, EV_CUSHION, P_G, P_MU_R, P_R, P_REFF
+from shotplan.physics.state import EV_COLLISION, EV_CUSHION, EV_POCKET, P_G, P_MU_R, P_R, P_REFF
 from shotplan.table import Table
 
 
@@ -131,3 +131,15 @@ def test_rail_reached_just_before_the_ball_stops(sim: Simulator) -> None:
     run = _roll(sim, [(0.6, 0.9)], (0.0, -v))
     assert run.event_kind[0] == EV_CUSHION
     assert run.event_t[0] == pytest.approx(_rolling_time(v, d, sim.prm), rel=1e-9)
+
+
+def test_ball_already_past_a_drop_line_falls_at_once(sim: Simulator) -> None:
+    """A ball whose centre is 1 mm past a side pocket's drop line, moving
+    on into the pocket, falls now (t = 0): the box test, which expects a
+    drop on the line, must not apply to a ball already past it."""
+    k = int(np.flatnonzero(sim.drops[:, 5] == 1.0)[0])  # the side pocket at the bottom rail
+    x0, y0, x1, _ = sim.drops[k, :4]
+    run = _roll(sim, [(0.5 * (x0 + x1), y0 - 1e-3)], (0.0, -0.3))
+    assert run.event_kind[0] == EV_POCKET
+    assert run.event_t[0] == 0.0
+    assert run.pocket_of(0) == int(sim.drops[k, 6])

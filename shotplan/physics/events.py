@@ -255,10 +255,11 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             bx0, bx1 = path_span(x, vx, ax, box_t)
             by0, by1 = path_span(y, vy, ay, box_t)
         # A face contact or the corner at its far end: the centre within reff
-        # of the segment.
+        # of the segment. (Not so for a ball already at or past the contact
+        # distance, dist <= 0: its contact may come where it is deeper.)
         g = reff + BOX_MARGIN_M
-        if (bx1 < min(x0, x1) - g or bx0 > max(x0, x1) + g
-                or by1 < min(y0, y1) - g or by0 > max(y0, y1) + g):
+        if dist > 0.0 and (bx1 < min(x0, x1) - g or bx0 > max(x0, x1) + g
+                           or by1 < min(y0, y1) - g or by0 > max(y0, y1) + g):
             continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
@@ -335,14 +336,15 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             box_t = best
             bx0, bx1 = path_span(x, vx, ax, box_t)
             by0, by1 = path_span(y, vy, ay, box_t)
-        # A drop puts the centre on the line within the ends grown by 5 %.
+        # A drop from in front of the line puts the centre on it, within its
+        # ends grown by 5 % (a ball already past it may drop where it is).
         ex0 = x0 - 0.05 * dx
         ex1 = x1 + 0.05 * dx
         ey0 = y0 - 0.05 * dy
         ey1 = y1 + 0.05 * dy
         g = BOX_MARGIN_M
-        if (bx1 < min(ex0, ex1) - g or bx0 > max(ex0, ex1) + g
-                or by1 < min(ey0, ey1) - g or by0 > max(ey0, ey1) + g):
+        if dist > 0.0 and (bx1 < min(ex0, ex1) - g or bx0 > max(ex0, ex1) + g
+                           or by1 < min(ey0, ey1) - g or by0 > max(ey0, ey1) + g):
             continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
