@@ -28,9 +28,19 @@ import pytest
 
 from shotplan.equipment import TableSpec
 from shotplan.physics import Physics, Simulator
+from shotplan.physics.engine import run_events
 from shotplan.physics.events import path_span
 from shotplan.physics.roots import SCRATCH_LEN, first_down_crossing, real_roots
-from shotplan.physics.state import EV_COLLISION, EV_CUSHION, EV_POCKET, P_G, P_MU_R, P_R, P_REFF
+from shotplan.physics.state import (
+    EV_COLLISION,
+    EV_CUSHION,
+    EV_POCKET,
+    P_G,
+    P_MU_R,
+    P_MU_S,
+    P_R,
+    P_REFF,
+)
 from shotplan.table import Table
 
 
@@ -143,3 +153,33 @@ def test_ball_already_past_a_drop_line_falls_at_once(sim: Simulator) -> None:
     assert run.event_kind[0] == EV_POCKET
     assert run.event_t[0] == 0.0
     assert run.pocket_of(0) == int(sim.drops[k, 6])
+
+
+def test_pair_moving_apart_then_back_together(sim: Simulator) -> None:
+    """Ball B rolls away from ball A at 0.2 m/s; A, still but with strong
+    backspin, slides after it at mu_s g. They first separate, then A catches
+    B, before either changes state: the contact comes where the gap
+    ``1 mm + 0.2 t - (mu_s + mu_r) g t^2 / 2`` (both motions uniformly
+    accelerated along one line) is zero, its positive root by numpy.roots."""
+    prm = sim.prm
+    R = prm[P_R]
+    pos = np.array([[1.27, 0.635], [1.27 - 2.0 * R - 1e-3, 0.635]])
+    vel = np.array([[0.0, 0.0], [-0.2, 0.0]])
+    om = np.array([[0.0, -80.0, 0.0], [0.0, -0.2 / R, 0.0]])  # B rolls (w_y = v_x / R)
+    max_ev = 50
+    i8 = np.int64
+    bufs = (np.zeros(max_ev), *(np.zeros(max_ev, dtype=i8) for _ in range(6)),
+            np.zeros(2 * max_ev + 2), np.zeros(2 * max_ev + 2, dtype=i8),
+            np.zeros(2 * max_ev + 2, dtype=i8), np.zeros((2 * max_ev + 2, 2)),
+            np.zeros((2 * max_ev + 2, 2)), np.zeros((2 * max_ev + 2, 3)))
+    n_ev, _, _ = run_events(pos, vel, om, np.zeros(2, dtype=i8), prm, sim.lines, sim.circles,
+                            sim.drops, max_ev, *bufs)
+    assert n_ev >= 1
+    ev_t, ev_kind = bufs[0], bufs[1]
+    k = 0.5 * (prm[P_MU_S] + prm[P_MU_R]) * prm[P_G]
+    roots = np.roots([-k, 0.2, 1e-3])
+    expected = float(roots[roots > 0][0])
+    slide_ends = 2.0 * R * 80.0 / (7.0 * prm[P_MU_S] * prm[P_G])  # A's slip R w / (7/2 mu_s g)
+    assert expected < slide_ends  # the case is as described: contact while A still slides
+    assert ev_kind[0] == EV_COLLISION
+    assert ev_t[0] == pytest.approx(expected, rel=1e-9)

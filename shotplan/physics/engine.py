@@ -185,8 +185,9 @@ def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ign
     a new time. So when the boxes the two centres stay in until their own
     events (:func:`_refresh_ball`) are more than 2R apart, or the box of
     their relative path until the first of those events is (ends and vertex
-    per coordinate), the pair gets ``inf`` without its polynomial: the run is
-    the same bit for bit.
+    per coordinate), or they move apart all that time
+    (:func:`_moving_apart`), the pair gets ``inf`` without its polynomial:
+    the run is the same bit for bit.
     """
     n = pos.shape[0]
     g = 2.0 * prm[P_R] + PAIR_BOX_SLACK_M
@@ -210,11 +211,17 @@ def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ign
                 or box[i, 3] + g < box[k, 2] or box[k, 3] + g < box[i, 2]):
             uk = t - tref[k]
             span = min(own_t[i], own_t[k]) - t
-            lo, hi = path_span(mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi,
-                               mot[k, 2] + mot[k, 4] * uk - vxi, mot[k, 4] - mot[i, 4], span)
-            lo2, hi2 = path_span(mot[k, 1] + mot[k, 3] * uk + 0.5 * mot[k, 5] * uk * uk - yi,
-                                 mot[k, 3] + mot[k, 5] * uk - vyi, mot[k, 5] - mot[i, 5], span)
-            if not (lo > g or hi < -g or lo2 > g or hi2 < -g):
+            # j's centre seen from i's: position, velocity, acceleration.
+            rx = mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi
+            ry = mot[k, 1] + mot[k, 3] * uk + 0.5 * mot[k, 5] * uk * uk - yi
+            wx = mot[k, 2] + mot[k, 4] * uk - vxi
+            wy = mot[k, 3] + mot[k, 5] * uk - vyi
+            ax = mot[k, 4] - mot[i, 4]
+            ay = mot[k, 5] - mot[i, 5]
+            lo, hi = path_span(rx, wx, ax, span)
+            lo2, hi2 = path_span(ry, wy, ay, span)
+            if not (lo > g or hi < -g or lo2 > g or hi2 < -g
+                    or _moving_apart(rx, ry, wx, wy, ax, ay, span + APART_PAST_S)):
                 ha = trans_t[a] if (st[a] == SLIDING or st[a] == ROLLING) else math.inf
                 hb = trans_t[b] if (st[b] == SLIDING or st[b] == ROLLING) else math.inf
                 horizon = min(ha, hb) - t
@@ -228,6 +235,47 @@ def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ign
             elif row_j[k] == i and val > row_t[k]:
                 _row_min(k, pair_t, row_t, row_j)
     _row_min(i, pair_t, row_t, row_j)
+
+
+APART_PAST_S = 1e-6
+"""How far past the first own event of a pair (s) :func:`_moving_apart` must
+hold: far above the error of a contact time the polynomial could find just
+after it (about 1e-8 s for a grazing return), so that a pair it skips has no
+contact the polynomial would put before that event."""
+
+
+@jit
+def _moving_apart(rx, ry, wx, wy, ax, ay, U):  # type: ignore[no-untyped-def]
+    """Whether a relative path ``r(u) = r + w u + a u^2 / 2`` moves away from
+    the origin all through ``[0, U]``: ``r . r'`` (half the rate of change of
+    ``|r|^2``, a cubic in ``u``) stays above a margin of 1e-9 of its terms'
+    size at its lowest, found at the ends and the cubic's turning points. Two
+    balls moving apart (as just after an impact, or two balls of a rack a
+    ball has left) then cannot touch in ``[0, U]``."""
+    a0 = rx * wx + ry * wy
+    a1 = wx * wx + wy * wy + rx * ax + ry * ay
+    a2 = 1.5 * (wx * ax + wy * ay)
+    a3 = 0.5 * (ax * ax + ay * ay)
+    r = math.hypot(rx, ry)
+    w = math.hypot(wx, wy)
+    acc = math.hypot(ax, ay)
+    tol = 1e-9 * (r * w + (w * w + r * acc) * U + 1.5 * w * acc * U * U + a3 * U * U * U)
+    if not a0 > tol:
+        return False
+    low = a0 + U * (a1 + U * (a2 + U * a3))
+    # Turning points of the cubic: a1 + 2 a2 u + 3 a3 u^2 = 0.
+    if a3 > 0.0:
+        disc = a2 * a2 - 3.0 * a3 * a1
+        if disc >= 0.0:
+            sq = math.sqrt(disc)
+            for u in ((-a2 - sq) / (3.0 * a3), (-a2 + sq) / (3.0 * a3)):
+                if 0.0 < u < U:
+                    low = min(low, a0 + u * (a1 + u * (a2 + u * a3)))
+    elif a2 != 0.0:
+        u = -a1 / (2.0 * a2)
+        if 0.0 < u < U:
+            low = min(low, a0 + u * (a1 + u * a2))
+    return low > tol
 
 
 @jit
