@@ -183,3 +183,32 @@ def test_pair_moving_apart_then_back_together(sim: Simulator) -> None:
     assert expected < slide_ends  # the case is as described: contact while A still slides
     assert ev_kind[0] == EV_COLLISION
     assert ev_t[0] == pytest.approx(expected, rel=1e-9)
+
+
+def test_path_near_never_misses_a_point_the_path_comes_near() -> None:
+    """``events._path_near`` may only answer False for a point the path stays
+    farther from than r: checked against the least distance over a dense
+    grid of the path (numpy), for curved (sliding) paths and for straight
+    rolling ones (acceleration against the velocity, up to the stop)."""
+    from shotplan.physics.events import _path_near
+
+    rng = np.random.default_rng(21)
+    for trial in range(2000):
+        x, y = rng.uniform(0.0, 2.0, 2)
+        vx, vy = rng.normal(0.0, 2.0, 2)
+        straight = trial % 2 == 0
+        if straight:
+            k = rng.uniform(0.05, 0.5)
+            speed = math.hypot(vx, vy)
+            ax, ay = -k * vx / speed, -k * vy / speed
+            T = float(rng.uniform(0.0, speed / k))
+        else:
+            ax, ay = rng.normal(0.0, 3.0, 2)
+            T = float(rng.uniform(0.0, 1.0))
+        cx, cy = rng.uniform(-0.5, 2.5, 2)
+        r = float(rng.uniform(0.0, 0.1))
+        t = np.linspace(0.0, T, 4001)
+        px = x + vx * t + 0.5 * ax * t * t
+        py = y + vy * t + 0.5 * ay * t * t
+        if np.hypot(px - cx, py - cy).min() <= r:
+            assert _path_near(x, y, vx, vy, ax, ay, T, straight, cx, cy, r + 1e-9)

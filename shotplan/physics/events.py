@@ -89,6 +89,26 @@ def path_span(x, v, a, T):  # type: ignore[no-untyped-def]
 
 
 @jit
+def _path_near(x, y, vx, vy, ax, ay, T, straight, cx, cy, r):  # type: ignore[no-untyped-def]
+    """Whether the path ``(x, y) + v t + a t^2 / 2`` may come within ``r`` of
+    ``(cx, cy)`` for t in ``[0, T]``: the distance to its chord (the segment
+    from its start to its end), less the most the path strays from the
+    chord (``|a| T^2 / 8``, at mid-time; nothing for a ``straight`` path,
+    a rolling ball's, which runs along its chord without turning back),
+    against ``r``. A diagonal path's box holds much that is far from it."""
+    ex = vx * T + 0.5 * ax * T * T
+    ey = vy * T + 0.5 * ay * T * T
+    L2 = ex * ex + ey * ey
+    s = 0.0
+    if L2 > 0.0:
+        s = min(max(((cx - x) * ex + (cy - y) * ey) / L2, 0.0), 1.0)
+    d = math.hypot(x + s * ex - cx, y + s * ey - cy)
+    if not straight:
+        d -= 0.125 * math.hypot(ax, ay) * T * T
+    return d <= r
+
+
+@jit
 def _circle_quartic(c, qx, qy, vx, vy, bx, by, rr):  # type: ignore[no-untyped-def]
     """Fill c with |q + v t + b t^2|^2 - rr^2: a point moving on a parabola
     against a circle of radius rr (ball-ball, jaw tip, jaw corner)."""
@@ -284,7 +304,8 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             # meets the corner itself: a circle of radius 0 there.
             qx = x - x1
             qy = y - y1
-            if math.hypot(qx, qy) - reff <= reach:
+            if math.hypot(qx, qy) - reff <= reach and _path_near(
+                    x, y, vx, vy, ax, ay, best, s == ROLLING, x1, y1, reff + BOX_MARGIN_M):
                 _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, reff)
                 t = first_down_crossing(c, 4, best, buf)
                 if t < best:
@@ -308,7 +329,8 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             bx0, bx1 = path_span(x, vx, ax, box_t)
             by0, by1 = path_span(y, vy, ay, box_t)
         g = rr + BOX_MARGIN_M
-        if bx1 < cx - g or bx0 > cx + g or by1 < cy - g or by0 > cy + g:
+        if (bx1 < cx - g or bx0 > cx + g or by1 < cy - g or by0 > cy + g
+                or not _path_near(x, y, vx, vy, ax, ay, best, s == ROLLING, cx, cy, g)):
             continue
         _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, rr)
         t = first_down_crossing(c, 4, best, buf)
