@@ -281,6 +281,14 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         if dist > 0.0 and (bx1 < min(x0, x1) - g or bx0 > max(x0, x1) + g
                            or by1 < min(y0, y1) - g or by0 > max(y0, y1) + g):
             continue
+        # Either way the contact is along the segment (0 to L) or at the
+        # corner beyond its end (L to L + reff): the path's reach along it.
+        dx, dy = x1 - x0, y1 - y0
+        L = math.sqrt(dx * dx + dy * dy)
+        lo, hi = path_span(((x - x0) * dx + (y - y0) * dy) / L, (vx * dx + vy * dy) / L,
+                           (ax * dx + ay * dy) / L, best)
+        if hi < -BOX_MARGIN_M or lo > L + g:
+            continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
         c[2] = 0.5 * (ax * nx + ay * ny)
@@ -367,6 +375,10 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         g = BOX_MARGIN_M
         if dist > 0.0 and (bx1 < min(ex0, ex1) - g or bx0 > max(ex0, ex1) + g
                            or by1 < min(ey0, ey1) - g or by0 > max(ey0, ey1) + g):
+            continue
+        # Either way the drop is within the grown ends along the line.
+        lo, hi = path_span(along, (vx * dx + vy * dy) / L, (ax * dx + ay * dy) / L, best)
+        if hi < -0.05 * L - g or lo > 1.05 * L + g:
             continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
