@@ -49,27 +49,27 @@ BREAK_SPEED_MPS = 8.0
 """A firm break (from memory: club players break at 7-9 m/s)."""
 
 
-def before_package() -> ModuleType | None:
-    """``shotplan`` as it was at :data:`BEFORE_COMMIT`, imported as
-    ``shotplan_before``; None (with a line) when git or the commit is missing."""
+def before_package(commit: str = BEFORE_COMMIT, name: str = BEFORE_NAME) -> ModuleType | None:
+    """``shotplan`` as it was at ``commit``, imported as ``name``; None (with
+    a line) when git or the commit is missing."""
     base = pathlib.Path(os.environ.get("XDG_CACHE_HOME") or pathlib.Path.home() / ".cache")
-    home = base / "shotplan" / "bench_before" / BEFORE_COMMIT[:12]
-    if not (home / BEFORE_NAME / "__init__.py").exists():
+    home = base / "shotplan" / "bench_before" / commit[:12]
+    if not (home / name / "__init__.py").exists():
         try:
             with tempfile.TemporaryDirectory() as tmp:
                 archive = subprocess.run(
-                    ["git", "-C", str(ROOT), "archive", BEFORE_COMMIT, "shotplan"],
+                    ["git", "-C", str(ROOT), "archive", commit, "shotplan"],
                     check=True, capture_output=True).stdout
                 subprocess.run(["tar", "-x", "-C", tmp], input=archive, check=True)
                 home.mkdir(parents=True, exist_ok=True)
-                shutil.rmtree(home / BEFORE_NAME, ignore_errors=True)
-                shutil.move(str(pathlib.Path(tmp) / "shotplan"), str(home / BEFORE_NAME))
+                shutil.rmtree(home / name, ignore_errors=True)
+                shutil.move(str(pathlib.Path(tmp) / "shotplan"), str(home / name))
         except (OSError, subprocess.CalledProcessError) as exc:
-            print(f"  (no 'before' engine: cannot take commit {BEFORE_COMMIT[:12]} out of git: "
+            print(f"  (no 'before' engine: cannot take commit {commit[:12]} out of git: "
                   f"{exc})")
             return None
     sys.path.insert(0, str(home))
-    return importlib.import_module(BEFORE_NAME)
+    return importlib.import_module(name)
 
 
 def _sub(pkg: ModuleType, name: str) -> Any:

@@ -19,9 +19,10 @@ import math
 import numpy as np
 
 from .collide import ball_ball, ball_cushion
-from .events import own_event, pair_contact_time
+from .events import own_event, pair_contact_time, path_span
 from .jit import jit
 from .motion import advance, classify, linear_accel
+from .roots import SCRATCH_LEN
 from .state import (
     EV_COLLISION,
     EV_CUSHION,
@@ -246,9 +247,27 @@ def _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball,  # type: ignore[no-
     return n_seg + 1
 
 
+PAIR_BOX_SLACK_M = 1e-3
+"""Slack (m) added to the contact distance 2R in the box tests of
+:func:`_refresh_pairs`: far above the rounding of positions and of the contact
+polynomial (about 1e-12 m on a table), so that the test only skips pairs the
+polynomial would find apart, and room for a contact law that starts a little
+before the centres are 2R apart."""
+
+
 @jit
 def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-untyped-def]
-                  circles, drops, buf, own_t, own_kind, own_elem, trans_t):
+                  circles, drops, buf, own_t, own_kind, own_elem, trans_t, box, mot):
+    """Ball ``i``'s next event of its own and next change of state; ``t`` must
+    be its reference time. For the pair tests of :func:`_refresh_pairs`, also
+    the box its centre stays in until that event (``box[i]``: x low, x high,
+    y low, y high) and its motion (``mot[i]``: position, velocity and
+    acceleration at ``t``, x and y each; zero velocity and acceleration for a
+    ball that does not move)."""
+    x, y = pos[i, 0], pos[i, 1]
+    box[i, 0] = box[i, 1] = mot[i, 0] = x
+    box[i, 2] = box[i, 3] = mot[i, 1] = y
+    mot[i, 2] = mot[i, 3] = mot[i, 4] = mot[i, 5] = 0.0
     if st[i] == POCKETED:
         own_t[i] = math.inf
         own_kind[i] = 0
@@ -260,24 +279,134 @@ def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-u
     own_kind[i] = kind
     own_elem[i] = elem
     trans_t[i] = tt
+    s = st[i]
+    if s == SLIDING or s == ROLLING:
+        ax, ay = linear_accel(s, vel[i, 0], vel[i, 1], om[i, 0], om[i, 1], prm)
+        box[i, 0], box[i, 1] = path_span(x, vel[i, 0], ax, te - t)
+        box[i, 2], box[i, 3] = path_span(y, vel[i, 1], ay, te - t)
+        mot[i, 2] = vel[i, 0]
+        mot[i, 3] = vel[i, 1]
+        mot[i, 4] = ax
+        mot[i, 5] = ay
 
 
 @jit
-def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  # type: ignore[no-untyped-def]
-    a = min(i, j)
-    b = max(i, j)
-    if st[a] == POCKETED or st[b] == POCKETED:
-        pair_t[a, b] = math.inf
-        return
-    ma = st[a] == SLIDING or st[a] == ROLLING
-    mb = st[b] == SLIDING or st[b] == ROLLING
-    if not (ma or mb):
-        pair_t[a, b] = math.inf
-        return
-    ha = trans_t[a] if ma else math.inf
-    hb = trans_t[b] if mb else math.inf
-    horizon = min(ha, hb) - t
-    pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
+def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ignore[no-untyped-def]  # noqa: C901, E501
+                   buf, trans_t, pair_t, own_t, box, mot, row_t, row_j):
+    """The next contact of ball ``i`` with every ball ``k >= k_from`` but
+    ``skip`` into ``pair_t`` (one call for all of a ball's pairs: a call per
+    pair cost more than most pairs' work).
+
+    A contact at or after either ball's next event of its own is never used:
+    that event comes first (ties go to a ball's own event) and gives the pair
+    a new time. So when the boxes the two centres stay in until their own
+    events (:func:`_refresh_ball`) are more than 2R apart, or the box of
+    their relative path until the first of those events is (ends and vertex
+    per coordinate), or they move apart all that time
+    (:func:`_moving_apart`), the pair gets ``inf`` without its polynomial:
+    the run is the same bit for bit.
+    """
+    n = pos.shape[0]
+    g = 2.0 * prm[P_R] + PAIR_BOX_SLACK_M
+    si = st[i]
+    mi = si == SLIDING or si == ROLLING
+    ui = t - tref[i]
+    xi = mot[i, 0] + mot[i, 2] * ui + 0.5 * mot[i, 4] * ui * ui
+    yi = mot[i, 1] + mot[i, 3] * ui + 0.5 * mot[i, 5] * ui * ui
+    vxi = mot[i, 2] + mot[i, 4] * ui
+    vyi = mot[i, 3] + mot[i, 5] * ui
+    for k in range(k_from, n):
+        if k == i or k == skip:
+            continue
+        a = min(i, k)
+        b = max(i, k)
+        sk = st[k]
+        mk = sk == SLIDING or sk == ROLLING
+        val = math.inf
+        if not (si == POCKETED or sk == POCKETED or not (mi or mk)
+                or box[i, 1] + g < box[k, 0] or box[k, 1] + g < box[i, 0]
+                or box[i, 3] + g < box[k, 2] or box[k, 3] + g < box[i, 2]):
+            uk = t - tref[k]
+            span = min(own_t[i], own_t[k]) - t
+            # j's centre seen from i's: position, velocity, acceleration.
+            rx = mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi
+            ry = mot[k, 1] + mot[k, 3] * uk + 0.5 * mot[k, 5] * uk * uk - yi
+            wx = mot[k, 2] + mot[k, 4] * uk - vxi
+            wy = mot[k, 3] + mot[k, 5] * uk - vyi
+            ax = mot[k, 4] - mot[i, 4]
+            ay = mot[k, 5] - mot[i, 5]
+            lo, hi = path_span(rx, wx, ax, span)
+            lo2, hi2 = path_span(ry, wy, ay, span)
+            if not (lo > g or hi < -g or lo2 > g or hi2 < -g
+                    or _moving_apart(rx, ry, wx, wy, ax, ay, span + APART_PAST_S)):
+                ha = trans_t[a] if (st[a] == SLIDING or st[a] == ROLLING) else math.inf
+                hb = trans_t[b] if (st[b] == SLIDING or st[b] == ROLLING) else math.inf
+                horizon = min(ha, hb) - t
+                val = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
+        pair_t[a, b] = val
+        if k < i:
+            # Row k's earliest pair, its entry i changed.
+            if val < row_t[k] or (val == row_t[k] and i < row_j[k]):
+                row_t[k] = val
+                row_j[k] = i
+            elif row_j[k] == i and val > row_t[k]:
+                _row_min(k, pair_t, row_t, row_j)
+    _row_min(i, pair_t, row_t, row_j)
+
+
+APART_PAST_S = 1e-6
+"""How far past the first own event of a pair (s) :func:`_moving_apart` must
+hold: far above the error of a contact time the polynomial could find just
+after it (about 1e-8 s for a grazing return), so that a pair it skips has no
+contact the polynomial would put before that event."""
+
+
+@jit
+def _moving_apart(rx, ry, wx, wy, ax, ay, U):  # type: ignore[no-untyped-def]
+    """Whether a relative path ``r(u) = r + w u + a u^2 / 2`` moves away from
+    the origin all through ``[0, U]``: ``r . r'`` (half the rate of change of
+    ``|r|^2``, a cubic in ``u``) stays above a margin of 1e-9 of its terms'
+    size at its lowest, found at the ends and the cubic's turning points. Two
+    balls moving apart (as just after an impact, or two balls of a rack a
+    ball has left) then cannot touch in ``[0, U]``."""
+    a0 = rx * wx + ry * wy
+    a1 = wx * wx + wy * wy + rx * ax + ry * ay
+    a2 = 1.5 * (wx * ax + wy * ay)
+    a3 = 0.5 * (ax * ax + ay * ay)
+    r = math.hypot(rx, ry)
+    w = math.hypot(wx, wy)
+    acc = math.hypot(ax, ay)
+    tol = 1e-9 * (r * w + (w * w + r * acc) * U + 1.5 * w * acc * U * U + a3 * U * U * U)
+    if not a0 > tol:
+        return False
+    low = a0 + U * (a1 + U * (a2 + U * a3))
+    # Turning points of the cubic: a1 + 2 a2 u + 3 a3 u^2 = 0.
+    if a3 > 0.0:
+        disc = a2 * a2 - 3.0 * a3 * a1
+        if disc >= 0.0:
+            sq = math.sqrt(disc)
+            for u in ((-a2 - sq) / (3.0 * a3), (-a2 + sq) / (3.0 * a3)):
+                if 0.0 < u < U:
+                    low = min(low, a0 + u * (a1 + u * (a2 + u * a3)))
+    elif a2 != 0.0:
+        u = -a1 / (2.0 * a2)
+        if 0.0 < u < U:
+            low = min(low, a0 + u * (a1 + u * a2))
+    return low > tol
+
+
+@jit
+def _row_min(i, pair_t, row_t, row_j):  # type: ignore[no-untyped-def]
+    """Row ``i``'s earliest pair time (``pair_t[i, j]``, ``j > i``) into
+    ``row_t[i]`` and its first ``j`` into ``row_j[i]`` (-1 if all are inf)."""
+    best = math.inf
+    jb = -1
+    for j in range(i + 1, pair_t.shape[0]):
+        if pair_t[i, j] < best:
+            best = pair_t[i, j]
+            jb = j
+    row_t[i] = best
+    row_j[i] = jb
 
 
 # noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
@@ -322,8 +451,12 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     own_kind = np.zeros(n, dtype=np.int64)
     own_elem = np.full(n, -1, dtype=np.int64)
     trans_t = np.full(n, math.inf)
+    box = np.zeros((n, 4))
+    mot = np.zeros((n, 6))
     pair_t = np.full((n, n), math.inf)
-    buf = np.zeros(8)
+    row_t = np.full(n, math.inf)
+    row_j = np.full(n, -1, dtype=np.int64)
+    buf = np.zeros(SCRATCH_LEN)
     n_seg = 0
     for i in range(n):
         classify(i, vel, om, st, prm)
@@ -331,10 +464,10 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                                 seg_vel, seg_om, n_seg)
     for i in range(n):
         _refresh_ball(i, 0.0, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                      own_t, own_kind, own_elem, trans_t)
+                      own_t, own_kind, own_elem, trans_t, box, mot)
     for i in range(n):
-        for j in range(i + 1, n):
-            _refresh_pair(i, j, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+        _refresh_pairs(i, -1, i + 1, 0.0, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                       own_t, box, mot, row_t, row_j)
 
     e_b = prm[P_E_B]
     mu_b = prm[P_MU_B]
@@ -353,11 +486,10 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
                 a = i
                 b = -1
         for i in range(n):
-            for j in range(i + 1, n):
-                if pair_t[i, j] < t_best:
-                    t_best = pair_t[i, j]
-                    a = i
-                    b = j
+            if row_t[i] < t_best:
+                t_best = row_t[i]
+                a = i
+                b = row_j[i]
         if a < 0 or math.isinf(t_best):
             break
         if n_ev >= max_events:
@@ -451,14 +583,14 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
         n_ev += 1
         # New times for the changed balls and their pairs
         _refresh_ball(a, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                      own_t, own_kind, own_elem, trans_t)
+                      own_t, own_kind, own_elem, trans_t, box, mot)
         if b >= 0:
             _refresh_ball(b, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
-                          own_t, own_kind, own_elem, trans_t)
-        for k in range(n):
-            if k != a:
-                _refresh_pair(a, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
-            if b >= 0 and k != b and k != a:
-                _refresh_pair(b, k, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t)
+                          own_t, own_kind, own_elem, trans_t, box, mot)
+        _refresh_pairs(a, -1, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t, own_t,
+                       box, mot, row_t, row_j)
+        if b >= 0:
+            _refresh_pairs(b, a, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                           own_t, box, mot, row_t, row_j)
     # Bring every ball to its final state at the end time.
     return n_ev, n_seg, status

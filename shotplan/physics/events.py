@@ -14,7 +14,10 @@ Between events every ball moves on ``r(t) = r0 + v0 t + a t^2 / 2``, so
 Each search runs on ``[0, horizon]``, the horizon being the next change of
 state of the ball(s) (past it the quadratic no longer describes the motion).
 A cheap bound on the distance a ball can travel in the horizon skips the
-polynomial for anything out of reach.
+polynomial for anything out of reach; then a box test (the box the path stays
+in until the earliest event found so far, against the element's box) skips
+the elements the ball cannot meet first, such as the jaw tips of pockets it
+rolls past: most of a shot's polynomials, measured.
 """
 
 from __future__ import annotations
@@ -25,7 +28,7 @@ import numpy as np
 
 from .jit import jit
 from .motion import linear_accel, state_at
-from .roots import first_down_crossing, poly_eval, real_roots
+from .roots import coef_room, first_down_crossing, poly_eval, real_roots
 from .state import (
     EV_CUSHION,
     EV_JAW,
@@ -40,13 +43,71 @@ from .state import (
     SPINNING,
 )
 
-__all__ = ["pair_contact_time", "own_event"]
+__all__ = ["pair_contact_time", "own_event", "path_span", "BOX_MARGIN_M"]
 
 
 @jit
 def _reach(vx, vy, ax, ay, h):  # type: ignore[no-untyped-def]
     """Upper bound on the distance travelled in time h."""
     return math.hypot(vx, vy) * h + 0.5 * math.hypot(ax, ay) * h * h
+
+
+BOX_MARGIN_M = 1e-7
+"""Slack (m) added to every box test of :func:`own_event`. A box test only
+skips a polynomial whose first root would be rejected anyway; this margin,
+far above the rounding of positions and of the polynomials' values (about
+1e-12 m on a table), keeps a contact grazed within rounding from being
+skipped where the polynomial would have reported it, so results stay the
+same bit for bit."""
+
+
+@jit
+def path_span(x, v, a, T):  # type: ignore[no-untyped-def]
+    """(lowest, highest) of ``x + v t + a t^2 / 2`` over ``[0, T]``: its ends
+    and, if inside, its vertex.
+
+    Parameters
+    ----------
+    x, v, a : float
+        Position (m), velocity (m/s) and acceleration (m/s^2) along one axis at t = 0.
+    T : float
+        The end of the interval, s (>= 0).
+
+    Returns
+    -------
+    tuple of float
+        The lowest and the highest position, m.
+    """
+    xT = x + v * T + 0.5 * a * T * T
+    lo = min(x, xT)
+    hi = max(x, xT)
+    if a != 0.0:
+        tv = -v / a
+        if 0.0 < tv < T:
+            xv = x + v * tv + 0.5 * a * tv * tv
+            lo = min(lo, xv)
+            hi = max(hi, xv)
+    return lo, hi
+
+
+@jit
+def _path_near(x, y, vx, vy, ax, ay, T, straight, cx, cy, r):  # type: ignore[no-untyped-def]
+    """Whether the path ``(x, y) + v t + a t^2 / 2`` may come within ``r`` of
+    ``(cx, cy)`` for t in ``[0, T]``: the distance to its chord (the segment
+    from its start to its end), less the most the path strays from the
+    chord (``|a| T^2 / 8``, at mid-time; nothing for a ``straight`` path,
+    a rolling ball's, which runs along its chord without turning back),
+    against ``r``. A diagonal path's box holds much that is far from it."""
+    ex = vx * T + 0.5 * ax * T * T
+    ey = vy * T + 0.5 * ay * T * T
+    L2 = ex * ex + ey * ey
+    s = 0.0
+    if L2 > 0.0:
+        s = min(max(((cx - x) * ex + (cy - y) * ey) / L2, 0.0), 1.0)
+    d = math.hypot(x + s * ex - cx, y + s * ey - cy)
+    if not straight:
+        d -= 0.125 * math.hypot(ax, ay) * T * T
+    return d <= r
 
 
 @jit
@@ -117,7 +178,7 @@ def pair_contact_time(i, j, t_now, horizon, pos, vel, om, st, tref, prm, buf):  
         h = 1e6
     if gap > _reach(qx, qy, 2.0 * bx, 2.0 * by, h) + 1e-12:
         return math.inf
-    c = np.empty(5)
+    c = coef_room(buf)
     # The rounding of c[0] (from the positions before they are subtracted),
     # below which the pair is touching.
     tol0 = _ROUNDING * 2.0 * D * (abs(xi) + abs(yi) + abs(xj) + abs(yj))
@@ -221,7 +282,7 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         The table's nose segments, jaw tip circles and drop lines
         (:attr:`shotplan.table.Table.cushion_lines` and the like).
     buf : ndarray
-        Scratch room for roots (length >= 8).
+        Scratch room for roots (length >= 8; :data:`.roots.SCRATCH_LEN` to allocate nothing).
 
     Returns
     -------
@@ -264,7 +325,15 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
     reff = prm[P_REFF]
     x, y = pos[i, 0], pos[i, 1]
     reach = _reach(vx, vy, ax, ay, dt_tr) + 1e-9
-    c = np.empty(5)
+    c = coef_room(buf)
+    # The box the centre's path stays in over [0, box_t]; box_t >= best
+    # always (made again, smaller, whenever best has shrunk). Every contact
+    # with an element puts the centre within the element's box grown by the
+    # contact distance, so an element whose grown box misses the path's box
+    # has no event before best: its polynomial is skipped.
+    box_t = best
+    bx0, bx1 = path_span(x, vx, ax, box_t)
+    by0, by1 = path_span(y, vy, ay, box_t)
     # Straight noses: rails and jaw faces
     for k in range(lines.shape[0]):
         x0, y0, x1, y1 = lines[k, 0], lines[k, 1], lines[k, 2], lines[k, 3]
@@ -276,6 +345,25 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             # back in front of it. A ball only a little behind can: a curved
             # (sliding) path may cross the extension and come back onto the
             # face from the front.
+            continue
+        if best < box_t:
+            box_t = best
+            bx0, bx1 = path_span(x, vx, ax, box_t)
+            by0, by1 = path_span(y, vy, ay, box_t)
+        # A face contact or the corner at its far end: the centre within reff
+        # of the segment. (Not so for a ball already at or past the contact
+        # distance, dist <= 0: its contact may come where it is deeper.)
+        g = reff + BOX_MARGIN_M
+        if dist > 0.0 and (bx1 < min(x0, x1) - g or bx0 > max(x0, x1) + g
+                           or by1 < min(y0, y1) - g or by0 > max(y0, y1) + g):
+            continue
+        # Either way the contact is along the segment (0 to L) or at the
+        # corner beyond its end (L to L + reff): the path's reach along it.
+        dx, dy = x1 - x0, y1 - y0
+        L = math.sqrt(dx * dx + dy * dy)
+        lo, hi = path_span(((x - x0) * dx + (y - y0) * dy) / L, (vx * dx + vy * dy) / L,
+                           (ax * dx + ay * dy) / L, best)
+        if hi < -BOX_MARGIN_M or lo > L + g:
             continue
         c[0] = dist
         c[1] = vx * nx + vy * ny
@@ -300,7 +388,8 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
             # meets the corner itself: a circle of radius 0 there.
             qx = x - x1
             qy = y - y1
-            if math.hypot(qx, qy) - reff <= reach:
+            if math.hypot(qx, qy) - reff <= reach and _path_near(
+                    x, y, vx, vy, ax, ay, best, s == ROLLING, x1, y1, reff + BOX_MARGIN_M):
                 _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, reff)
                 t = first_down_crossing(c, 4, best, buf)
                 if t < best:
@@ -318,6 +407,14 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         qy = y - cy
         rr = rho + reff
         if math.hypot(qx, qy) - rr > reach:
+            continue
+        if best < box_t:
+            box_t = best
+            bx0, bx1 = path_span(x, vx, ax, box_t)
+            by0, by1 = path_span(y, vy, ay, box_t)
+        g = rr + BOX_MARGIN_M
+        if (bx1 < cx - g or bx0 > cx + g or by1 < cy - g or by0 > cy + g
+                or not _path_near(x, y, vx, vy, ax, ay, best, s == ROLLING, cx, cy, g)):
             continue
         _circle_quartic(c, qx, qy, vx, vy, 0.5 * ax, 0.5 * ay, rr)
         t = first_down_crossing(c, 4, best, buf)
@@ -340,6 +437,24 @@ def own_event(i, t_now, pos, vel, om, st, tref, prm, lines, circles, drops, buf)
         L = math.sqrt(L2)
         along = ((x - x0) * dx + (y - y0) * dy) / L
         if along < -0.05 * L - reach or along > 1.05 * L + reach:
+            continue
+        if best < box_t:
+            box_t = best
+            bx0, bx1 = path_span(x, vx, ax, box_t)
+            by0, by1 = path_span(y, vy, ay, box_t)
+        # A drop from in front of the line puts the centre on it, within its
+        # ends grown by 5 % (a ball already past it may drop where it is).
+        ex0 = x0 - 0.05 * dx
+        ex1 = x1 + 0.05 * dx
+        ey0 = y0 - 0.05 * dy
+        ey1 = y1 + 0.05 * dy
+        g = BOX_MARGIN_M
+        if dist > 0.0 and (bx1 < min(ex0, ex1) - g or bx0 > max(ex0, ex1) + g
+                           or by1 < min(ey0, ey1) - g or by0 > max(ey0, ey1) + g):
+            continue
+        # Either way the drop is within the grown ends along the line.
+        lo, hi = path_span(along, (vx * dx + vy * dy) / L, (ax * dx + ay * dy) / L, best)
+        if hi < -0.05 * L - g or lo > 1.05 * L + g:
             continue
         c[0] = dist
         c[1] = vx * nx + vy * ny

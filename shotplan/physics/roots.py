@@ -29,7 +29,37 @@ import numpy as np
 
 from .jit import jit
 
-__all__ = ["poly_eval", "real_roots", "first_down_crossing"]
+__all__ = ["poly_eval", "real_roots", "first_down_crossing", "coef_room", "SCRATCH_LEN"]
+
+SCRATCH_LEN = 40
+"""Length of a scratch array (``out``) with room for every intermediate of
+the root finders as well as the roots, so that they allocate nothing (a
+quartic's search allocated four small arrays, and the searches run in the
+engine's innermost loop). Layout: the roots in ``[0:8]``, the derivative and
+critical points of :func:`real_roots` in ``[8:24]``, the reduced polynomial of
+:func:`first_down_crossing` in ``[24:29]``, the callers' coefficients
+(:func:`coef_room`) in ``[32:37]``. A shorter ``out`` (at least 8) works too:
+the intermediates are then allocated."""
+
+
+@jit
+def coef_room(out):  # type: ignore[no-untyped-def]
+    """Room for a caller's five coefficients inside the scratch array ``out``
+    (untouched by the root finders), or a new array if ``out`` is short.
+
+    Parameters
+    ----------
+    out : ndarray
+        The scratch array passed to the root finders.
+
+    Returns
+    -------
+    ndarray
+        Five floats.
+    """
+    if out.shape[0] >= SCRATCH_LEN:
+        return out[32:37]
+    return np.empty(5)
 
 
 @jit
@@ -185,7 +215,8 @@ def real_roots(c, n, lo, hi, out):  # type: ignore[no-untyped-def]
     lo, hi : float
         The interval.
     out : ndarray
-        Room for the roots, length >= 8 (up to five are written before duplicates go).
+        Room for the roots, length >= 8 (up to five are written before
+        duplicates go); :data:`SCRATCH_LEN` or more to allocate nothing.
 
     Returns
     -------
@@ -196,18 +227,26 @@ def real_roots(c, n, lo, hi, out):  # type: ignore[no-untyped-def]
     if n <= 2:
         return _roots_upto2(c, n, lo, hi, out, 0)
     # Derivative and its critical points (one degree down, same method).
-    d = np.zeros(4)
+    if out.shape[0] >= SCRATCH_LEN:
+        for j in range(8, 24):
+            out[j] = 0.0
+        d = out[8:12]
+        crit = out[12:16]
+        dd = out[16:20]
+        crit2 = out[20:24]
+    else:
+        d = np.zeros(4)
+        crit = np.zeros(4)
+        dd = np.zeros(4)
+        crit2 = np.zeros(4)
     for j in range(n):
         d[j] = (j + 1) * c[j + 1]
-    crit = np.zeros(4)
     nd = _effective_degree(d, n - 1, lo, hi)
     if nd <= 2:
         ncrit = _roots_upto2(d, nd, lo, hi, crit, 0)
     else:
-        dd = np.zeros(4)
         for j in range(nd):
             dd[j] = (j + 1) * d[j + 1]
-        crit2 = np.zeros(4)
         ndd = _effective_degree(dd, nd - 1, lo, hi)
         nc2 = _roots_upto2(dd, ndd, lo, hi, crit2, 0)
         ncrit = _roots_by_isolation(d, nd, lo, hi, crit2, nc2, crit, 0)
@@ -278,7 +317,8 @@ def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
     horizon : float
         Latest time looked at, s.
     out : ndarray
-        Scratch room for roots, length >= 8.
+        Scratch room for roots, length >= 8 (:data:`SCRATCH_LEN` or more to
+        allocate nothing).
 
     Returns
     -------
@@ -300,7 +340,12 @@ def first_down_crossing(c, n, horizon, out):  # type: ignore[no-untyped-def]
         if not separates:
             # (p(t) - p(0)) / t = c[1] + c[2] t + ...: where it turns negative,
             # p is back below its start, the pair approaching.
-            q = np.zeros(5)
+            if out.shape[0] >= SCRATCH_LEN:
+                q = out[24:29]
+                for j in range(5):
+                    q[j] = 0.0
+            else:
+                q = np.zeros(5)
             for j in range(n):
                 q[j] = c[j + 1]
             return _first_down_root(q, n - 1, horizon, out)

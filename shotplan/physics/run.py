@@ -17,7 +17,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..stroke import Stroke
-from .state import EV_COLLISION, EV_CUSHION, EV_POCKET
+from .state import EV_COLLISION, EV_CUSHION, EV_POCKET, POCKETED
 
 if TYPE_CHECKING:  # pragma: no cover
     from ..equipment import TableSpec
@@ -126,7 +126,9 @@ class Run:
         int
             Index into the table's pockets, -1 if the ball stayed up.
         """
-        hit = np.flatnonzero((self.event_kind == EV_POCKET) & (self.ball_a == i))
+        if self.states[i] != POCKETED:  # (the engine leaves a ball that fell POCKETED)
+            return -1
+        hit = ((self.event_kind == EV_POCKET) & (self.ball_a == i)).nonzero()[0]
         return int(self.element[hit[0]]) if len(hit) else -1
 
     def collisions_of(self, i: int) -> np.ndarray:
@@ -142,8 +144,15 @@ class Run:
         ndarray
             Event indices.
         """
-        return np.flatnonzero((self.event_kind == EV_COLLISION)
-                              & ((self.ball_a == i) | (self.ball_b == i)))
+        return self._collision_mask(i).nonzero()[0]
+
+    def _collision_mask(self, i: int) -> np.ndarray:
+        """Events that are collisions of ball ``i`` (numpy calls cost more than
+        their work on a run's short arrays: as few as possible, in place)."""
+        hit = self.ball_a == i
+        hit |= self.ball_b == i
+        hit &= self.event_kind == EV_COLLISION
+        return hit
 
     def other_ball(self, k: int, i: int) -> int:
         """The ball ball ``i`` met in collision ``k``.
@@ -175,10 +184,10 @@ class Run:
         tuple of int
             (event index, other ball), or (-1, -1) if it met none.
         """
-        hit = self.collisions_of(i)
-        if not len(hit):
+        hit = self._collision_mask(i)
+        k = int(hit.argmax())  # the first True, or 0 when there is none
+        if not hit[k]:
             return -1, -1
-        k = int(hit[0])
         return k, self.other_ball(k, i)
 
     def velocity_after(self, k: int, i: int) -> tuple[float, float]:
@@ -230,7 +239,9 @@ class Run:
         ndarray
             Event indices.
         """
-        return np.flatnonzero((self.ball_a == i) | (self.ball_b == i))
+        hit = self.ball_a == i
+        hit |= self.ball_b == i
+        return hit.nonzero()[0]
 
     def next_event_of(self, i: int, k: int) -> int:
         """Index of ball ``i``'s first event after event ``k``, or -1.
@@ -247,7 +258,9 @@ class Run:
         int
             The next event of ``i``, -1 if none follows.
         """
-        hit = np.flatnonzero(((self.ball_a == i) | (self.ball_b == i))[k + 1:])
+        hit = self.ball_a[k + 1:] == i
+        hit |= self.ball_b[k + 1:] == i
+        hit = hit.nonzero()[0]
         return int(hit[0]) + k + 1 if len(hit) else -1
 
     def cushion_events(self, i: int) -> np.ndarray:
@@ -263,7 +276,9 @@ class Run:
         ndarray
             Event indices.
         """
-        return np.flatnonzero((self.event_kind == EV_CUSHION) & (self.ball_a == i))
+        hit = self.event_kind == EV_CUSHION
+        hit &= self.ball_a == i
+        return hit.nonzero()[0]
 
     def finish(self, i: int) -> tuple[float, float]:
         """Where ball ``i`` was when the run stopped.
