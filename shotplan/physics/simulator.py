@@ -22,6 +22,7 @@ from ..errors import LayoutError, StrokeError
 from ..files.read import JSONValue
 from ..stroke import Stroke
 from ..table import Table
+from .cluster import hertz_stiffness, tsuji_alpha
 from .engine import STATUS_DONE, run_events
 from .jit import jit
 from .motion import state_at
@@ -29,12 +30,14 @@ from .params import Physics
 from .run import BallSetup, Run
 from .state import (
     N_PARAMS,
+    P_ALPHA_B,
     P_E_B,
     P_E_C,
     P_E_C_SLOPE,
     P_E_J,
     P_E_J_SLOPE,
     P_G,
+    P_K_HERTZ,
     P_M,
     P_MU_B,
     P_MU_C,
@@ -146,7 +149,16 @@ def _params_vector(table: Table, physics: Physics) -> np.ndarray:
     prm[P_MU_J] = physics.jaw_friction
     prm[P_REFF] = table.contact_offset
     prm[P_SIN_NOSE] = (spec.cushion.nose_height_m - R) / R
+    prm[P_K_HERTZ] = hertz_stiffness(R)
+    prm[P_ALPHA_B] = _damping_for(physics.ball_restitution)
     return prm
+
+
+@lru_cache(maxsize=16)
+def _damping_for(restitution: float) -> float:
+    """The cluster phase's damping factor for a ball restitution (solved
+    once per value: :func:`.cluster.tsuji_alpha`)."""
+    return float(tsuji_alpha(float(restitution)))
 
 
 @jit
