@@ -281,6 +281,24 @@ def _refresh_pair(i, j, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t):  
     pair_t[a, b] = pair_contact_time(a, b, t, horizon, pos, vel, om, st, tref, prm, buf)
 
 
+CLUSTER_MIN_SPEED = 1e-6
+"""Slowest approach, m/s, at which an impact with other balls close by is
+resolved as a cluster phase; slower impacts keep the two-ball law. A
+thousand times the speed below which the engine takes a ball as still
+(``motion.V_EPS``): a phase that slow would hand out velocities at that
+threshold, where the order of the impacts no longer matters, and leave
+pairs the rest threshold would set closing again."""
+
+
+@jit
+def _closing_faster(a, b, v, pos, vel):  # type: ignore[no-untyped-def]
+    """Whether ``a`` and ``b`` approach each other faster than ``v``."""
+    dx = pos[b, 0] - pos[a, 0]
+    dy = pos[b, 1] - pos[a, 1]
+    d = math.hypot(dx, dy)
+    return d > 0.0 and (vel[a, 0] - vel[b, 0]) * dx + (vel[a, 1] - vel[b, 1]) * dy > v * d
+
+
 @jit
 def _capture(a, b, pos, vel, prm):  # type: ignore[no-untyped-def]
     """Capture distance of an impact of ``a`` and ``b``, m: how far they
@@ -326,7 +344,9 @@ def _record_phase(a, b, t, n_touch, touched, n_ev, n_seg, pos, vel,  # type: ign
     """Record a cluster phase: one segment for every ball that touched
     another, and one collision event for every pair that touched, ``a`` and
     ``b`` (the pair that started it) first; every event of the phase points
-    at its balls' one new segment. Returns (events, segments)."""
+    at its balls' one new segment, and carries as its element the index of
+    the phase's first event. Returns (events, segments)."""
+    first = n_ev
     for p in range(n_touch):
         for s in range(2):
             i = touched[p, s]
@@ -354,7 +374,7 @@ def _record_phase(a, b, t, n_touch, touched, n_ev, n_seg, pos, vel,  # type: ign
         ev_kind[n_ev] = EV_COLLISION
         ev_a[n_ev] = i
         ev_b[n_ev] = j
-        ev_elem[n_ev] = -1
+        ev_elem[n_ev] = first
         ev_seg_a[n_ev] = seg_of[i]
         ev_seg_b[n_ev] = seg_of[j]
         n_ev += 1
@@ -482,8 +502,8 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
             advance(b, t, pos, vel, om, st, tref, prm)
             e_now = e_b if same_instant < JAM_EVENTS else 1.0
             pressed = _pressing(a, b, e_now, pos, vel, om, st, prm)
-            nc = 2 if pressed else _cluster_at(a, b, t, pos, vel, om, st, tref, prm, pos_t,
-                                               members)
+            nc = 2 if pressed or not _closing_faster(a, b, CLUSTER_MIN_SPEED, pos, vel) else \
+                _cluster_at(a, b, t, pos, vel, om, st, tref, prm, pos_t, members)
             if nc > 2:
                 n_touch, _steps = compliant_phase(members, nc, _capture(a, b, pos, vel, prm),
                                                   pos, vel, om, prm, e_now, mu_b, touched)
