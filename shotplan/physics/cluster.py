@@ -57,7 +57,7 @@ import math
 
 import numpy as np
 
-from .collide import ball_friction
+from .collide import friction_impulse
 from .jit import jit
 from .state import P_ALPHA_B, P_K_HERTZ, P_M, P_R, POCKETED
 
@@ -257,16 +257,6 @@ def gather(a, b, capture, pos, st, prm, members):  # type: ignore[no-untyped-def
     return count
 
 
-@jit
-def _energy(members, nc, vel, om, m, inertia):  # type: ignore[no-untyped-def]
-    s = 0.0
-    for q in range(nc):
-        i = members[q]
-        s += 0.5 * m * (vel[i, 0] ** 2 + vel[i, 1] ** 2)
-        s += 0.5 * inertia * (om[i, 0] ** 2 + om[i, 1] ** 2 + om[i, 2] ** 2)
-    return s
-
-
 # noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
 @jit
 def compliant_phase(members, nc, capture, pos, vel, om, prm, e,  # type: ignore[no-untyped-def]  # noqa: C901
@@ -342,7 +332,6 @@ def compliant_phase(members, nc, capture, pos, vel, om, prm, e,  # type: ignore[
         w[q, 0] = om[i, 0]
         w[q, 1] = om[i, 1]
         w[q, 2] = om[i, 2]
-    e_in = _energy(members, nc, vel, om, m, inertia)
     dv = np.zeros((nc, 2))
     dw = np.zeros((nc, 3))
     seen = np.zeros(npairs, dtype=np.bool_)
@@ -376,21 +365,10 @@ def compliant_phase(members, nc, capture, pos, vel, om, prm, e,  # type: ignore[
             dv[p, 1] -= P / m * ny
             dv[q, 0] += P / m * nx
             dv[q, 1] += P / m * ny
-            # Slip of p's surface against q's at the contact (3-D), as
-            # in collide.ball_ball.
-            sx = (v[p, 0] - v[q, 0]) - R * (w[p, 2] + w[q, 2]) * ny
-            sy = (v[p, 1] - v[q, 1]) + R * (w[p, 2] + w[q, 2]) * nx
-            sz = R * ((w[p, 0] + w[q, 0]) * ny - (w[p, 1] + w[q, 1]) * nx)
-            sn = sx * nx + sy * ny
-            sx -= sn * nx
-            sy -= sn * ny
-            slip = math.sqrt(sx * sx + sy * sy + sz * sz)
-            if slip <= 1e-12:
-                continue
-            J = min(ball_friction(slip, mu_fixed) * P, m * slip / 7.0)
-            jx = -J * sx / slip
-            jy = -J * sy / slip
-            jz = -J * sz / slip
+            # Friction against the slip, as in the two-ball law.
+            jx, jy, jz = friction_impulse(v[p, 0] - v[q, 0], v[p, 1] - v[q, 1],
+                                          w[p, 0] + w[q, 0], w[p, 1] + w[q, 1],
+                                          w[p, 2] + w[q, 2], nx, ny, P, R, m, mu_fixed)
             dv[p, 0] += jx / m
             dv[p, 1] += jy / m
             dv[q, 0] -= jx / m
@@ -419,31 +397,58 @@ def compliant_phase(members, nc, capture, pos, vel, om, prm, e,  # type: ignore[
             dw[q, 2] = 0.0
             u[q, 0] += v[q, 0] * dt
             u[q, 1] += v[q, 1] * dt
-    # Hand back the velocities and spins.
-    px = 0.0
-    py = 0.0
-    for q in range(nc):
-        i = members[q]
-        px += vel[i, 0]
-        py += vel[i, 1]
-        vel[i, 0] = v[q, 0]
-        vel[i, 1] = v[q, 1]
-        om[i, 0] = w[q, 0]
-        om[i, 1] = w[q, 1]
-        om[i, 2] = w[q, 2]
-    e_out = _energy(members, nc, vel, om, m, inertia)
-    if e_out > e_in:
-        # The scheme's error: scale the motion relative to the centre of
-        # mass (momentum kept) down to the energy before.
-        cx = px / nc
-        cy = py / nc
-        e_cm = 0.5 * m * nc * (cx * cx + cy * cy)
-        s = math.sqrt(max(e_in - e_cm, 0.0) / max(e_out - e_cm, 1e-300))
+    # Hand back the velocities and spins. Balls that touched form groups
+    # (connected through pairs that touched; the others felt nothing):
+    # should the scheme's error leave a group with more kinetic energy than
+    # it came with, its motion relative to its centre of mass (momentum
+    # kept) is scaled down to the energy before.
+    group = np.arange(nc)
+    for c in range(npairs):
+        if seen[c]:
+            gp = _root(group, pp[c])
+            gq = _root(group, pq[c])
+            if gp != gq:
+                group[max(gp, gq)] = min(gp, gq)
+    for g in range(nc):
+        if _root(group, g) != g:
+            continue
+        cnt = 0
+        e0 = 0.0
+        e1 = 0.0
+        px = 0.0
+        py = 0.0
         for q in range(nc):
+            if _root(group, q) != g:
+                continue
             i = members[q]
-            vel[i, 0] = cx + s * (vel[i, 0] - cx)
-            vel[i, 1] = cy + s * (vel[i, 1] - cy)
-            om[i, 0] *= s
-            om[i, 1] *= s
-            om[i, 2] *= s
+            cnt += 1
+            px += vel[i, 0]
+            py += vel[i, 1]
+            e0 += 0.5 * m * (vel[i, 0] ** 2 + vel[i, 1] ** 2) + 0.5 * inertia * (
+                om[i, 0] ** 2 + om[i, 1] ** 2 + om[i, 2] ** 2)
+            e1 += 0.5 * m * (v[q, 0] ** 2 + v[q, 1] ** 2) + 0.5 * inertia * (
+                w[q, 0] ** 2 + w[q, 1] ** 2 + w[q, 2] ** 2)
+        sc = 1.0
+        cx = px / cnt
+        cy = py / cnt
+        if e1 > e0:
+            e_cm = 0.5 * m * cnt * (cx * cx + cy * cy)
+            sc = math.sqrt(max(e0 - e_cm, 0.0) / max(e1 - e_cm, 1e-300))
+        for q in range(nc):
+            if _root(group, q) != g:
+                continue
+            i = members[q]
+            vel[i, 0] = cx + sc * (v[q, 0] - cx) if sc < 1.0 else v[q, 0]
+            vel[i, 1] = cy + sc * (v[q, 1] - cy) if sc < 1.0 else v[q, 1]
+            om[i, 0] = sc * w[q, 0]
+            om[i, 1] = sc * w[q, 1]
+            om[i, 2] = sc * w[q, 2]
     return n_touched, steps
+
+
+@jit
+def _root(group, q):  # type: ignore[no-untyped-def]
+    """The representative of ``q``'s group (union-find, no compression)."""
+    while group[q] != q:
+        q = group[q]
+    return q
