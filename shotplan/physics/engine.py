@@ -445,11 +445,12 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     trans_t = np.full(n, math.inf)
     pair_t = np.full((n, n), math.inf)
     buf = np.zeros(8)
-    # Scratch for the cluster phase (see _cluster_at).
-    pos_t = np.empty((n, 2))
-    members = np.empty(n, dtype=np.int64)
-    touched = np.empty((max(n * (n - 1) // 2, 1), 2), dtype=np.int64)
-    seg_of = np.full(n, -1, dtype=np.int64)
+    # Scratch for the cluster phase (see _cluster_at), made at the first
+    # impact that needs it.
+    pos_t = np.empty((0, 2))
+    members = np.empty(0, dtype=np.int64)
+    touched = np.empty((0, 2), dtype=np.int64)
+    seg_of = np.empty(0, dtype=np.int64)
     n_seg = 0
     for i in range(n):
         classify(i, vel, om, st, prm)
@@ -502,8 +503,14 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
             advance(b, t, pos, vel, om, st, tref, prm)
             e_now = e_b if same_instant < JAM_EVENTS else 1.0
             pressed = _pressing(a, b, e_now, pos, vel, om, st, prm)
-            nc = 2 if pressed or not _closing_faster(a, b, CLUSTER_MIN_SPEED, pos, vel) else \
-                _cluster_at(a, b, t, pos, vel, om, st, tref, prm, pos_t, members)
+            nc = 2
+            if n > 2 and not pressed and _closing_faster(a, b, CLUSTER_MIN_SPEED, pos, vel):
+                if pos_t.shape[0] == 0:
+                    pos_t = np.empty((n, 2))
+                    members = np.empty(n, dtype=np.int64)
+                    touched = np.empty((n * (n - 1) // 2, 2), dtype=np.int64)
+                    seg_of = np.full(n, -1, dtype=np.int64)
+                nc = _cluster_at(a, b, t, pos, vel, om, st, tref, prm, pos_t, members)
             if nc > 2:
                 n_touch, _steps = compliant_phase(members, nc, _capture(a, b, pos, vel, prm),
                                                   pos, vel, om, prm, e_now, mu_b, touched)
