@@ -37,11 +37,15 @@ from shotplan.physics.cluster import (
 )
 from shotplan.physics.simulator import _params_vector
 from shotplan.physics.state import P_K_HERTZ, P_M
+from shotplan.stroke import Stroke
 from shotplan.table import Table
 
 sys.path.insert(0, str(pathlib.Path(__file__).parent / "reference"))
 from rack_hertz import direction_from_back_deg, hertz_break, rack_positions  # noqa: E402
 from test_rack_hertz import PUBLISHED  # noqa: E402
+
+sys.path.insert(0, str(pathlib.Path(__file__).parent))
+from test_physics_properties import check_invariants  # noqa: E402
 
 TABLE = Table(TableSpec.preset("pool-9ft"))
 R = TABLE.ball_radius
@@ -231,3 +235,40 @@ def test_phase_never_creates_energy_and_keeps_momentum(cluster, e, mu):
     assert e_out <= e_in * (1.0 + 1e-12)
     np.testing.assert_allclose(vel.sum(axis=0), v0.sum(axis=0), atol=1e-9)  # m/s: far above rounding
     assert prm[P_M] == M
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(kind=st.sampled_from([diamond_positions, rack_positions]),
+       gap=st.sampled_from([0.0, 1e-9, 1e-6, 5e-6]), seed=st.integers(0, 2**32 - 1),
+       speed=st.floats(1.0, 10.0), aim=st.floats(-1.0, 1.0), tip=st.floats(-0.3, 0.3))
+def test_every_phase_of_a_break_keeps_momentum(kind, gap, seed, speed, aim, tip):
+    # Newton's third law (common practice, no source): over each cluster
+    # phase of a whole run the momentum of the balls in it is unchanged (the
+    # cloth acts only between events), energy never rises at an event, and
+    # no pair ever comes closer than 2R - 1 um (issue 14's bound;
+    # tests/test_physics_properties.check_invariants samples every event,
+    # the midpoints between and the end).
+    rng = np.random.default_rng(seed)
+    units = kind(gap / R)
+    units[1:] += rng.uniform(0.0, 0.2 * gap / R, units[1:].shape)
+    units[0, 0] -= 4.0  # the cue ball starts two diameters back
+    pos = units * R + CENTRE
+    ids = ["cue"] + [f"b{k}" for k in range(1, len(pos))]
+    out = Simulator(TABLE, Physics()).run(ids, pos, Stroke(aim, speed, tip, 0.0))
+    check_invariants(out, TABLE, check_momentum=False, overlap=1e-6)
+    run_t = np.array([e.t for e in out.events])
+    phases = 0
+    for k, ev in enumerate(out.events):
+        if ev.kind.word != "collision" or k + 1 >= len(out.events) or run_t[k + 1] != ev.t:
+            continue
+        if k > 0 and run_t[k - 1] == ev.t:
+            continue
+        # Balls of the events at this instant that share the first one's phase.
+        balls = {b for e in out.events if e.t == ev.t and e.kind.word == "collision"
+                 for b in e.balls}
+        idx = [ids.index(b) for b in sorted(balls)]
+        before = out.states(float(np.nextafter(ev.t, -np.inf)))[idx, 2:4].sum(axis=0)
+        after = out.states(float(np.nextafter(ev.t, np.inf)))[idx, 2:4].sum(axis=0)
+        np.testing.assert_allclose(after, before, atol=1e-9)
+        phases += 1
+    assert phases >= 1
