@@ -45,7 +45,7 @@ from rack_hertz import direction_from_back_deg, hertz_break, rack_positions  # n
 from test_rack_hertz import PUBLISHED  # noqa: E402
 
 sys.path.insert(0, str(pathlib.Path(__file__).parent))
-from test_physics_properties import check_invariants  # noqa: E402
+from test_contact_robust import worst_overlap  # noqa: E402
 
 TABLE = Table(TableSpec.preset("pool-9ft"))
 R = TABLE.ball_radius
@@ -237,7 +237,7 @@ def test_phase_never_creates_energy_and_keeps_momentum(cluster, e, mu):
     assert prm[P_M] == M
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(kind=st.sampled_from([diamond_positions, rack_positions]),
        gap=st.sampled_from([0.0, 1e-9, 1e-6, 5e-6]), seed=st.integers(0, 2**32 - 1),
        speed=st.floats(1.0, 10.0), aim=st.floats(-1.0, 1.0), tip=st.floats(-0.3, 0.3))
@@ -246,8 +246,8 @@ def test_every_phase_of_a_break_keeps_momentum(kind, gap, seed, speed, aim, tip)
     # phase of a whole run the momentum of the balls in it is unchanged (the
     # cloth acts only between events), energy never rises at an event, and
     # no pair ever comes closer than 2R - 1 um (issue 14's bound;
-    # tests/test_physics_properties.check_invariants samples every event,
-    # the midpoints between and the end).
+    # tests/test_contact_robust.worst_overlap samples every event, the
+    # midpoints between and evenly spaced times).
     rng = np.random.default_rng(seed)
     units = kind(gap / R)
     units[1:] += rng.uniform(0.0, 0.2 * gap / R, units[1:].shape)
@@ -255,7 +255,10 @@ def test_every_phase_of_a_break_keeps_momentum(kind, gap, seed, speed, aim, tip)
     pos = units * R + CENTRE
     ids = ["cue"] + [f"b{k}" for k in range(1, len(pos))]
     out = Simulator(TABLE, Physics()).run(ids, pos, Stroke(aim, speed, tip, 0.0))
-    check_invariants(out, TABLE, check_momentum=False, overlap=1e-6)
+    assert out.complete
+    assert np.all(out.energy_changes() <= 1e-9)
+    worst, at = worst_overlap(out, extra=50)
+    assert worst <= 1e-6, f"overlap {worst:.3g} m at t={at}"
     run_t = np.array([e.t for e in out.events])
     phases = 0
     for k, ev in enumerate(out.events):
