@@ -275,3 +275,36 @@ def test_every_phase_of_a_break_keeps_momentum(kind, gap, seed, speed, aim, tip)
         np.testing.assert_allclose(after, before, atol=1e-9)
         phases += 1
     assert phases >= 1
+
+
+@pytest.mark.parametrize("third_gap_m", [5e-3, 0.3])
+def test_two_balls_alone_keep_the_two_ball_law_exactly(third_gap_m):
+    # Issue 14: the phase reduces to today's two-ball law (with throw) when
+    # only two balls touch. A cut with side spin at 1.5 m/s, a third ball
+    # beyond the capture distance (what the pair closes in one contact,
+    # about 0.6 mm here) or far away: the impact is the two-ball kernel's,
+    # to the last bit, as with no third ball at all.
+    sim = Simulator(TABLE, Physics())
+    a = CENTRE
+    b = CENTRE + np.array([2 * R * math.cos(0.5), 2 * R * math.sin(0.5)])
+    c = b + np.array([2 * R + third_gap_m, 0.0])
+    v, w = (1.5, 0.0), (0.0, 20.0, 15.0)
+    two = sim.run_raw(np.array([a, b]), 0, v, w)
+    three = sim.run_raw(np.array([a, b, c]), 0, v, w)
+    assert two.event_kind[0] == three.event_kind[0] == 1
+    for seg2, seg3 in ((two.seg_a[0], three.seg_a[0]), (two.seg_b[0], three.seg_b[0])):
+        assert np.array_equal(two.seg_vel[seg2], three.seg_vel[seg3])
+        assert np.array_equal(two.seg_spin[seg2], three.seg_spin[seg3])
+
+
+def test_a_ball_a_micrometre_away_joins_the_phase():
+    # A straight line of three, the far ball 1 um from the middle one
+    # (inside any capture distance): one phase, events for both pairs, the
+    # phase's first event named as their element (run.py's Run.element).
+    sim = Simulator(TABLE, Physics())
+    pos = np.array([CENTRE, CENTRE + [2 * R, 0.0], CENTRE + [4 * R + 1e-6, 0.0]])
+    run = sim.run_raw(pos, 0, (2.0, 0.0), (0.0, 0.0, 0.0))
+    at_once = np.flatnonzero(run.event_t == run.event_t[0])
+    assert len(at_once) == 2
+    assert list(run.element[at_once]) == [0, 0]
+    assert {(int(run.ball_a[k]), int(run.ball_b[k])) for k in at_once} == {(0, 1), (1, 2)}
