@@ -62,7 +62,8 @@ from .jit import jit
 from .state import P_ALPHA_B, P_K_HERTZ, P_M, P_R, POCKETED
 
 __all__ = ["BALL_YOUNG_PA", "BALL_POISSON", "STEPS_PER_CONTACT", "HERTZ_CONTACT_FACTOR",
-           "hertz_stiffness", "tsuji_alpha", "contact_time", "gather", "compliant_phase"]
+           "MIN_CAPTURE_M", "MAX_STEPS", "hertz_stiffness", "two_ball_restitution",
+           "tsuji_alpha", "contact_time", "gather", "compliant_phase"]
 
 BALL_YOUNG_PA = 5.0e9
 """Young's modulus of the phenolic resin of the balls, Pa (from memory:
@@ -180,7 +181,8 @@ def tsuji_alpha(e):  # type: ignore[no-untyped-def]
     Returns
     -------
     float
-        ``alpha`` (0 for ``e >= 1``).
+        ``alpha`` (0 for ``e >= 1``). A restitution of 0 is approached but
+        never reached by this damping: ``alpha`` stops at 2**14 then.
     """
     if e >= 1.0:
         return 0.0
