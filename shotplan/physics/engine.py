@@ -356,7 +356,7 @@ def _record_phase(a, b, t, n_touch, touched, n_ev, n_seg, pos, vel,  # type: ign
                 n_seg = _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state,
                                         seg_pos, seg_vel, seg_om, n_seg)
     for i in (a, b):
-        if seg_of[i] < 0:  # the pair never pressed (it cannot: it closes)
+        if seg_of[i] < 0:  # (a and b close, so they touch: only a guard)
             classify(i, vel, om, st, prm)
             seg_of[i] = n_seg
             n_seg = _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state,
