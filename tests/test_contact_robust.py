@@ -309,7 +309,8 @@ def test_long_frozen_line_struck_at_one_end_ends_and_keeps_momentum(e):
     no_pair_stopped_dead(out)
     assert np.all(out.energy_changes() <= 1e-12)
     t_hit = out.events[0].t
-    assert sum(ev.t <= t_hit + 1e-12 for ev in out.events) > 15  # a cascade at one instant
+    # Every pair touches at that instant (one cluster phase: an event per pair).
+    assert sum(ev.t <= t_hit + 1e-12 for ev in out.events) >= 15
 
     def momentum(s):
         return s[:, 2:4].sum(axis=0) + 0.4 * R * np.array([s[:, 5].sum(), -s[:, 4].sum()])

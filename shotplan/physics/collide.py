@@ -42,7 +42,8 @@ import math
 from .jit import jit
 from .state import P_M, P_MU_S, P_R, P_SIN_NOSE
 
-__all__ = ["CUSHION_STEPS", "ball_ball", "ball_cushion", "ball_friction", "cushion_frame_impact"]
+__all__ = ["CUSHION_STEPS", "ball_ball", "ball_cushion", "ball_friction", "cushion_frame_impact",
+           "friction_impulse"]
 
 CUSHION_STEPS = 16
 """Normal-impulse steps over a cushion impact's compression. Against the
@@ -71,6 +72,49 @@ def ball_friction(slip, mu_fixed):  # type: ignore[no-untyped-def]
     if mu_fixed >= 0.0:
         return mu_fixed
     return 9.951e-3 + 0.108 * math.exp(-1.088 * slip)
+
+
+@jit
+def friction_impulse(dvx, dvy, wx, wy, wz, nx, ny, P, R, m, mu_fixed):  # type: ignore[no-untyped-def]
+    """Friction impulse on ball i at its contact with ball j (j gets the
+    opposite), for a normal impulse ``P``.
+
+    Parameters
+    ----------
+    dvx, dvy : float
+        Velocity of i relative to j, m/s.
+    wx, wy, wz : float
+        Sum of the two balls' spins, rad/s.
+    nx, ny : float
+        Unit line of centres from i to j.
+    P : float
+        Normal impulse, N s.
+    R, m : float
+        Ball radius (m) and mass (kg).
+    mu_fixed : float
+        Ball-ball friction; below 0: :func:`ball_friction`'s fit.
+
+    Returns
+    -------
+    tuple of float
+        ``(jx, jy, jz)``, N s: Coulomb friction against the 3-D slip of the
+        surfaces, ``min(mu P, m |slip| / 7)`` (m/7: the tangential
+        effective mass of two equal solid spheres), zero without slip.
+    """
+    # Slip of i's surface against j's at the contact point (3-D):
+    # v_ci = v_i + w_i x (R n), v_cj = v_j + w_j x (-R n), n = (nx, ny, 0).
+    # w x n = (-wz ny, wz nx, wx ny - wy nx)
+    sx = dvx + R * (-wz * ny)
+    sy = dvy + R * (wz * nx)
+    sz = R * (wx * ny - wy * nx)
+    sn = sx * nx + sy * ny
+    sx -= sn * nx
+    sy -= sn * ny
+    slip = math.sqrt(sx * sx + sy * sy + sz * sz)
+    if slip <= 1e-12:
+        return 0.0, 0.0, 0.0
+    J = min(ball_friction(slip, mu_fixed) * P, m * slip / 7.0)
+    return -J * sx / slip, -J * sy / slip, -J * sz / slip
 
 
 @jit
@@ -114,23 +158,11 @@ def ball_ball(i, j, pos, vel, om, prm, e, mu_fixed):  # type: ignore[no-untyped-
     vel[i, 1] -= P / m * ny
     vel[j, 0] += P / m * nx
     vel[j, 1] += P / m * ny
-    # Slip of i's surface against j's at the contact point (3-D):
-    # v_ci = v_i + w_i x (R n), v_cj = v_j + w_j x (-R n), n = (nx, ny, 0).
-    # w x n = (-wz ny, wz nx, wx ny - wy nx)
-    sx = (vel[i, 0] - vel[j, 0]) + R * (-(om[i, 2] + om[j, 2]) * ny)
-    sy = (vel[i, 1] - vel[j, 1]) + R * ((om[i, 2] + om[j, 2]) * nx)
-    sz = R * ((om[i, 0] + om[j, 0]) * ny - (om[i, 1] + om[j, 1]) * nx)
-    sn = sx * nx + sy * ny
-    sx -= sn * nx
-    sy -= sn * ny
-    slip = math.sqrt(sx * sx + sy * sy + sz * sz)
-    if slip <= 1e-12:
+    jx, jy, jz = friction_impulse(vel[i, 0] - vel[j, 0], vel[i, 1] - vel[j, 1],
+                                  om[i, 0] + om[j, 0], om[i, 1] + om[j, 1],
+                                  om[i, 2] + om[j, 2], nx, ny, P, R, m, mu_fixed)
+    if jx == 0.0 and jy == 0.0 and jz == 0.0:
         return P
-    mu = ball_friction(slip, mu_fixed)
-    J = min(mu * P, m * slip / 7.0)
-    jx = -J * sx / slip
-    jy = -J * sy / slip
-    jz = -J * sz / slip
     # Linear: horizontal part only (the slate/gravity take the vertical).
     vel[i, 0] += jx / m
     vel[i, 1] += jy / m

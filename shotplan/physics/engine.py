@@ -18,10 +18,11 @@ import math
 
 import numpy as np
 
+from .cluster import MIN_CAPTURE_M, compliant_phase, contact_time, gather
 from .collide import ball_ball, ball_cushion
 from .events import own_event, pair_contact_time, path_span
 from .jit import jit
-from .motion import advance, classify, linear_accel
+from .motion import advance, classify, linear_accel, state_at
 from .roots import SCRATCH_LEN
 from .state import (
     EV_COLLISION,
@@ -409,6 +410,127 @@ def _row_min(i, pair_t, row_t, row_j):  # type: ignore[no-untyped-def]
     row_j[i] = jb
 
 
+CLUSTER_MIN_SPEED = 1e-6
+"""Slowest approach, m/s, at which an impact with other balls close by is
+resolved as a cluster phase; slower impacts keep the two-ball law. A
+thousand times the speed below which the engine takes a ball as still
+(``motion.V_EPS``): a phase that slow would hand out velocities at that
+threshold, where the order of the impacts no longer matters, and leave
+pairs the rest threshold would set closing again."""
+
+
+@jit
+def _closing_faster(a, b, v, pos, vel):  # type: ignore[no-untyped-def]
+    """Whether ``a`` and ``b`` approach each other faster than ``v``."""
+    dx = pos[b, 0] - pos[a, 0]
+    dy = pos[b, 1] - pos[a, 1]
+    d = math.hypot(dx, dy)
+    return d > 0.0 and (vel[a, 0] - vel[b, 0]) * dx + (vel[a, 1] - vel[b, 1]) * dy > v * d
+
+
+@jit
+def _capture(a, b, pos, vel, prm):  # type: ignore[no-untyped-def]
+    """Capture distance of an impact of ``a`` and ``b``, m: how far they
+    travel towards each other during one Hertz contact at their approach
+    speed (:func:`.cluster.contact_time`), at least MIN_CAPTURE_M."""
+    dx = pos[b, 0] - pos[a, 0]
+    dy = pos[b, 1] - pos[a, 1]
+    d = math.hypot(dx, dy)
+    vn = ((vel[a, 0] - vel[b, 0]) * dx + (vel[a, 1] - vel[b, 1]) * dy) / d if d > 0.0 else 0.0
+    if vn <= 0.0:
+        return MIN_CAPTURE_M
+    return max(MIN_CAPTURE_M, vn * contact_time(vn, prm))
+
+
+@jit
+def _cluster_at(a, b, t, pos, vel, om, st, tref, prm, pos_t, members):  # type: ignore[no-untyped-def]
+    """How many balls take part in the impact of ``a`` and ``b`` at ``t``
+    (both already advanced to ``t``): ``a``, ``b`` and every ball connected
+    to them through gaps below the capture distance (:func:`_capture`),
+    listed in ``members``. The others' positions at ``t`` go to the scratch
+    ``pos_t`` (no ball is changed); when there are more than two, the
+    members are advanced to ``t``."""
+    n = pos.shape[0]
+    for k in range(n):
+        if tref[k] == t or st[k] == POCKETED or not (st[k] == SLIDING or st[k] == ROLLING):
+            pos_t[k, 0] = pos[k, 0]
+            pos_t[k, 1] = pos[k, 1]
+        else:
+            x, y, _vx, _vy, _wx, _wy, _wz = state_at(k, t, pos, vel, om, st, tref, prm)
+            pos_t[k, 0] = x
+            pos_t[k, 1] = y
+    nc = gather(a, b, _capture(a, b, pos, vel, prm), pos_t, st, prm, members)
+    if nc > 2:
+        for q in range(2, nc):
+            advance(members[q], t, pos, vel, om, st, tref, prm)
+    return nc
+
+
+@jit
+def _record_phase(a, b, t, n_touch, touched, n_ev, n_seg, pos, vel,  # type: ignore[no-untyped-def]
+                  om, st, prm, ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b, seg_t,
+                  seg_ball, seg_state, seg_pos, seg_vel, seg_om, seg_of):
+    """Record a cluster phase: one segment for every ball that touched
+    another, and one collision event for every pair that touched, ``a`` and
+    ``b`` (the pair that started it) first; every event of the phase points
+    at its balls' one new segment, and carries as its element the index of
+    the phase's first event. Returns (events, segments)."""
+    first = n_ev
+    for p in range(n_touch):
+        for s in range(2):
+            i = touched[p, s]
+            if seg_of[i] < 0:
+                classify(i, vel, om, st, prm)
+                seg_of[i] = n_seg
+                n_seg = _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state,
+                                        seg_pos, seg_vel, seg_om, n_seg)
+    for i in (a, b):
+        if seg_of[i] < 0:  # (a and b close, so they touch: only a guard)
+            classify(i, vel, om, st, prm)
+            seg_of[i] = n_seg
+            n_seg = _record_segment(i, t, pos, vel, om, st, seg_t, seg_ball, seg_state,
+                                    seg_pos, seg_vel, seg_om, n_seg)
+    for p in range(-1, n_touch):
+        if p < 0:
+            i = a
+            j = b
+        else:
+            i = min(touched[p, 0], touched[p, 1])
+            j = max(touched[p, 0], touched[p, 1])
+            if i == min(a, b) and j == max(a, b):
+                continue
+        ev_t[n_ev] = t
+        ev_kind[n_ev] = EV_COLLISION
+        ev_a[n_ev] = i
+        ev_b[n_ev] = j
+        ev_elem[n_ev] = first
+        ev_seg_a[n_ev] = seg_of[i]
+        ev_seg_b[n_ev] = seg_of[j]
+        n_ev += 1
+    return n_ev, n_seg
+
+
+@jit
+def _refresh_phase(n, t, pos, vel, om, st, tref, prm,  # type: ignore[no-untyped-def]
+                   lines, circles, drops, buf, own_t, own_kind, own_elem, trans_t, pair_t,
+                   box, mot, row_t, row_j, seg_of):
+    """New times for every ball a cluster phase changed (those with a
+    segment in ``seg_of``) and all their pairs; ``seg_of`` is cleared. Every
+    changed ball's own event and motion first: the pair tests read the
+    motion of both balls (:func:`_refresh_pairs`). A pair of two changed
+    balls is worked out twice, to the same time."""
+    for i in range(n):
+        if seg_of[i] >= 0:
+            _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines, circles, drops, buf,
+                          own_t, own_kind, own_elem, trans_t, box, mot)
+    for i in range(n):
+        if seg_of[i] >= 0:
+            _refresh_pairs(i, -1, 0, t, pos, vel, om, st, tref, prm, buf, trans_t, pair_t,
+                           own_t, box, mot, row_t, row_j)
+    for i in range(n):
+        seg_of[i] = -1
+
+
 # noqa C901 below: a compiled kernel; one loop is faster than calls between kernels.
 @jit
 def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-untyped-def]  # noqa: C901
@@ -457,6 +579,12 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     row_t = np.full(n, math.inf)
     row_j = np.full(n, -1, dtype=np.int64)
     buf = np.zeros(SCRATCH_LEN)
+    # Scratch for the cluster phase (see _cluster_at), made at the first
+    # impact that needs it.
+    pos_t = np.empty((0, 2))
+    members = np.empty(0, dtype=np.int64)
+    touched = np.empty((0, 2), dtype=np.int64)
+    seg_of = np.empty(0, dtype=np.int64)
     n_seg = 0
     for i in range(n):
         classify(i, vel, om, st, prm)
@@ -507,7 +635,31 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
             advance(a, t, pos, vel, om, st, tref, prm)
             advance(b, t, pos, vel, om, st, tref, prm)
             e_now = e_b if same_instant < JAM_EVENTS else 1.0
-            if _pressing(a, b, e_now, pos, vel, om, st, prm):
+            pressed = _pressing(a, b, e_now, pos, vel, om, st, prm)
+            nc = 2
+            if n > 2 and not pressed and _closing_faster(a, b, CLUSTER_MIN_SPEED, pos, vel):
+                if pos_t.shape[0] == 0:
+                    pos_t = np.empty((n, 2))
+                    members = np.empty(n, dtype=np.int64)
+                    touched = np.empty((n * (n - 1) // 2, 2), dtype=np.int64)
+                    seg_of = np.full(n, -1, dtype=np.int64)
+                nc = _cluster_at(a, b, t, pos, vel, om, st, tref, prm, pos_t, members)
+            if nc > 2:
+                n_touch, _steps = compliant_phase(members, nc, _capture(a, b, pos, vel, prm),
+                                                  pos, vel, om, prm, e_now, mu_b, touched)
+                if n_touch > 0:
+                    if n_ev + n_touch + 1 > max_events:
+                        status = STATUS_MAX_EVENTS
+                        break
+                    n_ev, n_seg = _record_phase(
+                        a, b, t, n_touch, touched, n_ev, n_seg, pos, vel, om, st, prm,
+                        ev_t, ev_kind, ev_a, ev_b, ev_elem, ev_seg_a, ev_seg_b, seg_t,
+                        seg_ball, seg_state, seg_pos, seg_vel, seg_om, seg_of)
+                    _refresh_phase(n, t, pos, vel, om, st, tref, prm, lines, circles, drops,
+                                   buf, own_t, own_kind, own_elem, trans_t, pair_t, box, mot,
+                                   row_t, row_j, seg_of)
+                    continue
+            if pressed:
                 press_pair(a, b, pos, vel, om, prm)
                 classify(a, vel, om, st, prm)
                 classify(b, vel, om, st, prm)

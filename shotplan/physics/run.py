@@ -81,7 +81,9 @@ class Run:
     ball_b: np.ndarray
     """The other ball of a collision (else unused)."""
     element: np.ndarray
-    """The table element of a cushion, jaw or pocket event (line or pocket index)."""
+    """The table element of a cushion, jaw or pocket event (line or pocket
+    index); for a collision in a cluster phase (several at one instant, one
+    per pair that touched) the index of the phase's first event, else -1."""
     seg_a: np.ndarray
     """Segment ``ball_a`` starts after each event."""
     seg_b: np.ndarray

@@ -22,6 +22,7 @@ from ..errors import LayoutError, StrokeError
 from ..files.read import JSONValue
 from ..stroke import Stroke
 from ..table import Table
+from .cluster import hertz_stiffness, tsuji_alpha
 from .engine import STATUS_DONE, run_events
 from .jit import jit
 from .motion import state_at
@@ -29,12 +30,14 @@ from .params import Physics
 from .run import BallSetup, Run
 from .state import (
     N_PARAMS,
+    P_ALPHA_B,
     P_E_B,
     P_E_C,
     P_E_C_SLOPE,
     P_E_J,
     P_E_J_SLOPE,
     P_G,
+    P_K_HERTZ,
     P_M,
     P_MU_B,
     P_MU_C,
@@ -146,7 +149,16 @@ def _params_vector(table: Table, physics: Physics) -> np.ndarray:
     prm[P_MU_J] = physics.jaw_friction
     prm[P_REFF] = table.contact_offset
     prm[P_SIN_NOSE] = (spec.cushion.nose_height_m - R) / R
+    prm[P_K_HERTZ] = hertz_stiffness(R)
+    prm[P_ALPHA_B] = _damping_for(physics.ball_restitution)
     return prm
+
+
+@lru_cache(maxsize=16)
+def _damping_for(restitution: float) -> float:
+    """The cluster phase's damping factor for a ball restitution (solved
+    once per value: :func:`.cluster.tsuji_alpha`)."""
+    return float(tsuji_alpha(float(restitution)))
 
 
 @jit
@@ -654,7 +666,9 @@ class Outcome:
         """Change of kinetic energy of the balls involved, across each event.
 
         The state just before (the old segment evaluated at the event time)
-        against the state just after. Impacts can only remove energy.
+        against the state just after. Impacts can only remove energy. A
+        cluster phase's change is given at its first event (the pair that
+        started it), 0 at the phase's other events.
 
         Returns
         -------
@@ -669,12 +683,19 @@ class Outcome:
             return 0.5 * m * float(row[2] ** 2 + row[3] ** 2) + 0.5 * inertia * float(
                 row[4] ** 2 + row[5] ** 2 + row[6] ** 2)
 
-        t, _kind, a, b, _elem, sa, sb = self._ev
+        t, kind, a, b, elem, sa, sb = self._ev
         out = np.zeros(len(t))
+        # A cluster phase records one event per pair that touched, sharing
+        # the balls' new segments and naming the phase's first event as
+        # their element: each ball's change counts once, and the phase's
+        # whole change goes to its first event.
+        counted: set[int] = set()
         for k in range(len(t)):
+            at = int(elem[k]) if kind[k] == EventKind.COLLISION and elem[k] >= 0 else k
             for ball, seg in ((a[k], sa[k]), (b[k], sb[k])):
-                if ball < 0:
+                if ball < 0 or int(seg) in counted:
                     continue
+                counted.add(int(seg))
                 idx = self._by_ball[int(ball)]
                 pos_in = int(np.searchsorted(idx, seg))
                 prev = int(idx[pos_in - 1])
@@ -687,7 +708,7 @@ class Outcome:
                 after[0, 2:4] = self._seg_vel[seg]
                 after[0, 4:] = self._seg_om[seg]
                 if self._seg_state[seg] != POCKETED:
-                    out[k] += energy(after[0]) - energy(before[0])
+                    out[at] += energy(after[0]) - energy(before[0])
         return out
 
     # ---------------------------------------------------------- output

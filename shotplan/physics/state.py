@@ -39,8 +39,10 @@ P_MU_J = 12  # jaw friction
 P_REFF = 13  # horizontal centre-to-nose distance at contact, m
 P_SIN_NOSE = 14  # sin of the nose contact angle above the equator
 P_E_J_SLOPE = 15  # fall of jaw restitution per m/s
-# 16-19: reserved for the contact laws (cushion/jaw law: 16; compliant
-# ball-ball contact: 17-19); unused slots hold 0.
+# 16: reserved for the cushion/jaw law; unused slots hold 0.
+P_K_HERTZ = 17  # Hertz stiffness of two balls, N/m^1.5 (cluster phase)
+P_ALPHA_B = 18  # Tsuji damping factor giving the ball restitution (cluster phase)
+# 19: reserved for the compliant ball-ball contact.
 N_PARAMS = 20
 
 
