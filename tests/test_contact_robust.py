@@ -344,3 +344,26 @@ def test_pressed_pair_still_closing_rolls_on_as_one():
     np.testing.assert_allclose(om[:, :2], [[-U / 2 / R, V / R]] * 2, rtol=1e-12)
     np.testing.assert_array_equal(om[:, 2], [3.0, -1.0])  # spin about the vertical untouched
     assert float(np.sum(vel**2) + 0.4 * R * R * np.sum(om**2)) < e0
+
+
+def test_a_ball_rolling_to_a_stop_along_a_touching_ball_does_not_stall_the_run():
+    # Found by the hypothesis test above: the cue ball grazes b1 (fullness 1)
+    # in a touching cluster; b1, pushed at a few nm/s, rolls to a stop along
+    # b3 (zero normal speed, its deceleration along its path). Its distance
+    # from b3 only grows (geometry: a path at right angles to the line of
+    # centres), so there is no second contact; the contact search once
+    # called it "closing" on the sign of its deceleration and the run
+    # repeated one impact of no impulse until the event limit.
+    c = np.array([1.0, 0.5])
+    b1 = c + 2 * R * np.array([math.cos(2.0), math.sin(2.0)])
+    b2 = c + 2 * R * np.array([1.0, 0.0])
+    b3 = b1 + 2 * R * np.array([math.cos(1.0), math.sin(1.0)])
+    pos = np.array([c, b1, b2, b3])
+    d = pos[1] - pos[0]
+    st_ = Stroke(math.degrees(math.atan2(d[1], d[0]) + math.pi / 2), 1.0)
+    out = Simulator(TABLE, Physics()).run(["cue", "b1", "b2", "b3"], pos, st_)
+    assert out.complete and out.n_events < 100
+    worst, at = worst_overlap(out, extra=100)
+    assert worst <= OVERLAP, f"overlap {worst:.3g} m at t={at}"
+    assert np.all(out.energy_changes() <= 1e-9)
+    no_pair_stopped_dead(out)

@@ -227,9 +227,10 @@ def _contact_from_touching(c, h, buf, tol1, tol2):  # type: ignore[no-untyped-de
       time ``p`` comes down through zero (or never).
 
     ``c[1]`` and ``c[2]`` within their rounding (``tol1``, ``tol2``) count
-    as zero: a pair rolling along each other, or moving on as one after a
-    push, would otherwise be "closing" on the sign of a rounding error, at
-    one instant without end.
+    as zero, and then so does ``c[3]`` if over the horizon it stays within
+    the rounding of ``c[2]``: a pair rolling along each other, or moving on
+    as one after a push, would otherwise be "closing" on the sign of a
+    rounding error, at one instant without end.
     """
     if c[1] < -tol1:
         return 0.0
@@ -240,6 +241,15 @@ def _contact_from_touching(c, h, buf, tol1, tol2):  # type: ignore[no-untyped-de
         q[0] = 0.0
         if abs(q[1]) <= tol2:
             q[1] = 0.0
+            # Then the third order decides, unless all it could add over the
+            # horizon is within the rounding of c[2] too: a ball rolling to
+            # a stop along a touching ball (c[1] = 0, c[2] = |q|^2 + 2 p.b
+            # with p.b zero but for rounding) would "close" on c[3] = 2 q.b,
+            # the sign of its deceleration, while it moves away at second
+            # order; the impact then finds no approach, at one instant
+            # without end.
+            if abs(q[2]) * h <= tol2:
+                q[2] = 0.0
     c[1] = q[0]
     c[2] = q[1]
     t_back = first_down_crossing(q, 3, h, buf)
