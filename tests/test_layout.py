@@ -30,7 +30,7 @@ def pool9() -> TableSpec:
 
 
 # ------------------------------------------------------------------ demo files
-def test_the_six_demo_files_are_there():
+def test_the_demo_files_are_there():
     assert [p.name for p in DEMOS] == [
         "club-night-1-straight-in.json",
         "club-night-2-cut-to-corner.json",
@@ -38,6 +38,9 @@ def test_the_six_demo_files_are_there():
         "club-night-4-position-drill.json",
         "club-night-5-9ball-rack.json",
         "club-night-6-8ft-custom.json",
+        "club-night-7-nine-ball-rules.json",
+        "club-night-8-snooker-red-on.json",
+        "club-night-9-three-cushion.json",
     ]
 
 
@@ -58,6 +61,8 @@ def test_demo_round_trip(path, tmp_path):
 def test_demo_tables():
     tables = {p.stem: load_layout(p).table for p in DEMOS}
     custom = tables.pop("club-night-6-8ft-custom")
+    assert tables.pop("club-night-8-snooker-red-on").name == "snooker"
+    assert tables.pop("club-night-9-three-cushion").name == "carom"
     assert all(t == pool9() for t in tables.values())
     assert custom.name == "pool-8ft" and custom.corner.mouth_m == 0.1125
     assert custom.cushion.restitution == 0.78
