@@ -75,3 +75,18 @@ def test_a_dead_worker_leaves_the_search_to_the_view():
     assert not w.alive
     st = _proposals(load_layout(CUT), w)
     assert st.proposals == _proposals(load_layout(CUT), None).proposals
+
+
+def test_the_last_part_of_the_list_is_drawn(tmp_path, display):
+    # The view draws a frame only when what it shows changes once it is idle
+    # (mainloop): the list arriving whole ends the search, so it must count
+    # as a change, or the last part sent stays on the screen (seen: the
+    # worker's final list never drawn until the next key or click).
+    from shotplan.view.app import App
+
+    app = App(load_layout(CUT), None, recovery_dir=tmp_path / "rec", offer_recovery=False)
+    app.start((1280, 800))
+    app.update(0.0)
+    before = app.look()
+    app.state.set_proposals(app.state.proposals, True)
+    assert app.look() != before

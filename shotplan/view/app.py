@@ -741,7 +741,7 @@ class App:
         """
         return (self.state.revision, self.size, self.note, self.help_visible,
                 id(self.predictor.outcome), self.predictor.message, self.playback.t,
-                self._frame_key)
+                self._frame_key, id(self.state.proposals), self.state.proposals_done)
 
     def _hint(self) -> str:
         """The hint at the foot of the table: what to do next, or why
