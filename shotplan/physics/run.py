@@ -154,7 +154,8 @@ class Run:
         hit = self.ball_a == i
         hit |= self.ball_b == i
         hit &= self.event_kind == EV_COLLISION
-        return hit
+        out: np.ndarray = hit
+        return out
 
     def other_ball(self, k: int, i: int) -> int:
         """The ball ball ``i`` met in collision ``k``.
@@ -243,7 +244,8 @@ class Run:
         """
         hit = self.ball_a == i
         hit |= self.ball_b == i
-        return hit.nonzero()[0]
+        out: np.ndarray = hit.nonzero()[0]
+        return out
 
     def next_event_of(self, i: int, k: int) -> int:
         """Index of ball ``i``'s first event after event ``k``, or -1.
@@ -280,7 +282,8 @@ class Run:
         """
         hit = self.event_kind == EV_CUSHION
         hit &= self.ball_a == i
-        return hit.nonzero()[0]
+        out: np.ndarray = hit.nonzero()[0]
+        return out
 
     def finish(self, i: int) -> tuple[float, float]:
         """Where ball ``i`` was when the run stopped.
