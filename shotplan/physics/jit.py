@@ -4,8 +4,12 @@ The kernels in this package are written in the subset of Python that numba
 compiles (floats, ints and numpy arrays; no Python objects). ``jit`` compiles
 them with ``numba.njit(cache=True)`` so the machine code is kept on disk and
 later processes start fast. Set ``SHOTPLAN_NO_JIT=1`` to run the very same
-code as plain Python (for debugging, coverage, or where numba is missing); the
-results are identical, only slower (see ``benchmarks/bench_physics.py``).
+code as plain Python (for debugging, coverage, or where numba is missing),
+about 50 times slower (see ``benchmarks/bench_physics.py``). The results
+agree to rounding, not to the bit: the compiled code's floating point differs
+in its last digits (its ``hypot`` and other library functions), and a long run through
+touching balls can turn such a difference into a different outcome (39 of 300
+random shots differed somewhere, measured in the engine speed work).
 
 numba's cache of a function is keyed on its own source file only: a kernel
 that calls a changed function in another file would load stale machine code.
