@@ -123,3 +123,17 @@ def test_a_caroms_row():
     assert row.split() == ["1", "carom", "3", "red", "around", "30", "1.00"]
     assert head.index("first") == row.index("red") and head.index("family") == row.index("around")
     assert math.isclose(float(row.split()[-1]), shot.window_deg)
+
+
+def test_g_goes_through_the_tables_games(tmp_path):
+    # The key G: the next game of the table's kind, round to "any" again
+    # (the WPA's pool games on a pool table).
+    app = make_app(tmp_path, new_layout(TableSpec.preset("pool-9ft")))
+    seen = []
+    for _ in range(4):
+        app.process_event(pygame.event.Event(pygame.KEYDOWN, key=pygame.K_g, mod=0,
+                                             unicode="g", scancode=0))
+        app.update(0.0)
+        seen.append(app.state.layout.game)
+    assert seen == ["8-ball", "9-ball", "10-ball", "any"]
+    assert app.panels.game_menu.selected_option[0] == GAME_PREFIX + "any"

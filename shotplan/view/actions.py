@@ -12,6 +12,7 @@ from collections.abc import Callable
 from typing import TYPE_CHECKING, Any
 
 from ..errors import LayoutError
+from ..games import games_for
 from .playback import Playback
 
 if TYPE_CHECKING:
@@ -64,6 +65,12 @@ def _game(app: App, value: Any) -> None:
         game = app.state.layout.game
         app.say("no rules: any ball into any pocket" if game == "any"
                 else f"playing {game}: only legal shots are proposed")
+
+
+def _next_game(app: App, value: Any) -> None:
+    games = games_for(app.state.layout.table.game)
+    now = app.state.layout.game
+    _game(app, games[(games.index(now) + 1) % len(games)] if now in games else games[0])
 
 
 def _atlas(app: App, value: Any) -> None:
@@ -186,7 +193,7 @@ ACTIONS: dict[str, Callable[[App, Any], None]] = {
     "open": _open, "save-as": _dialog("save-as"), "export": _dialog("export"), "save": _save,
     "undo": _undo, "redo": _redo, "rack-8": _rack("8-ball"), "rack-9": _rack("9-ball"),
     "rack-snooker": _rack("snooker"), "rack-carom": _rack("carom"), "atlas": _atlas,
-    "game": _game,
+    "game": _game, "next-game": _next_game,
     "clear": _clear, "add": _add, "remove": _remove, "help": _help, "play": _play,
     "reset": _reset, "scrub": _scrub, "rate": _rate, "next-rate": _next_rate, "speed": _speed,
     "speed-step": _speed_step, "turn": _turn, "elevation": _elevation, "tip": _tip,

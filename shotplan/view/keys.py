@@ -116,6 +116,7 @@ KEY_MAP: tuple[Binding, ...] = (
     _b(K.K_n, "next-proposal", *_PROPOSAL, 1),
     _b((K.K_0, K.K_KP0), "tip-preset", "0", "tip to the centre of the cue ball", "centre"),
     _b(K.K_a, "atlas", "A", "show or hide the atlas of the selected ball (direct shots)"),
+    _b(K.K_g, "next-game", "G", "the next game of the table's kind (whose rules the shots follow)"),
     _b(K.K_INSERT, "add", "Insert", "add a ball"),
     _b(K.K_F8, "rack-8", *_RACK),
     _b(K.K_F9, "rack-9", *_RACK),
