@@ -108,3 +108,19 @@ def test_the_notice_variable_is_one_name() -> None:
     from shotplan.cli import engine
 
     assert engine.NOTICE_VARIABLE == jit.NOTICE_VARIABLE
+
+
+def test_the_set_up_says_whether_it_compiled_or_loaded() -> None:
+    # The set-up's line is true: once a run has put the kernels on disk,
+    # the next one loads them and says so (numba's cache; the first run may
+    # compile or load, depending on what is cached already).
+    cmd = [sys.executable, "-m", "shotplan.cli.engine"]
+    first = subprocess.run(cmd, capture_output=True, text=True, cwd=ROOT, timeout=600)
+    assert first.returncode == 0, first.stderr
+    assert ("compiling the physics engine" in first.stderr) == \
+        ("physics engine compiled" in first.stderr)
+    second = subprocess.run(cmd, capture_output=True, text=True, cwd=ROOT, timeout=600)
+    assert second.returncode == 0
+    assert second.stderr.strip().splitlines() == [
+        next(line for line in second.stderr.splitlines() if line.startswith("physics engine"))]
+    assert "loaded from" in second.stderr and "compiling" not in second.stderr

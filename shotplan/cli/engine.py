@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import sys
 import time
+from collections.abc import Callable
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
@@ -38,7 +39,7 @@ def _say_nothing() -> None:
     pass
 
 
-def engine_ready(layout: Layout, notice: bool = True) -> float:
+def engine_ready(layout: Layout, notice: bool | Callable[[], None] = True) -> float:
     """Load the engine's machine code: one gentle stroke of a lone cue ball
     on ``layout``'s table, with its physics.
 
@@ -50,8 +51,9 @@ def engine_ready(layout: Layout, notice: bool = True) -> float:
     layout : Layout
         A layout (its table and physics pick the engine; its balls do not
         matter).
-    notice : bool
-        Say so on stderr if it compiles (the set-up says it otherwise).
+    notice : bool or callable
+        Say so on stderr if it compiles; false: say nothing; a callable: call
+        it instead, once, if it compiles (the set-up's own line).
 
     Returns
     -------
@@ -63,7 +65,8 @@ def engine_ready(layout: Layout, notice: bool = True) -> float:
     from ..racks import new_layout
     from ..stroke import Stroke
 
-    jit.on_first_compile(_say_compiling if notice else _say_nothing)
+    jit.on_first_compile(notice if callable(notice) else
+                         _say_compiling if notice else _say_nothing)
     positions = new_layout(layout.table).positions()
     ids = list(positions)
     simulator_for(layout.table, layout.physics()).run(
@@ -71,11 +74,17 @@ def engine_ready(layout: Layout, notice: bool = True) -> float:
     return time.perf_counter() - t0
 
 
-def compile_all() -> None:
+def compile_all(notice: Callable[[], None] | None = None) -> None:
     """Compile (or load) every kernel the commands call, for set-up.
 
     A 9-ball break with its paths sampled (the engine, the sampler and the
     state at a time) and the cushion law on its own (the cushion fit).
+
+    Parameters
+    ----------
+    notice : callable, optional
+        Called once, when the first kernel starts compiling (nothing is
+        called when everything loads from the cache).
     """
     import numpy as np
 
@@ -88,7 +97,7 @@ def compile_all() -> None:
 
     spec = TableSpec.preset("pool-9ft")
     layout = Layout(spec, tuple(rack("9-ball", spec).items()))
-    engine_ready(layout, notice=False)
+    engine_ready(layout, notice=notice if notice is not None else False)
     outcome = simulate(layout, Stroke(direction_deg=0.0, speed_mps=7.0))
     outcome.path("cue")
     outcome.states(0.5)
@@ -104,11 +113,17 @@ def main() -> int:
     int
         0.
     """
-    print("compiling the physics engine (once; later commands load it from "
-          "~/.cache/shotplan)...", file=sys.stderr, flush=True)
+    compiled: list[bool] = []
+
+    def say() -> None:
+        compiled.append(True)
+        print("compiling the physics engine (once; later commands load it from "
+              "~/.cache/shotplan)...", file=sys.stderr, flush=True)
+
     t0 = time.perf_counter()
-    compile_all()
-    print(f"physics engine ready ({time.perf_counter() - t0:.1f} s)", file=sys.stderr)
+    compile_all(say)
+    how = "compiled" if compiled else "loaded from ~/.cache/shotplan"
+    print(f"physics engine {how} ({time.perf_counter() - t0:.1f} s)", file=sys.stderr)
     return 0
 
 
