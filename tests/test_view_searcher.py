@@ -90,3 +90,16 @@ def test_the_last_part_of_the_list_is_drawn(tmp_path, display):
     before = app.look()
     app.state.set_proposals(app.state.proposals, True)
     assert app.look() != before
+
+
+def test_a_layout_the_carom_search_refuses_says_why_either_way(worker):
+    # One object ball on a three-cushion table: no proposals, and the same
+    # one reason from the worker as from the view's own frames (the carom
+    # search's line, UMB: a carom needs both other balls).
+    doc = dict(CAROM, balls={"cue": [0.7, 0.45], "red": [2.2, 1.0]})
+    here = _proposals(Layout.from_dict(doc), None)
+    there = _proposals(Layout.from_dict(doc), worker)
+    assert not here.proposals and not there.proposals
+    reasons = [r.reason for r in there.rejections]
+    assert reasons == [r.reason for r in here.rejections]
+    assert len(reasons) == 1 and "exactly two other balls" in reasons[0]

@@ -26,12 +26,9 @@ from typing import Any
 
 from ..aim import aim_at, contact_fraction
 from ..errors import ShotplanError
-from ..games import CAROM_GAMES, Rules
 from ..physics import Outcome
-from ..physics.run import StrokePlayer
 from ..search import KINDS, Rejected, Shot, find_shots
-from ..search.carom import SCAN_TIPS, CaromShot, best_per_way, find_caroms, scan_speeds
-from .searcher import SearchWorker
+from .searcher import SearchStopped, SearchWorker, search_pieces
 from .state import FreeAim, PocketAim, ViewState
 
 __all__ = ["AimGeometry", "Predictor", "MAX_PROPOSALS"]
@@ -103,11 +100,10 @@ class Predictor:
         self._win_time = -math.inf
         self._free_key: Any = None
         self._prop_layout: Any = None
-        self._prop_queue: list[tuple[str, str, str]] | None = None
-        self._prop_shots: list[Shot] = []
+        self._prop_queue: list[Any] | None = None
+        self._merge: Any = None
+        self._prop_shots: list[Any] = []
         self._prop_rejected: list[Rejected] = []
-        self._carom_queue: list[tuple[float, tuple[float, float]]] | None = None
-        self._carom_shots: list[CaromShot] = []
         self._layout_time = 0.0
         self.worker: SearchWorker | None = None
         """The worker process that searches the proposals (``shotplan view``
@@ -193,10 +189,9 @@ class Predictor:
         layout = state.layout
         if layout is not self._prop_layout:
             self._prop_layout = layout
-            self._prop_queue = self._carom_queue = None
+            self._prop_queue = None
             self._job = 0
             self._prop_shots = []
-            self._carom_shots = []
             self._prop_rejected = []
             self._layout_time = now
             state.set_proposals((), False)
@@ -428,88 +423,42 @@ class Predictor:
             if self.worker.alive:
                 return self._worker_step(state)
             self.worker, self._job = None, 0  # it died: search in these frames again
-        if state.layout.game in CAROM_GAMES:
-            return self._carom_step(state)
         if self._prop_queue is None:
-            # One ball, one pocket, one kind at a time: the slowest such search
-            # takes a couple of frames, a whole ball and pocket up to ten.
-            self._prop_queue = [(b, p.name, k) for b in state.object_balls
-                                for p in state.table.pockets for k in KINDS]
+            # A piece at a time (searcher.search_pieces): one ball, pocket and
+            # kind takes a couple of frames at most, a carom piece about 30 ms.
+            self._prop_queue, self._merge = search_pieces(
+                state.layout, state.physics(), state.settings.elevation_deg)
             self._prop_shots = []
             self._prop_rejected = []
         t0 = time.perf_counter()
-        added = False
-        rules = _rules(state)
+        changed = False
         while self._prop_queue and time.perf_counter() - t0 < self.budget_s:
-            ball, pocket, kind = self._prop_queue.pop(0)
+            piece = self._prop_queue.pop(0)
             try:
-                res = find_shots(state.layout, balls=[ball], pockets=[pocket], kinds=(kind,),
-                                 physics=state.physics(), rules=rules)
-            except (ShotplanError, KeyError):
-                continue
-            self._prop_rejected.extend(res.rejected)
-            if res.shots:
-                self._prop_shots.extend(res.shots)
-                added = True
-        # The same order as a whole-table search: window first, then difficulty.
-        self._prop_shots.sort(key=lambda s: (-round(s.window_deg, 2), s.difficulty))
+                merged = self._merge(piece, self._prop_shots, self._prop_rejected)
+            except SearchStopped:
+                self._prop_queue, merged = [], []
+            changed |= merged != self._prop_shots
+            self._prop_shots = merged
         done = not self._prop_queue
-        if added or done:
+        if changed or done:
             state.set_proposals(self._prop_shots[:MAX_PROPOSALS], done,
                                 self._prop_rejected if done else ())
             return True
         return False
 
-
     def _worker_step(self, state: ViewState) -> bool:
         """Send the settled layout to the worker once; show what has come back."""
         assert self.worker is not None
         if self._job == 0:
-            self._job = self.worker.submit(state.layout, state.physics(), MAX_PROPOSALS)
+            self._job = self.worker.submit(state.layout, state.physics(), MAX_PROPOSALS,
+                                           state.settings.elevation_deg)
         changed = False
         for part in self.worker.parts(self._job):
             state.set_proposals(part.shots, part.done, part.rejected if part.done else ())
             changed = True
         return changed
 
-    def _carom_step(self, state: ViewState) -> bool:
-        """The carom search, one speed and tip of its scan a frame (each
-        about a tenth of the whole, some 30 ms), merged as the whole search
-        merges them."""
-        if self._carom_queue is None:
-            self._carom_queue = [(v, tip) for v in scan_speeds(state.layout.game)
-                                 for tip in SCAN_TIPS]
-            self._carom_shots = []
-            self._prop_rejected = []
-        v, tip = self._carom_queue.pop(0)
-        try:
-            player = StrokePlayer.for_layout(state.layout, physics=state.physics(),
-                                             elevation=state.settings.elevation_deg)
-            res = find_caroms(player, Rules(state.layout.game, state.layout.ball_ids),
-                              speeds=[v], tips=[tip])
-            self._carom_shots = best_per_way(self._carom_shots + list(res.shots))
-        except ShotplanError as e:
-            # Not two object balls, say: no proposals, and the reason shown.
-            self._carom_queue = []
-            self._carom_shots = []
-            self._prop_rejected = [Rejected("carom", (), "", (), str(e))]
-        done = not self._carom_queue
-        state.set_proposals(self._carom_shots[:MAX_PROPOSALS], done,
-                            self._prop_rejected if done else ())
-        return True
-
 
 def _xy(p: Any) -> tuple[float, float]:
     return (float(p[0]), float(p[1]))
-
-
-def _rules(state: ViewState) -> Rules | None:
-    """The layout's game's rules for the proposals (None: no game, a carom
-    game, or balls the game cannot name)."""
-    game = state.layout.game
-    if game == "any" or game in CAROM_GAMES:
-        return None
-    try:
-        return Rules(game, state.layout.ball_ids)
-    except ShotplanError:
-        return None

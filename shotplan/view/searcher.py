@@ -19,10 +19,11 @@ from __future__ import annotations
 
 import multiprocessing as mp
 import time
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-__all__ = ["SearchWorker", "SearchJob", "SearchPart", "PART_S"]
+__all__ = ["SearchWorker", "SearchJob", "SearchPart", "SearchStopped", "search_pieces", "PART_S"]
 
 PART_S = 0.1
 """How often the worker sends what it has found so far, s."""
@@ -40,6 +41,8 @@ class SearchJob:
     """Its :class:`shotplan.physics.Physics`."""
     max_shots: int
     """Longest list to send."""
+    elevation_deg: float = 0.0
+    """Cue elevation of the carom search's strokes, degrees."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -57,40 +60,79 @@ class SearchPart:
     """Whether this is the whole."""
 
 
-def _pieces(job: SearchJob) -> tuple[list[Any], Any]:
-    """The job's pieces and a function that searches one and merges it into
-    the list so far: ``merge(piece, shots, rejected) -> shots``."""
+class SearchStopped(Exception):
+    """Raised by a piece of the search when the layout cannot be searched
+    at all; its reason is then the search's one rejection."""
+
+
+def search_pieces(layout: Any, physics: Any, elevation_deg: float = 0.0
+                  ) -> tuple[list[Any], Callable[[Any, list[Any], list[Any]], list[Any]]]:
+    """The proposals search of a layout, cut into pieces: one ball, pocket
+    and kind each (a carom game: one speed and tip of the carom scan), and
+    the function that searches one piece and merges it into the list so far,
+    ``merge(piece, shots, rejected) -> shots`` (best first, merged as a
+    whole search merges). The worker and the view's own frames
+    (:class:`shotplan.view.predict.Predictor`) both search this way.
+
+    A piece that fails is skipped; on a carom layout that cannot be searched
+    ``merge`` puts the reason in ``rejected`` and raises
+    :class:`SearchStopped`.
+
+    Parameters
+    ----------
+    layout : Layout
+        The layout.
+    physics : Physics
+        Its physics.
+    elevation_deg : float, optional
+        Cue elevation of the carom search's strokes, degrees.
+
+    Returns
+    -------
+    pieces : list
+        In the order to search them.
+    merge : callable
+        See above.
+    """
     from ..errors import ShotplanError
     from ..games import CAROM_GAMES, Rules
-    from ..search import KINDS, find_shots
+    from ..search import KINDS, Rejected, find_shots
 
-    lay = job.layout
-    if lay.game in CAROM_GAMES:
+    if layout.game in CAROM_GAMES:
         from ..physics.run import StrokePlayer
         from ..search.carom import SCAN_TIPS, best_per_way, find_caroms, scan_speeds
 
-        player = StrokePlayer.for_layout(lay, physics=job.physics)
-        rules = Rules(lay.game, lay.ball_ids)
-
         def carom(piece: Any, shots: list[Any], rejected: list[Any]) -> list[Any]:
             v, tip = piece
-            res = find_caroms(player, rules, speeds=[v], tips=[tip])
+            try:
+                player = StrokePlayer.for_layout(layout, physics=physics,
+                                                 elevation=elevation_deg)
+                res = find_caroms(player, Rules(layout.game, layout.ball_ids),
+                                  speeds=[v], tips=[tip])
+            except ShotplanError as e:  # not two object balls, say
+                rejected[:] = [Rejected("carom", (), "", (), str(e))]
+                raise SearchStopped(str(e)) from None
             return best_per_way(shots + list(res.shots))
 
-        return [(v, tip) for v in scan_speeds(lay.game) for tip in SCAN_TIPS], carom
+        return [(v, tip) for v in scan_speeds(layout.game) for tip in SCAN_TIPS], carom
 
     try:
-        pool_rules: Rules | None = None if lay.game == "any" else Rules(lay.game, lay.ball_ids)
+        rules = None if layout.game == "any" else Rules(layout.game, layout.ball_ids)
     except ShotplanError:
-        pool_rules = None
-    balls = [b for b in lay.ball_ids if b != "cue"]
-    pockets = [p.name for p in lay.geometry.pockets]
+        rules = None  # balls the game cannot name: no rules
+    balls = [b for b in layout.ball_ids if b != "cue"]
+    pockets = [p.name for p in layout.geometry.pockets]
 
     def pool(piece: Any, shots: list[Any], rejected: list[Any]) -> list[Any]:
         ball, pocket, kind = piece
-        res = find_shots(lay, balls=[ball], pockets=[pocket], kinds=(kind,),
-                         physics=job.physics, rules=pool_rules)
+        try:
+            res = find_shots(layout, balls=[ball], pockets=[pocket], kinds=(kind,),
+                             physics=physics, rules=rules)
+        except (ShotplanError, KeyError):
+            return shots
         rejected.extend(res.rejected)
+        if not res.shots:
+            return shots
         merged = shots + list(res.shots)
         # The same order as a whole-table search: window first, then difficulty.
         merged.sort(key=lambda s: (-round(s.window_deg, 2), s.difficulty))
@@ -101,9 +143,6 @@ def _pieces(job: SearchJob) -> tuple[list[Any], Any]:
 
 def _serve(conn: Any) -> None:
     """The worker's loop: jobs in, parts out, until ``None`` or a closed pipe."""
-    from ..errors import ShotplanError
-    from ..search import Rejected
-
     waiting: list[SearchJob | None] = []  # a message read while a job ran
     while True:
         try:
@@ -116,24 +155,22 @@ def _serve(conn: Any) -> None:
         rejected: list[Any] = []
         sent = time.perf_counter()
         try:
-            pieces, merge = _pieces(job)
+            pieces, merge = search_pieces(job.layout, job.physics, job.elevation_deg)
             for piece in pieces:
                 if conn.poll():  # a newer job (or the end): drop this one
                     waiting.append(conn.recv())
                     break
                 try:
                     shots = merge(piece, shots, rejected)
-                except (ShotplanError, KeyError):
-                    continue
+                except SearchStopped:
+                    shots = []
+                    break
                 if time.perf_counter() - sent >= PART_S:
                     conn.send(SearchPart(job.number, tuple(shots[:job.max_shots]), (), False))
                     sent = time.perf_counter()
-            else:
+            if not waiting:
                 conn.send(SearchPart(job.number, tuple(shots[:job.max_shots]), tuple(rejected),
                                      True))
-        except ShotplanError as e:  # the layout cannot be searched: say why
-            conn.send(SearchPart(job.number, (), (Rejected("search", (), "", (), str(e)),),
-                                 True))
         except (EOFError, OSError):
             return
 
@@ -155,7 +192,8 @@ class SearchWorker:
         """Whether the worker process is running."""
         return self._proc.is_alive()
 
-    def submit(self, layout: Any, physics: Any, max_shots: int) -> int:
+    def submit(self, layout: Any, physics: Any, max_shots: int,
+               elevation_deg: float = 0.0) -> int:
         """Send a new job (the worker drops the one it is on).
 
         Parameters
@@ -166,6 +204,8 @@ class SearchWorker:
             Its physics.
         max_shots : int
             Longest list to send back.
+        elevation_deg : float, optional
+            Cue elevation of the carom search's strokes, degrees.
 
         Returns
         -------
@@ -173,7 +213,7 @@ class SearchWorker:
             The job's number.
         """
         self._number += 1
-        self._conn.send(SearchJob(self._number, layout, physics, max_shots))
+        self._conn.send(SearchJob(self._number, layout, physics, max_shots, elevation_deg))
         return self._number
 
     def parts(self, number: int) -> list[SearchPart]:
