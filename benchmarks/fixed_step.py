@@ -14,7 +14,11 @@ as much of it as possible is the engine's own compiled code:
   therefore carries no stepping error, and the only error left is the one
   fixed steps are known for: contacts are found late, at the end of a step.
 * impacts: ``shotplan.physics.collide.ball_ball`` and ``ball_cushion``, the
-  engine's impact laws, with the engine's restitution and friction values,
+  engine's impact laws, and where the engine uses it the compliant phase of
+  ``shotplan.physics.cluster`` (an impact with other balls within the
+  capture distance of the pair: every ball of the group pushes at once, found
+  by the engine's ``gather`` at the instant the pair touched), with the
+  engine's restitution and friction values,
   and after a cushion or jaw impact the engine's ``_settle`` (a ball whose
   rebounds would die out within a cushion contact time stays on the rubber).
 * cushions, jaw faces, the corners where jaw faces end, rounded jaw tips and
@@ -55,8 +59,9 @@ import numba
 import numpy as np
 
 import shotplan.physics  # noqa: F401  (sets numba's cache folder before the kernels below)
+from shotplan.physics.cluster import compliant_phase, gather
 from shotplan.physics.collide import ball_ball, ball_cushion
-from shotplan.physics.engine import _settle
+from shotplan.physics.engine import CLUSTER_MIN_SPEED, _capture, _closing_faster, _settle
 from shotplan.physics.motion import classify
 from shotplan.physics.state import (
     P_E_B,
@@ -292,39 +297,69 @@ def _earliest(pos, vel, st, prm, lines, circles, frame, start, items, h):  # typ
 
 
 @inline
+def _resolve_pair(s, a, b, pos, vel, om, st, prm, pos_t, members, touched):  # type: ignore[no-untyped-def]
+    """Back a colliding pair off by s; resolve the impact as the engine does
+    (the two-ball law, or the compliant phase of every ball within the
+    capture distance); move the balls it changed on for s."""
+    n = pos.shape[0]
+    for k in range(n):
+        # Every ball where it was when the pair touched (straight lines back).
+        if _moving(st[k]):
+            pos_t[k, 0] = pos[k, 0] - vel[k, 0] * s
+            pos_t[k, 1] = pos[k, 1] - vel[k, 1] * s
+        else:
+            pos_t[k, 0] = pos[k, 0]
+            pos_t[k, 1] = pos[k, 1]
+    for k in (a, b):
+        pos[k, 0] = pos_t[k, 0]
+        pos[k, 1] = pos_t[k, 1]
+    nc = 2
+    members[0] = a
+    members[1] = b
+    if n > 2 and _closing_faster(a, b, CLUSTER_MIN_SPEED, pos, vel):
+        nc = gather(a, b, _capture(a, b, pos, vel, prm), pos_t, st, prm, members)
+    if nc > 2:
+        for q in range(2, nc):
+            k = members[q]
+            pos[k, 0] = pos_t[k, 0]
+            pos[k, 1] = pos_t[k, 1]
+        compliant_phase(members, nc, _capture(a, b, pos, vel, prm), pos, vel, om, prm,
+                        prm[P_E_B], prm[P_MU_B], touched)
+    else:
+        ball_ball(a, b, pos, vel, om, prm, prm[P_E_B], prm[P_MU_B])
+    for q in range(nc):
+        k = members[q]
+        pos[k, 0] += vel[k, 0] * s
+        pos[k, 1] += vel[k, 1] * s
+        classify(k, vel, om, st, prm)
+
+
+@inline
 def _resolve(s, kind, a, b, pos, vel, om, st, prm, lines, circles):  # type: ignore[no-untyped-def]
-    """Back off by s, apply the impact law, move on for s."""
+    """Back a ball off by s, apply the cushion or jaw law, move on for s."""
     pos[a, 0] -= vel[a, 0] * s
     pos[a, 1] -= vel[a, 1] * s
-    if kind == PAIR:
-        pos[b, 0] -= vel[b, 0] * s
-        pos[b, 1] -= vel[b, 1] * s
-        ball_ball(a, b, pos, vel, om, prm, prm[P_E_B], prm[P_MU_B])
-        pos[b, 0] += vel[b, 0] * s
-        pos[b, 1] += vel[b, 1] * s
-        classify(b, vel, om, st, prm)
+    jaw = True
+    if kind == LINE:
+        hx, hy = lines[b, 4], lines[b, 5]
+        jaw = lines[b, 6] != 0.0
     else:
-        jaw = True
-        if kind == LINE:
-            hx, hy = lines[b, 4], lines[b, 5]
-            jaw = lines[b, 6] != 0.0
+        if kind == CORNER:
+            cx, cy = lines[b, 2], lines[b, 3]
         else:
-            if kind == CORNER:
-                cx, cy = lines[b, 2], lines[b, 3]
-            else:
-                cx, cy = circles[b, 0], circles[b, 1]
-            hx = pos[a, 0] - cx
-            hy = pos[a, 1] - cy
-            hn = math.hypot(hx, hy)
-            hx /= hn
-            hy /= hn
-        vn_in = vel[a, 0] * hx + vel[a, 1] * hy
-        e0 = prm[P_E_J] if jaw else prm[P_E_C]
-        ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
-                     prm[P_MU_J] if jaw else prm[P_MU_C])
-        # As the engine does after a cushion or jaw impact: a rebound series
-        # that would be over within one contact time leaves the ball on the rubber.
-        _settle(a, hx, hy, vn_in, max(e0 - prm[P_E_C_SLOPE] * (-vn_in), 0.05), vel, om, prm)
+            cx, cy = circles[b, 0], circles[b, 1]
+        hx = pos[a, 0] - cx
+        hy = pos[a, 1] - cy
+        hn = math.hypot(hx, hy)
+        hx /= hn
+        hy /= hn
+    vn_in = vel[a, 0] * hx + vel[a, 1] * hy
+    e0 = prm[P_E_J] if jaw else prm[P_E_C]
+    ball_cushion(a, hx, hy, pos, vel, om, prm, e0, prm[P_E_C_SLOPE],
+                 prm[P_MU_J] if jaw else prm[P_MU_C])
+    # As the engine does after a cushion or jaw impact: a rebound series
+    # that would be over within one contact time leaves the ball on the rubber.
+    _settle(a, hx, hy, vn_in, max(e0 - prm[P_E_C_SLOPE] * (-vn_in), 0.05), vel, om, prm)
     pos[a, 0] += vel[a, 0] * s
     pos[a, 1] += vel[a, 1] * s
     classify(a, vel, om, st, prm)
@@ -379,6 +414,9 @@ def run_fixed(pos, vel, om, st, prm, lines, circles, drops, frame, start, items,
         classify(i, vel, om, st, prm)
     _snapshot(pos, st, pos_check, st_check)
     n_before = lines.shape[0] + circles.shape[0]
+    pos_t = np.empty((n, 2))
+    members = np.empty(n, dtype=np.int64)
+    touched = np.empty((max(n * (n - 1) // 2, 1), 2), dtype=np.int64)
     steps = 0
     impacts = 0
     checked = False
@@ -398,7 +436,10 @@ def run_fixed(pos, vel, om, st, prm, lines, circles, drops, frame, start, items,
             s, kind, a, b = _earliest(pos, vel, st, prm, lines, circles, frame, start, items, h)
             if kind == NONE:
                 break
-            _resolve(s, kind, a, b, pos, vel, om, st, prm, lines, circles)
+            if kind == PAIR:
+                _resolve_pair(s, a, b, pos, vel, om, st, prm, pos_t, members, touched)
+            else:
+                _resolve(s, kind, a, b, pos, vel, om, st, prm, lines, circles)
             impacts += 1
         if not checked and t >= t_check - 0.5 * h:
             checked = True
