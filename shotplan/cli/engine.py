@@ -26,8 +26,8 @@ NOTICE_VARIABLE = "SHOTPLAN_COMPILE_NOTICE"
 from (``jit.NOTICE_VARIABLE``; written here too so that setting it does not
 load numba)."""
 
-COMPILE_NOTICE = ("shotplan: compiling the physics engine; this happens once "
-                  "(make run or make test does it in set-up)...")
+COMPILE_NOTICE = ("shotplan: compiling the physics engine (about half a minute); this "
+                  "happens once (make run or make test does it in set-up)...")
 """The one line on stderr when a command has to compile the engine."""
 
 
@@ -117,8 +117,8 @@ def main() -> int:
 
     def say() -> None:
         compiled.append(True)
-        print("compiling the physics engine (once; later commands load it from "
-              "~/.cache/shotplan)...", file=sys.stderr, flush=True)
+        print("compiling the physics engine (once, about half a minute; later commands "
+              "load it from ~/.cache/shotplan)...", file=sys.stderr, flush=True)
 
     t0 = time.perf_counter()
     compile_all(say)
