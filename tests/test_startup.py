@@ -12,6 +12,7 @@ import subprocess
 import sys
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from shotplan.physics import jit
@@ -124,3 +125,33 @@ def test_the_set_up_says_whether_it_compiled_or_loaded() -> None:
     assert second.stderr.strip().splitlines() == [
         next(line for line in second.stderr.splitlines() if line.startswith("physics engine"))]
     assert "loaded from" in second.stderr and "compiling" not in second.stderr
+
+
+@pytest.mark.skipif(not jit.JIT_ENABLED, reason="numba is off")
+def test_a_compile_after_loading_from_the_cache_still_works(tmp_path: Path) -> None:
+    # Cached kernels load without numba's registry refresh (jit._LoadOnlyCache);
+    # a compile later in the same process must still find every typing and
+    # lowering it needs. A fresh process loads the engine from the (warm)
+    # cache, then compiles a kernel of its own that uses numpy arrays, math
+    # and a call into a cached kernel, for argument types never compiled
+    # before; its answer is checked against numpy.roots (reference library).
+    code = (
+        "import numpy as np\n"
+        "from shotplan.cli.engine import compile_all\n"
+        "compile_all()\n"
+        "from shotplan.physics import jit, roots\n"
+        "@jit.jit\n"
+        "def fresh(c, h):\n"
+        "    buf = np.zeros(roots.SCRATCH_LEN)\n"
+        "    n = roots.real_roots(c, 2, 0.0, h, buf)\n"
+        "    return np.array([buf[k] for k in range(n)])\n"
+        "got = fresh(np.array([-2.0, 0.0, 1.0], dtype=np.float64), 10.0)\n"
+        "import json\n"
+        "print(json.dumps(sorted(float(x) for x in got)))\n")
+    script = tmp_path / "fresh_kernel.py"  # numba caches only kernels defined in a file
+    script.write_text(code, encoding="utf-8")
+    out = subprocess.run([sys.executable, str(script)], capture_output=True, text=True,
+                         check=True, cwd=ROOT).stdout
+    got = json.loads(out)
+    want = sorted(r.real for r in np.roots([1.0, 0.0, -2.0]) if r.real >= 0.0)
+    assert got == pytest.approx(want, abs=1e-12)
