@@ -22,7 +22,9 @@ in the one shape shotplan uses, ``progress(done, total)``, as blocks finish,
 counted in the blocks' ``sizes``; ``on_result(k, result)`` sees each block's
 result as it arrives (to keep it on disk, say). Ctrl-C in the parent stops the workers at
 once (they ignore SIGINT themselves, so they print nothing) and raises
-:class:`KeyboardInterrupt` in the caller, with nothing half-returned.
+:class:`KeyboardInterrupt` in the caller, with nothing half-returned. A
+parent killed outright (``kill -9``) cannot stop them: each worker then
+notices, within :data:`PARENT_CHECK_S`, that its parent is gone and ends.
 """
 
 from __future__ import annotations
@@ -34,7 +36,7 @@ from collections.abc import Callable, Sequence
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from typing import Any, TypeVar
 
-__all__ = ["Progress", "default_workers", "split", "map_blocks"]
+__all__ = ["Progress", "PARENT_CHECK_S", "default_workers", "split", "map_blocks"]
 
 Progress = Callable[[int, int], None]
 """``progress(done, total)``: the work done so far and the whole."""
@@ -87,8 +89,27 @@ _SHARED: list[Any] = []
 """What the caller shares with every block, in a worker process."""
 
 
-def _start_worker(shared: Any) -> None:
+PARENT_CHECK_S = 0.5
+"""How often a worker looks whether the process that started it is still there, s."""
+
+
+def _watch_parent(parent: int) -> None:
+    """End this worker when its parent is gone (killed outright, so it never
+    stopped its pool): a worker waiting for work would otherwise wait for
+    ever, holding its memory."""
+    import time
+
+    while os.getppid() == parent:
+        time.sleep(PARENT_CHECK_S)
+    os._exit(1)
+
+
+def _start_worker(shared: Any, parent: int) -> None:
+    import threading
+
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # the parent handles Ctrl-C
+    threading.Thread(target=_watch_parent, args=(parent,), daemon=True,
+                     name="shotplan-parent-watch").start()
     _SHARED[:] = [shared]
 
 
@@ -172,7 +193,7 @@ def map_blocks(func: Callable[[Any, B], R], blocks: Sequence[B], shared: Any = N
             arrived(k, func(shared, block))
         return results
     pool = ProcessPoolExecutor(max_workers=n, mp_context=_context(), initializer=_start_worker,
-                               initargs=(shared,))
+                               initargs=(shared, os.getpid()))
     try:
         pending: dict[Future[Any], int] = {pool.submit(_call, func, b): k
                                            for k, b in enumerate(blocks)}

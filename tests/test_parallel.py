@@ -123,3 +123,51 @@ def test_on_a_dask_cluster_the_same_numbers_and_each_result_as_it_arrives() -> N
 def test_sizes_must_match_the_blocks() -> None:
     with pytest.raises(ValueError, match="2 sizes for 3 blocks"):
         map_blocks(_square, [1, 2, 3], sizes=[1, 1], workers=0)
+
+
+def _ended(pid: int) -> bool:
+    """No such process, or one that has ended and waits to be reaped."""
+    try:
+        state = Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()[0]
+    except (FileNotFoundError, ProcessLookupError, IndexError):
+        return True
+    return state in ("Z", "X")
+
+
+@pytest.mark.skipif(not Path("/proc/self/stat").exists(), reason="needs /proc (Linux)")
+def test_workers_end_when_their_parent_is_killed_outright(tmp_path: Path) -> None:
+    # A parent killed with SIGKILL cannot stop its pool; its workers must not
+    # wait for work for ever (found: drill processes left behind by the test
+    # that kills a sheet write). Each worker writes its pid, then blocks sleep.
+    import os
+    import signal
+    import subprocess
+    import sys
+
+    script = tmp_path / "parent.py"
+    script.write_text(
+        "import os, sys, time\n"
+        "from pathlib import Path\n"
+        "from shotplan.parallel import map_blocks\n"
+        "def block(folder, k):\n"
+        "    Path(folder, f'{os.getpid()}.pid').write_text('')\n"
+        "    time.sleep(60)\n"
+        "    return k\n"
+        "if __name__ == '__main__':\n"
+        "    map_blocks(block, list(range(4)), sys.argv[1], workers=2)\n", encoding="utf-8")
+    parent = subprocess.Popen([sys.executable, str(script), str(tmp_path)])
+    deadline = time.monotonic() + 60.0
+    pids: list[int] = []
+    while len(pids) < 2 and time.monotonic() < deadline:
+        time.sleep(0.1)
+        pids = [int(p.stem) for p in tmp_path.glob("*.pid")]
+    assert len(pids) == 2, "the workers did not start"
+    os.kill(parent.pid, signal.SIGKILL)
+    parent.wait()
+    deadline = time.monotonic() + 10.0
+    while not all(_ended(p) for p in pids) and time.monotonic() < deadline:
+        time.sleep(0.1)
+    left = [p for p in pids if not _ended(p)]
+    for p in left:  # do not leave them behind even when the check fails
+        os.kill(p, signal.SIGKILL)
+    assert left == []
