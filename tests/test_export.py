@@ -12,11 +12,19 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from matplotlib.figure import Figure
 from PIL import Image
 
 from shotplan import InputError, Table, TableSpec
-from shotplan.render.export import Page, render_png_bytes, write_pages, write_scene
+from shotplan.render.export import (
+    Page,
+    render_png_bytes,
+    wrap_text,
+    write_pages,
+    write_scene,
+)
 from shotplan.render.scene import CircleShape, PolylineShape, Scene, TextShape
 from shotplan.render.table_shapes import layout_scene, table_scene
 
@@ -389,6 +397,55 @@ def test_wrap_text_hand_worked():
     text = "a b c d e f g h i j k l m n o p q r s t"
     lines = wrap_text(text, 10, 100)
     assert len(lines) > 1 and " ".join(lines) == text
+
+
+def _wrap_measuring_every_line(text: str, size_pt: float, width_pt: float,
+                               bold: bool) -> list[str]:
+    """The reference: greedy breaks, every candidate line measured by
+    matplotlib's own text layout (TextToPath, with kerning and bearings)."""
+    from matplotlib.font_manager import FontProperties
+    from matplotlib.textpath import TextToPath
+
+    ttp = TextToPath()
+    prop = FontProperties(size=size_pt, weight="bold" if bold else "normal")
+    out: list[str] = []
+    for paragraph in text.split("\n"):
+        line = ""
+        for word in paragraph.split(" "):
+            trial = f"{line} {word}" if line else word
+            if not line or ttp.get_text_width_height_descent(trial, prop, False)[0] <= width_pt:
+                line = trial
+            else:
+                out.append(line)
+                line = word
+        out.append(line)
+    return out
+
+
+_WORDS = __import__("pathlib").Path(__file__).resolve().parents[1].joinpath(
+    "README.md").read_text(encoding="utf-8").split()
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.lists(st.sampled_from(_WORDS), min_size=20, max_size=60),
+       st.floats(5.0, 14.0), st.floats(20.0, 600.0), st.booleans())
+def test_wrap_text_breaks_as_measuring_every_line(words, size, width, bold):
+    # wrap_text settles lines far from the width by advance widths; its
+    # breaks must be those of measuring every line (the README's own words,
+    # with its symbols, at sizes and widths of scenes and sheets).
+    text = " ".join(words)
+    assert wrap_text(text, size, width, bold) == _wrap_measuring_every_line(text, size, width,
+                                                                          bold)
+
+
+@pytest.mark.filterwarnings("ignore:Glyph")  # matplotlib: "missing from font(s)"
+@settings(max_examples=60, deadline=None)
+@given(st.text(st.characters(codec="utf-8", exclude_categories=("Cs", "Cc")), min_size=1,
+               max_size=80),
+       st.floats(5.0, 14.0), st.floats(10.0, 300.0))
+def test_wrap_text_any_characters(text, size, width):
+    # Glyphs the face lacks (drawn by a fallback) are always measured.
+    assert wrap_text(text, size, width) == _wrap_measuring_every_line(text, size, width, False)
 
 
 def test_render_api_is_documented():

@@ -41,7 +41,8 @@ from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.collections import PatchCollection
 from matplotlib.colors import to_rgba
 from matplotlib.figure import Figure
-from matplotlib.font_manager import FontProperties
+from matplotlib.font_manager import FontProperties, findfont, get_font
+from matplotlib.ft2font import LoadFlags
 from matplotlib.lines import Line2D
 from matplotlib.path import Path as MplPath
 from matplotlib.textpath import TextToPath
@@ -103,6 +104,11 @@ _PAGE_MARGIN_IN = 0.6
 _PAGE_LINE_PT = 10.0
 
 # Metadata without dates or versions, so that a figure always gives the same bytes.
+PNG_COMPRESS_LEVEL = 3
+"""zlib's level for PNG files: on a drill sheet's page, 12 % faster to write
+than Pillow's default 6, for files 0.3 % larger (measured; level 1: the same
+time, 3.5 % larger)."""
+
 _METADATA: dict[str, dict[str, Any]] = {
     "png": {"Software": "shotplan"},
     "svg": {"Date": None, "Creator": "shotplan"},
@@ -163,6 +169,29 @@ _TEXT_PATHS = TextToPath()
 _TITLE_SPACING = 1.25
 _NOTE_SPACING = 1.4
 _LINE_SPACING = 1.5
+_ADVANCES: dict[tuple[bool, str], float] = {}
+_ADVANCE_MARGIN_EM = 1.5
+"""How far (in ems) a sum of advance widths may be from the measured width
+and still settle a line break without measuring. Seen at most 0.42 em over
+6,000 random lines of the README's words, from side bearings and kerning."""
+
+
+def _advance_em(ch: str, bold: bool) -> float:
+    """The advance of ``ch`` in ems of the default face, or NaN where the face
+    has no glyph for it (then the text is always measured)."""
+    key = (bold, ch)
+    a = _ADVANCES.get(key)
+    if a is None:
+        prop = FontProperties(size=_TEXT_PATHS.FONT_SCALE, weight="bold" if bold else "normal")
+        font = get_font(findfont(prop))
+        font.set_size(_TEXT_PATHS.FONT_SCALE, _TEXT_PATHS.DPI)
+        if font.get_char_index(ord(ch)) == 0:
+            a = math.nan
+        else:
+            glyph = font.load_char(ord(ch), flags=LoadFlags.NO_HINTING)
+            a = glyph.linearHoriAdvance / 65536.0 / _TEXT_PATHS.FONT_SCALE
+        _ADVANCES[key] = a
+    return a
 
 
 def wrap_text(text: str, size_pt: float, width_pt: float, bold: bool = False) -> list[str]:
@@ -170,7 +199,10 @@ def wrap_text(text: str, size_pt: float, width_pt: float, bold: bool = False) ->
 
     Lines break at spaces and at each newline; a single word wider than the
     width stays whole. Widths come from the font's own metrics (matplotlib's
-    default face), so the layout does not depend on a renderer.
+    default face), so the layout does not depend on a renderer. A line far
+    from the width either way is settled by its characters' advance widths;
+    one near it is measured as drawn (with kerning and side bearings), so the
+    breaks are those of measuring every line.
 
     Parameters
     ----------
@@ -191,17 +223,34 @@ def wrap_text(text: str, size_pt: float, width_pt: float, bold: bool = False) ->
     if not text:
         return []
     prop = FontProperties(size=size_pt, weight="bold" if bold else "normal")
+    margin = _ADVANCE_MARGIN_EM * size_pt
+    space = _advance_em(" ", bold) * size_pt
+
+    def fits(trial: str, approx: float) -> bool:
+        if approx == approx:  # not NaN: every glyph known
+            if approx <= width_pt - margin:
+                return True
+            if approx > width_pt + margin:
+                return False
+        return bool(_TEXT_PATHS.get_text_width_height_descent(trial, prop, ismath=False)[0]
+                    <= width_pt)
+
     out: list[str] = []
     for paragraph in text.split("\n"):
         line = ""
+        line_w = 0.0
         for word in paragraph.split(" "):
-            trial = f"{line} {word}" if line else word
-            if not line or _TEXT_PATHS.get_text_width_height_descent(
-                    trial, prop, ismath=False)[0] <= width_pt:
-                line = trial
+            word_w = sum(_advance_em(c, bold) for c in word) * size_pt
+            if not line:
+                line, line_w = word, word_w
+                continue
+            trial = f"{line} {word}"
+            trial_w = line_w + space + word_w
+            if fits(trial, trial_w):
+                line, line_w = trial, trial_w
             else:
                 out.append(line)
-                line = word
+                line, line_w = word, word_w
         out.append(line)
     return out
 
@@ -589,7 +638,9 @@ def figure_bytes(fig: Figure, fmt: str, dpi: float = 150) -> bytes:
     # SVG ids (of clip paths: a chart's axes clip their lines) are random
     # unless salted: a fixed salt keeps them the same from run to run.
     with rc_context({"svg.hashsalt": "shotplan"}):
-        fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=PAPER)
+        extra: dict[str, Any] = ({"pil_kwargs": {"compress_level": PNG_COMPRESS_LEVEL}}
+                                 if fmt == "png" else {})
+        fig.savefig(buf, format=fmt, dpi=dpi, metadata=_METADATA[fmt], facecolor=PAPER, **extra)
     return buf.getvalue()
 
 
