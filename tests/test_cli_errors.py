@@ -414,12 +414,20 @@ def test_an_unwritable_output_names_the_path_typed(tmp_path, monkeypatch, capsys
     (["study", "aim", "--step", "1e-9"], "--step: 1e-09 deg gives 9e+10 angles"),
     (["study", "window", "--distances", *[str(0.1 * k) for k in range(1, 14)]],
      "--distances: 13 values, at most 12"),
-    (["drill", str(ROOT / "assets" / "drills" / "club-night-drills.json"), "--trials",
-      "1000000", "-o", "sheet.pdf"], "simulations, at most 10,000,000 are run"),
+    (["drill", "twelve.json", "--trials", "1000000", "-o", "sheet.pdf"],
+     "(and 2,000 for each of 2 other levels) make 12,048,000 simulations, at most "
+     "10,000,000 are run"),
 ])
 def test_sizes_a_user_types_are_limited(argv, fragment, tmp_path, monkeypatch, capsys):
     monkeypatch.chdir(tmp_path)
+    if "twelve.json" in argv:  # the demo drill's stations three times over: 12 stations
+        drill = json.loads((ROOT / "assets" / "drills" / "club-night-drills.json").read_text())
+        for st in drill["stations"]:
+            if isinstance(st["layout"], str):
+                st["layout"] = str(ROOT / "assets" / "drills" / st["layout"])
+        drill["stations"] *= 3
+        (tmp_path / "twelve.json").write_text(json.dumps(drill))
     assert main(argv) == 2
     out, err = capsys.readouterr()
     assert fragment in _assert_one_error_line(err, fragment, argv[0])
-    assert os.listdir(tmp_path) == []
+    assert os.listdir(tmp_path) == (["twelve.json"] if "twelve.json" in argv else [])

@@ -292,6 +292,34 @@ def test_progress_counts_every_trial_once(folder):
     assert len(result.stations) == 2 and len(result.compared) == 1
 
 
+def test_compared_levels_run_fewer_trials_on_the_same_draws(folder):
+    # A sheet's other levels run SHEET_COMPARE_TRIALS (or fewer) trials, on
+    # the own level's plans; those are the first trials of that level's
+    # full run: the same finishes, one by one.
+    drill = load_drill(write(folder, BASE))
+    calls: list[tuple[int, int]] = []
+    result = run_drill(drill, LEVELS["club"], trials=60, seed=3, compare=[LEVELS["starter"]],
+                       compare_trials=25, workers=0,
+                       progress=lambda done, total: calls.append((done, total)))
+    assert calls[0] == (0, (60 + 25) * 2) and calls[-1] == ((60 + 25) * 2,) * 2
+    full = run_drill(drill, LEVELS["club"], trials=60, seed=3, compare=[LEVELS["starter"]],
+                     workers=0)
+    (level, rows), = result.compared
+    assert level == LEVELS["starter"]
+    for got, want in zip(rows, full.compared[0][1], strict=True):
+        assert got.trials == 25 and want.trials == 60
+        np.testing.assert_array_equal(got.finishes, want.finishes[:25])
+    for got, want in zip(result.stations, full.stations, strict=True):
+        assert got.trials == 60
+        np.testing.assert_array_equal(got.finishes, want.finishes)
+    doc = result.to_dict()
+    assert doc["trials"] == 60 and doc["compared"][0]["trials"] == 25
+    # never more than the drill's own
+    more = run_drill(drill, LEVELS["club"], trials=20, seed=3, compare=[LEVELS["starter"]],
+                     compare_trials=2000, workers=0)
+    assert all(r.trials == 20 for r in more.compared[0][1])
+
+
 # ---------------------------------------------------------- the command
 def test_drill_command_json_and_sheet(folder, capsys):
     path = write(folder, BASE)

@@ -136,29 +136,35 @@ def run_drill_command(args: argparse.Namespace) -> int:
     """
     from pathlib import Path
 
-    from ..drills import LEVELS, SHEET_LEVELS, load_drill, run_drill
-    from ..render.sheet import check_stations_folder, stations_folder
-    from ..render.stations import write_sheet
+    from ..drills import LEVELS, SHEET_COMPARE_TRIALS, SHEET_LEVELS, load_drill, run_drill
     from .engine import engine_ready
 
     errors = player_errors(args)
     out = None
-    if args.output is not None:
+    if args.output is not None:  # matplotlib is imported only for a sheet
+        from ..render.sheet import check_stations_folder, stations_folder
+
         out = check_output_path(args.output, (".pdf",))  # before any work
         check_stations_folder(stations_folder(Path(out)))
     drill = load_drill(args.drill)
     compare = [LEVELS[n] for n in SHEET_LEVELS if LEVELS[n] != errors] if out is not None else []
-    total = args.trials * len(drill.stations) * (1 + len(compare))
+    other = min(args.trials, SHEET_COMPARE_TRIALS)
+    total = (args.trials + other * len(compare)) * len(drill.stations)
     if total > MAX_TOTAL_TRIALS:
+        levels = f" (and {other:,} for each of {len(compare)} other levels)" if compare else ""
         raise InputError(f"--trials: {args.trials} trials at each of {len(drill.stations)} "
-                         f"stations{' for ' + str(1 + len(compare)) + ' levels' if compare else ''}"
-                         f" make {total:,} simulations, at most {MAX_TOTAL_TRIALS:,} are run; "
-                         "give fewer --trials")
+                         f"stations{levels} make {total:,} simulations, at most "
+                         f"{MAX_TOTAL_TRIALS:,} are run; give fewer --trials")
     engine_ready(drill.stations[0].layout)  # says so if it must compile
     with progress_bar("drill") as bar:
         result = run_drill(drill, errors, args.trials, args.seed, progress=bar,
-                           source=args.drill, compare=compare, workers=args.workers)
-    written = write_sheet(result, out, dpi=args.dpi) if out is not None else []
+                           source=args.drill, compare=compare, workers=args.workers,
+                           compare_trials=SHEET_COMPARE_TRIALS)
+    written = []
+    if out is not None:
+        from ..render.stations import write_sheet
+
+        written = write_sheet(result, out, dpi=args.dpi)
     if args.json:
         doc = result.to_dict()
         if written:

@@ -79,6 +79,7 @@ from .drill_file import (
 )
 from .rates import (
     BLOCK_TRIALS,
+    SHEET_COMPARE_TRIALS,
     SHEET_LEVELS,
     Z95,
     DrillResult,
@@ -99,6 +100,7 @@ __all__ = [
     "LEVELS",
     "DEFAULT_LEVEL",
     "SHEET_LEVELS",
+    "SHEET_COMPARE_TRIALS",
     "BLOCK_TRIALS",
     "DEFAULT_ATTEMPTS",
     "Z95",

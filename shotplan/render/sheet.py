@@ -401,8 +401,17 @@ def _draw_speed(ax: Axes, distance: float, table_length: float, word: str) -> No
 
 def _draw_rates(fig: Figure, box: tuple[float, float, float, float], size: tuple[float, float],
                 rows: Sequence[tuple[PlayerErrors, StationResult]], zone: bool,
-                trials: int) -> None:
-    ax = _panel(fig, box, size, f"Expected, {trials} simulated attempts per level")
+                own: PlayerErrors) -> None:
+    counts = {e.name: r.trials for e, r in rows}
+    trials = counts.get(own.name, 0)
+    others = {n for name, n in counts.items() if name != own.name}
+    counted = ""
+    if others and others != {trials}:
+        title = "Expected, from simulated attempts"
+        counted = f"{trials:,} attempts at {own.name}, {max(others):,} at each other level; "
+    else:
+        title = f"Expected, {trials:,} simulated attempts per level"
+    ax = _panel(fig, box, size, title)
     bw, bh = ax.get_xlim()[1], ax.get_ylim()[1]
     heads = ["level", "pocketed", "in the zone" if zone else "cue ball up", "both", "miscues"]
     xs = [bw * f for f in (0.0, 0.14, 0.36, 0.58, 0.8)]
@@ -419,9 +428,9 @@ def _draw_rates(fig: Figure, box: tuple[float, float, float, float], size: tuple
             ax.text(x, y, c, fontsize=font, va="top", color=_INK,
                     fontweight="bold" if c.endswith("!") else "normal")
         ax.plot([0, bw], [y + 0.03, y + 0.03], color=_PALE, lw=0.5)
-    ax.text(0, top - (len(rows) + 1) * step, "95 % interval in brackets; ! more than "
-            f"{100 * MISCUE_FLAG_RATE:g} % of attempts miscue: the tip is too near the edge",
-            fontsize=6.5, va="top", color=_INK)
+    ax.text(0, top - (len(rows) + 1) * step, f"{counted}95 % interval in brackets\n! more "
+            f"than {100 * MISCUE_FLAG_RATE:g} % of attempts miscue: the tip is too near the edge",
+            fontsize=6.5, va="top", color=_INK, linespacing=1.3)
 
 
 def _pct(rate: Any) -> str:
@@ -595,7 +604,7 @@ def page_figure(result: StationResult, k: int, n: int, title: str,
     bottom_key = _MARGIN + 1.05
     rates_h = max(min(top - bottom_key - 0.1, 1.4), 1.0)
     _draw_rates(fig, (_MARGIN, top - rates_h, usable_w * 0.6, rates_h), size_in, levels,
-                st.zone is not None, result.trials)
+                st.zone is not None, own)
     _draw_tally(fig, (_MARGIN + usable_w * 0.62, top - rates_h, usable_w * 0.38, rates_h),
                 size_in, attempts, st.zone is not None)
     _draw_key(fig, (_MARGIN, _MARGIN, usable_w, 0.95), size_in, st.zone is not None, own)
