@@ -185,3 +185,27 @@ def test_a_stun_ball_straight_in_follows_the_brute_force_reference() -> None:
         v, w = _law(v_in, w_in, S.e, S.mu_w, S.mu_s, SIN_T)
         assert math.hypot(v[0], v[1]) == pytest.approx(math.hypot(ve[0], ve[1]), rel=1e-3)
         assert np.max(np.abs(w - we)) <= 0.01 * np.max(np.abs(we))
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.floats(0.05, 6.0), st.floats(-1.0, 1.0), st.floats(-1.0, 1.0), st.floats(-1.0, 1.0),
+       st.floats(0.5, 1.0), st.floats(0.0, 0.4))
+def test_reordered_arithmetic_moves_results_at_the_rounding_level_only(
+        speed: float, along: float, spin_x: float, spin_z: float, e: float, mu: float) -> None:
+    # The law is compiled with LLVM's reordering flags (physics.jit.REORDERED_MATH):
+    # against the same law run as plain Python, in the written order, every
+    # output agrees to 1e-9 of the scale (a thousand steps of rounding).
+    from shotplan.physics import collide
+    from shotplan.physics.jit import JIT_ENABLED
+
+    if not JIT_ENABLED:
+        pytest.skip("numba is off: nothing is compiled")
+    R, m = S.radius_m, S.mass_kg
+    v = (speed * along, speed * math.sqrt(1.0 - 0.5 * along * along), 0.0)
+    w = (spin_x * speed / R, 0.3 * speed / R, spin_z * speed / R)
+    args = (*v, *w, e, mu, 0.2, R, m, SIN_T, STEPS)
+    got = collide._frame_impact(*args)
+    want = collide._frame_impact.py_func(*args)
+    scale = [speed] * 3 + [speed / R] * 3 + [m * speed]
+    for g, x, s in zip(got, want, scale, strict=True):
+        assert abs(g - x) <= 1e-9 * s, (got, want)

@@ -28,7 +28,16 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any, TypeAlias, cast
 
-__all__ = ["jit", "JIT_ENABLED", "Kernel", "cache_dir", "on_first_compile", "NOTICE_VARIABLE"]
+__all__ = ["jit", "jit_reordered", "REORDERED_MATH", "JIT_ENABLED", "Kernel", "cache_dir",
+           "on_first_compile", "NOTICE_VARIABLE"]
+
+REORDERED_MATH = frozenset({"arcp", "contract", "nsz", "reassoc"})
+"""The LLVM fast-math flags :func:`jit_reordered` allows: each only lets the
+compiler reorder arithmetic (a division as a multiplication by the
+reciprocal, a multiply and add fused, the sign of a zero ignored, sums
+reassociated), so results move at the rounding level. Not ``nnan`` or
+``ninf`` (a NaN or an infinity keeps its meaning in every test) and not
+``afn`` (library functions stay exact)."""
 
 Kernel: TypeAlias = Callable[..., Any]
 """The type of a kernel as the rest of the code sees it. numba infers a
@@ -206,8 +215,28 @@ if JIT_ENABLED:
             The compiled dispatcher (compiles on its first call, once per
             argument types).
         """
-        kernel = _OneSignature(py_func=func, locals={},
-                               targetoptions={"nopython": True, "nogil": True})
+        return _dispatcher(func, {"nopython": True, "nogil": True})
+
+    def jit_reordered(func: Callable[..., Any]) -> Kernel:
+        """:func:`jit`, with arithmetic the compiler may reorder
+        (:data:`REORDERED_MATH`): for a hot loop of scalar arithmetic whose
+        results need only hold to rounding.
+
+        Parameters
+        ----------
+        func : callable
+            The kernel, as :func:`jit` takes it.
+
+        Returns
+        -------
+        Kernel
+            Its dispatcher, compiled with those flags.
+        """
+        return _dispatcher(func, {"nopython": True, "nogil": True,
+                                  "fastmath": set(REORDERED_MATH)})
+
+    def _dispatcher(func: Callable[..., Any], options: dict[str, Any]) -> Kernel:
+        kernel = _OneSignature(py_func=func, locals={}, targetoptions=options)
         # what enable_caching() does, with the faster load
         cast(Any, kernel)._cache = cast(Callable[[Any], Any], _LoadOnlyCache)(func)
         return cast(Kernel, kernel)
@@ -228,3 +257,5 @@ else:
             ``func`` itself.
         """
         return func
+
+    jit_reordered = jit  # plain Python: nothing to reorder
