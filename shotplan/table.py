@@ -59,6 +59,9 @@ _CIRCUMSCRIBE = 1.0 / math.cos(math.pi / (4 * _QUAD_SEGS))
 """A polygon of that many sides drawn this much larger than a circle holds the circle."""
 _SAGITTA = _CIRCUMSCRIBE - 1.0
 """How far outside a circle such a polygon reaches, per metre of radius (about 4.7e-6)."""
+_LOCAL_REACH = 0.1
+"""Half-side of the square around a wanted spot searched first, m (a few ball
+diameters; farther answers come from the whole table)."""
 
 # Element kinds in Table.cushion_lines[:, 6]
 LINE_RAIL = 0
@@ -652,16 +655,12 @@ class Table:
         oth = np.asarray(others, dtype=float).reshape(-1, 2)
         if self._free(np.array([[tx, ty]]), oth)[0]:
             return (tx, ty)
-        two_r = 2.0 * self.ball_radius
-        area = self._spot_area
-        if len(oth):
-            discs = unary_union([Point(x, y).buffer(two_r * _CIRCUMSCRIBE, quad_segs=_QUAD_SEGS)
-                                 for x, y in oth])
-            area = area.difference(discs)
-        if area.is_empty:
+        near = self._polygon_nearest(tx, ty, oth, _LOCAL_REACH)
+        if near is None:
+            near = self._polygon_nearest(tx, ty, oth, None)
+        if near is None:
             return None
-        q = nearest_points(area, Point(tx, ty))[0]
-        qx, qy = float(q.x), float(q.y)
+        qx, qy = near
         d = math.hypot(qx - tx, qy - ty)
         if reach is not None and d > reach:
             return None
@@ -678,6 +677,39 @@ class Table:
             return None
         k = int(np.argmin(np.hypot(free[:, 0] - tx, free[:, 1] - ty)))
         return (float(free[k, 0]), float(free[k, 1]))
+
+    def _polygon_nearest(self, tx: float, ty: float, others: np.ndarray,
+                         half_side: float | None) -> tuple[float, float] | None:
+        """The nearest point to (tx, ty) of the polygon of legal spots less the
+        other balls' discs; ``None`` if there is none.
+
+        With ``half_side``, only within the square of that half-side around
+        the point, less only the discs that reach into it, and ``None`` unless
+        the point found is nearer than ``half_side``: then every nearer point
+        of the whole region lies in the square, so it is the whole region's
+        nearest too. While a ball is dragged into another, that is 10-20 times
+        cheaper than the whole table less every disc (a disc is a polygon of
+        ``4 * _QUAD_SEGS`` vertices).
+        """
+        disc_r = 2.0 * self.ball_radius * _CIRCUMSCRIBE
+        area = self._spot_area
+        if half_side is not None:
+            area = area.intersection(shapely.box(tx - half_side, ty - half_side,
+                                                 tx + half_side, ty + half_side))
+            reach = half_side + disc_r
+            others = others[(np.abs(others[:, 0] - tx) < reach)
+                            & (np.abs(others[:, 1] - ty) < reach)]
+        if len(others):
+            discs = unary_union([Point(x, y).buffer(disc_r, quad_segs=_QUAD_SEGS)
+                                 for x, y in others])
+            area = area.difference(discs)
+        if area.is_empty:
+            return None
+        q = nearest_points(area, Point(tx, ty))[0]
+        qx, qy = float(q.x), float(q.y)
+        if half_side is not None and math.hypot(qx - tx, qy - ty) >= half_side:
+            return None
+        return (qx, qy)
 
     def _exact_spots(self, target: tuple[float, float], near: tuple[float, float],
                      others: np.ndarray) -> np.ndarray:

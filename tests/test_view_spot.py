@@ -64,3 +64,47 @@ def test_new_layout_has_only_the_cue_ball_at_its_start_spot(preset):
     assert [b for b, _ in layout.balls] == ["cue"]
     # The start spots are legal places on every preset, so the cue ball is on it.
     assert layout.position("cue") == start_spot(spec)
+
+
+@pytest.mark.parametrize("square", [None, 0.3])
+@pytest.mark.parametrize("preset", ["pool-9ft", "snooker"])
+def test_a_ball_dropped_into_a_crowd_lands_no_farther_than_brute_force(preset, square,
+                                                                       monkeypatch):
+    # Where a dragged ball most often lands: on another ball, in a cluster of
+    # touching balls, or against a cushion. The search looks first within a
+    # small square around the target and falls back on the whole table; the
+    # rack's middle ball is farther from any free place than that square
+    # reaches, so both ways are taken. With the square shrunk to 0.3 ball
+    # radii, many first answers lie beyond its reach and must be turned down.
+    # Reference: the brute-force grid above.
+    from shotplan.racks import rack
+
+    spec = TableSpec.preset(preset)
+    table = Table(spec)
+    R = table.ball_radius
+    if square is not None:
+        monkeypatch.setattr("shotplan.table._LOCAL_REACH", square * R)
+    pos = rack("8-ball" if preset == "pool-9ft" else "snooker", spec)
+    crowd = np.array([xy for b, xy in pos.items() if b != "cue"])
+    rng = np.random.default_rng(20261205)
+    cases = [(crowd[k] + rng.normal(0.0, 0.2 * R, 2), crowd) for k in range(len(crowd))]
+    for _ in range(12):
+        pair = rng.uniform([0.2, 0.2], [table.length - 0.2, table.width - 0.2])
+        others = np.array([pair, pair + [2 * R, 0.0]])  # two touching balls
+        cases.append((pair + rng.uniform(-R, 3 * R, 2) * [1.0, 0.3], others))
+        rail = np.array([rng.uniform(0.3, table.length - 0.3), 0.5 * R])  # a ball on a rail
+        cases.append((rail + rng.normal(0.0, R, 2), np.array([rail + [2 * R, R]])))
+    # A patch of touching balls four rings deep: the nearest free place is
+    # beyond the small square, so the whole table is searched.
+    c = np.array([table.length / 2, table.width / 2])
+    patch = np.array([c + 2 * R * np.array([i + 0.5 * j, j * math.sqrt(3) / 2])
+                      for i in range(-4, 5) for j in range(-4, 5) if abs(i + j) <= 4])
+    cases.append((c + [0.1 * R, 0.0], patch))
+    for target, others in cases:
+        spot = table.nearest_legal_spot(target, others)
+        assert spot is not None
+        assert table.is_legal([spot])[0]
+        assert np.min(np.hypot(*(others - spot).T)) >= 2 * R - 1e-9
+        grid = _legal_grid(table, others)
+        best = float(np.min(np.hypot(*(grid - target).T)))
+        assert math.dist(spot, target) <= best + 1e-9

@@ -9,6 +9,7 @@ contrast against the cloth by the WCAG 2.1 formulas
 
 from __future__ import annotations
 
+import functools
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -216,6 +217,7 @@ def contrast_ratio(a: str, b: str) -> float:
     return (la + 0.05) / (lb + 0.05)
 
 
+@functools.lru_cache(maxsize=512)
 def _contrasting(colour: str, background: str, ratio: float = MIN_CONTRAST) -> str:
     """``colour`` mixed toward black (on a light background) or white (on a dark
     one) in small steps until it has ``ratio`` contrast against ``background``."""
@@ -228,6 +230,7 @@ def _contrasting(colour: str, background: str, ratio: float = MIN_CONTRAST) -> s
     return out
 
 
+@functools.lru_cache(maxsize=1024)
 def _far_apart(a: str, b: str) -> bool:
     """Whether two colours are told apart at a glance (a plain RGB distance;
     our own threshold)."""
