@@ -14,6 +14,7 @@ import numpy as np
 from .equipment import TableSpec
 from .errors import LayoutError, quoted
 from .layout import Layout
+from .placement import nearest_legal_spot
 from .table import table_for
 
 __all__ = ["RACKS", "start_spot", "new_layout", "rack"]
@@ -67,7 +68,7 @@ def new_layout(spec: TableSpec) -> Layout:
         The layout with the cue ball alone.
     """
     spot = start_spot(spec)
-    cue = table_for(spec).nearest_legal_spot(spot) or spot
+    cue = nearest_legal_spot(table_for(spec), spot) or spot
     return Layout(spec, (("cue", cue),))
 
 

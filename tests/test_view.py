@@ -21,6 +21,7 @@ import pytest
 from shotplan.cli import main
 from shotplan.equipment import TableSpec
 from shotplan.layout import Layout, load_layout
+from shotplan.placement import nearest_legal_spot
 from shotplan.render.scene import CircleShape
 from shotplan.table import Table
 from shotplan.view.app import App
@@ -117,14 +118,14 @@ def test_legal_spot_hand_worked():
     # disc's outside); a target beyond a straight rail goes to the line a
     # contact offset inside the nose (the nearest legal point of a half-plane).
     ob = (1.5, 0.6)
-    p = TABLE.nearest_legal_spot((1.49, 0.6), [ob])
+    p = nearest_legal_spot(TABLE, (1.49, 0.6), [ob])
     assert p == pytest.approx((1.5 - 2 * R, 0.6), abs=1e-6)
-    p = TABLE.nearest_legal_spot((1.0, -0.3), [])
+    p = nearest_legal_spot(TABLE, (1.0, -0.3), [])
     # (within 1e-6 m: the search's circles are polygons at most 4.7e-6 of a
-    # radius outside them, see shotplan.table._SAGITTA)
+    # radius outside them, see shotplan.placement._SAGITTA)
     assert p == pytest.approx((1.0, TABLE.contact_offset), abs=1e-6)
     # A point already legal stays exactly where it is.
-    assert TABLE.nearest_legal_spot((1.0, 0.6), [ob]) == (1.0, 0.6)
+    assert nearest_legal_spot(TABLE, (1.0, 0.6), [ob]) == (1.0, 0.6)
 
 
 def test_legal_spot_in_a_crowd_is_legal_and_clear():
@@ -132,7 +133,7 @@ def test_legal_spot_in_a_crowd_is_legal_and_clear():
 
     pos = rack("8-ball", SPEC)
     others = [xy for b, xy in pos.items() if b != "cue"]
-    p = TABLE.nearest_legal_spot(pos["5"], others)
+    p = nearest_legal_spot(TABLE, pos["5"], others)
     assert TABLE.is_legal([p])[0]
     assert min(math.dist(p, q) for q in others) >= 2 * R - 1e-9
 

@@ -1,4 +1,4 @@
-"""Where a dragged or added ball lands: Table.nearest_legal_spot against a
+"""Where a dragged or added ball lands: placement.nearest_legal_spot against a
 brute-force reference (a fine grid of every legal place, checked with the
 exact test Table.is_legal and the ball distances), on random targets among
 random balls. No spot it returns may be illegal, overlap a ball, or lie
@@ -13,6 +13,7 @@ import numpy as np
 import pytest
 
 from shotplan.equipment import TableSpec
+from shotplan.placement import nearest_legal_spot
 from shotplan.racks import new_layout, start_spot
 from shotplan.table import Table
 
@@ -38,7 +39,7 @@ def test_nearest_legal_spot_is_legal_clear_and_no_farther_than_brute_force(prese
         grid = _legal_grid(table, others)
         for _ in range(4):
             target = rng.uniform([-0.05, -0.05], [table.length + 0.05, table.width + 0.05])
-            spot = table.nearest_legal_spot(target, others)
+            spot = nearest_legal_spot(table, target, others)
             assert spot is not None
             assert table.is_legal([spot])[0]
             if len(others):
@@ -52,9 +53,9 @@ def test_a_full_table_has_no_spot_and_a_legal_target_stays():
     r2 = 2 * table.ball_radius
     xs, ys = np.arange(0, table.length + r2, r2 * 0.9), np.arange(0, table.width + r2, r2 * 0.9)
     crowd = np.stack(np.meshgrid(xs, ys), axis=-1).reshape(-1, 2)
-    assert table.nearest_legal_spot((1.0, 0.6), crowd) is None
-    assert table.nearest_legal_spot((1.0, 0.6), [(2.0, 0.6)]) == (1.0, 0.6)
-    assert table.nearest_legal_spot((1.0, -0.3), [], reach=0.1) is None  # 0.33 m away
+    assert nearest_legal_spot(table, (1.0, 0.6), crowd) is None
+    assert nearest_legal_spot(table, (1.0, 0.6), [(2.0, 0.6)]) == (1.0, 0.6)
+    assert nearest_legal_spot(table, (1.0, -0.3), [], reach=0.1) is None  # 0.33 m away
 
 
 @pytest.mark.parametrize("preset", ["pool-9ft", "snooker", "carom"])
@@ -83,7 +84,7 @@ def test_a_ball_dropped_into_a_crowd_lands_no_farther_than_brute_force(preset, s
     table = Table(spec)
     R = table.ball_radius
     if square is not None:
-        monkeypatch.setattr("shotplan.table._LOCAL_REACH", square * R)
+        monkeypatch.setattr("shotplan.placement._LOCAL_REACH", square * R)
     pos = rack("8-ball" if preset == "pool-9ft" else "snooker", spec)
     crowd = np.array([xy for b, xy in pos.items() if b != "cue"])
     rng = np.random.default_rng(20261205)
@@ -101,7 +102,7 @@ def test_a_ball_dropped_into_a_crowd_lands_no_farther_than_brute_force(preset, s
                       for i in range(-4, 5) for j in range(-4, 5) if abs(i + j) <= 4])
     cases.append((c + [0.1 * R, 0.0], patch))
     for target, others in cases:
-        spot = table.nearest_legal_spot(target, others)
+        spot = nearest_legal_spot(table, target, others)
         assert spot is not None
         assert table.is_legal([spot])[0]
         assert np.min(np.hypot(*(others - spot).T)) >= 2 * R - 1e-9

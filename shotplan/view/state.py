@@ -12,7 +12,7 @@ What is *derived* from the model (the simulated outcome, the window, the
 proposals) is worked out by :mod:`shotplan.view.predict`; the proposals are
 kept here because choosing one is an edit.
 
-:meth:`shotplan.table.Table.nearest_legal_spot` is how a dragged or added
+:func:`shotplan.placement.nearest_legal_spot` is how a dragged or added
 ball stays legal: the nearest place to where the pointer wants it that is on
 the bed, clear of every cushion and jaw and of every other ball (touching is
 allowed).
@@ -32,6 +32,7 @@ from ..errors import InputError, LayoutError
 from ..games import check_game
 from ..layout import Layout, Problem
 from ..physics.params import Physics
+from ..placement import nearest_legal_spot
 from ..racks import new_layout, rack, start_spot
 from ..search.carom import CaromShot
 from ..stroke import MAX_SPEED_MPS, Stroke
@@ -383,7 +384,7 @@ class ViewState:
 
     def move_ball(self, ball: str, xy: Sequence[float], coalesce: str | None = None
                   ) -> tuple[float, float] | None:
-        """Move ``ball`` as near ``xy`` as it may lie (see :meth:`shotplan.table.Table.nearest_legal_spot`);
+        """Move ``ball`` as near ``xy`` as it may lie (see :func:`shotplan.placement.nearest_legal_spot`);
         returns where it went, or ``None`` if there was no room.
 
         Parameters
@@ -400,7 +401,7 @@ class ViewState:
         (float, float) or None
         """
         self.layout.position(ball)  # raises LayoutError if absent
-        spot = self.table.nearest_legal_spot(xy, self._others(ball))
+        spot = nearest_legal_spot(self.table, xy, self._others(ball))
         if spot is None:
             return None
         self._apply(coalesce, layout=self.layout.with_ball(ball, spot))
@@ -452,7 +453,7 @@ class ViewState:
             raise LayoutError(f"ball {ball!r} is already on the table")
         if xy is None:
             xy = start_spot(self.layout.table, ball)
-        spot = self.table.nearest_legal_spot(xy, self._others(None))
+        spot = nearest_legal_spot(self.table, xy, self._others(None))
         if spot is None:
             raise LayoutError("no free place on the table for another ball")
         self._apply(None, layout=self.layout.with_ball(ball, spot))
