@@ -192,9 +192,9 @@ class Run:
             (event index, other ball), or (-1, -1) if it met none.
         """
         hit = self._collision_mask(i)
-        k = int(hit.argmax())  # the first True, or 0 when there is none
-        if not hit[k]:
+        if not hit.any():  # (also a run of no events: a stroke too slow to move)
             return -1, -1
+        k = int(hit.argmax())  # the first True
         return k, self.other_ball(k, i)
 
     def velocity_after(self, k: int, i: int) -> tuple[float, float]:
