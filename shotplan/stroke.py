@@ -62,7 +62,8 @@ class Stroke:
     """Cue elevation above horizontal, degrees."""
 
     @classmethod
-    def from_dict(cls, data: JSONValue, where: str = "stroke") -> Stroke:
+    def from_dict(cls, data: JSONValue, where: str = "stroke",
+                  labels: Mapping[str, str] | None = None) -> Stroke:
         """Build from a stroke object, checking every field.
 
         Parameters
@@ -72,6 +73,9 @@ class Stroke:
             required; ``side``, ``height``, ``elevation_deg`` optional).
         where : str, optional
             The place for messages (``'drill.json: stations[2].stroke'``).
+        labels : Mapping of str to str, optional
+            A field's own place for messages, where the user gave it another
+            way (``{"speed_mps": "--speed"}``); default ``where.field``.
 
         Returns
         -------
@@ -97,16 +101,19 @@ class Stroke:
         values = {}
         for key in STROKE_KEYS:
             if key in data:
-                values[key] = _number(data[key], f"{where}.{key}")
-        return cls(**values).checked(where)
+                values[key] = _number(data[key], _place(where, key, labels))
+        return cls(**values).checked(where, labels)
 
-    def checked(self, where: str = "stroke") -> Stroke:
+    def checked(self, where: str = "stroke",
+                labels: Mapping[str, str] | None = None) -> Stroke:
         """Self, after checking the ranges.
 
         Parameters
         ----------
         where : str, optional
             The place for messages.
+        labels : Mapping of str to str, optional
+            As for :meth:`from_dict`.
 
         Returns
         -------
@@ -119,20 +126,24 @@ class Stroke:
             For a speed, tip offset, elevation or direction out of range.
         """
         for key in STROKE_KEYS:
-            _number(getattr(self, key), f"{where}.{key}")
+            _number(getattr(self, key), _place(where, key, labels))
         if not 0.0 < self.speed_mps <= MAX_SPEED_MPS:
-            raise StrokeError(f"{where}.speed_mps: {self.speed_mps!r} is out of range, "
+            raise StrokeError(f"{_place(where, 'speed_mps', labels)}: {self.speed_mps!r} is "
+                              "out of range, "
                               f"must be above 0 and at most {MAX_SPEED_MPS} m/s")
         for key in ("side", "height"):
             v = getattr(self, key)
             if not -1.0 <= v <= 1.0:
-                raise StrokeError(f"{where}.{key}: {v!r} is out of range, must be between -1 "
+                raise StrokeError(f"{_place(where, key, labels)}: {v!r} is out of range, "
+                                  "must be between -1 "
                                   "and 1 ball radius")
         if not 0.0 <= self.elevation_deg <= 60.0:
-            raise StrokeError(f"{where}.elevation_deg: {self.elevation_deg!r} is out of range, "
+            raise StrokeError(f"{_place(where, 'elevation_deg', labels)}: "
+                              f"{self.elevation_deg!r} is out of range, "
                               "must be between 0 and 60 degrees")
         if abs(self.direction_deg) > 1e6:
-            raise StrokeError(f"{where}.direction_deg: {self.direction_deg!r} is too large")
+            raise StrokeError(f"{_place(where, 'direction_deg', labels)}: "
+                              f"{self.direction_deg!r} is too large")
         return self
 
     def to_dict(self) -> dict[str, float]:
@@ -166,6 +177,13 @@ class Stroke:
     def direction(self) -> float:
         """Direction in radians."""
         return math.radians(self.direction_deg)
+
+
+def _place(where: str, key: str, labels: Mapping[str, str] | None) -> str:
+    """Where a stroke field is named in a message (:meth:`Stroke.from_dict`)."""
+    if labels is not None and key in labels:
+        return labels[key]
+    return f"{where}.{key}"
 
 
 def _number(value: Any, where: str) -> float:

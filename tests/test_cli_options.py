@@ -40,7 +40,8 @@ def test_plan_options(capsys, option, value):
 
 
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
-@given(option=st.sampled_from(["--direction", "--speed", "--side", "--height", "--elevation"]),
+@given(option=st.sampled_from(["--direction", "--speed", "--side", "--height", "--elevation",
+                               "--max-events"]),
        value=NUMBERS)
 @example(option="--speed", value="1e-35")
 def test_simulate_options(capsys, option, value):
@@ -61,3 +62,34 @@ def test_bad_values_elsewhere(capsys, tmp_path, monkeypatch, argv):
     monkeypatch.chdir(tmp_path)
     assert run(argv, capsys) == 2
     assert not list(tmp_path.iterdir())
+
+
+@pytest.mark.parametrize("argv, start", [
+    # An option's error names the option as typed (found in a new-user trial:
+    # `--tip folow` said nothing of --tip, `simulate --speed -2` named a file
+    # field "stroke (options and layout).speed_mps").
+    (["plan", DEMO, "--tip", "folow"], "--tip: 'folow' is not a tip choice, must be one of"),
+    (["plan", DEMO, "--kinds", "masse"], "--kinds: 'masse' is not a kind of shot"),
+    (["plan", DEMO, "--speed", "-2"], "--speed: -2.0 m/s is out of range"),
+    (["plan", DEMO, "--side", "3"], "--side: 3.0 is beyond the miscue limit"),
+    (["simulate", DEMO, "--speed", "-2"], "--speed: -2.0 is out of range"),
+    (["simulate", DEMO, "--side", "2"], "--side: 2.0 is out of range"),
+    (["simulate", DEMO, "--elevation", "70"], "--elevation: 70.0 is out of range"),
+    (["simulate", DEMO, "--max-events", "5"], "--max-events: 5 is out of range, must be "
+                                              "between 10 and 1000000"),
+    (["simulate", DEMO, "--height", "0.9"], f"{DEMO}: stroke: tip side 0, height 0.9 at 0 deg"),
+])
+def test_an_option_error_names_the_option(capsys, argv, start):
+    assert main(argv) == 2
+    assert capsys.readouterr().err.startswith(f"shotplan: error: {start}")
+
+
+def test_max_events_stops_the_run(capsys):
+    # The 9-ball rack's break has far more than 10 events (its run is
+    # complete without the option).
+    rack = DEMO.replace("club-night-4-position-drill", "club-night-5-9ball-rack")
+    assert main(["simulate", rack, "--json"]) == 0
+    assert '"complete": true' in capsys.readouterr().out
+    assert main(["simulate", rack, "--max-events", "10", "--json"]) == 0
+    out = capsys.readouterr().out
+    assert '"complete": false' in out and "event limit (10 events" in out

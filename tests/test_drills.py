@@ -164,28 +164,30 @@ BAD = [
     ("no-stations", top(stations=None), "stations: missing"),
     ("stations-empty", top(stations=[]), "stations: the list is empty"),
     ("stations-object", top(stations={"a": 1}), "stations: must be a list"),
-    ("station-number", top(stations=[3]), "stations[0]: must be a station object"),
-    ("station-unknown", station0(zones={}), "stations[0]: unknown field 'zones'"),
-    ("no-name", station0(name=None), "stations[0]: name: missing"),
-    ("no-ball", station0(ball=None), "stations[0]: ball: missing"),
+    ("station-number", top(stations=[3]), "station 1 (stations[0]): must be a station object"),
+    ("station-unknown", station0(zones={}), "station 1 (stations[0]): unknown field 'zones'"),
+    ("no-name", station0(name=None), "station 1 (stations[0]): name: missing"),
+    ("no-ball", station0(ball=None), "station 1 (stations[0]): ball: missing"),
     ("unknown-pocket", station0(pocket="foot-centre"),
-     "stations[0]: pocket: \"foot-centre\" is not a pocket of the pool-9ft table, must be one of"),
-    ("ball-not-on-layout", station0(ball="9"), "stations[0]: ball: '9' is not on the layout"),
+     "station 1 (stations[0]): pocket: \"foot-centre\" is not a pocket of the pool-9ft table, "
+     "must be one of"),
+    ("ball-not-on-layout", station0(ball="9"),
+     "station 1 (stations[0]): ball: '9' is not on the layout"),
     ("ball-is-cue", station0(ball="cue"), "'cue' is the cue ball"),
-    ("ball-number", station0(ball=1), "ball: 1 is not a ball id"),
+    ("ball-number", station0(ball=1), "ball: 1 is a number; a ball id is written in quotes, one of \"1\""),
     ("zone-radius", station0(zone={"circle": [1.9, 0.9, 0]}), "zone.circle: radius 0 must be"),
     ("zone-kind", station0(zone={"oval": [1, 1]}), "zone: unknown field 'oval'"),
     ("zone-crossing", station0(zone={"polygon": [[1, 0.2], [1.5, 0.6], [1.5, 0.2], [1, 0.6]]}),
      "zone.polygon: the edges cross"),
     ("zone-off-table", station0(zone={"circle": [4.0, 3.0, 0.2]}), "zone: circle r 0.20 m at "
                                                                    "(4.00, 3.00) lies off the table"),
-    ("layout-missing", station0(layout="nowhere.json"), "stations[0]: layout: "),
+    ("layout-missing", station0(layout="nowhere.json"), "station 1 (stations[0]): layout: "),
     ("layout-number", station0(layout=5), "layout: 5 is not a layout"),
     ("inline-unknown", station0(layout={"table": "pool-9ft", "balls": {}, "bals": 1}),
-     "stations[0]: layout: unknown field 'bals'"),
+     "station 1 (stations[0]): layout: unknown field 'bals'"),
     ("inline-ball-off", station0(layout={"table": "pool-9ft",
                                          "balls": {"cue": [0.5, 0.5], "1": [3.0, 0.5]}}),
-     "stations[0]: layout: balls.1: [3.0, 0.5] is off the table"),
+     "station 1 (stations[0]): layout: balls.1: [3.0, 0.5] is off the table"),
     ("inline-version", station0(layout={"format": "shotplan-layout", "version": 3,
                                         "table": "pool-9ft", "balls": {"cue": [0.5, 0.5]}}),
      "layout: version: 3 is not supported"),
@@ -227,8 +229,8 @@ def test_layout_file_with_a_problem_names_both_files(folder, capsys):
     path = write(folder, station0(layout="overlap.json"))
     code, _out, err = run(capsys, "drill", path, "--trials", "5")
     assert code == 2
-    assert re.search(r"stations\[0\]: layout: .*overlap\.json: balls\.1: .* overlaps ball 'cue'",
-                     err), err
+    assert re.search(r"station 1 \(stations\[0\]\): layout: .*overlap\.json: balls\.1: "
+                     r".* overlaps ball 'cue'", err), err
 
 
 @pytest.mark.parametrize("argv, fragment", [
@@ -442,7 +444,7 @@ def test_messages_about_a_referenced_file_never_show_its_content(folder, capsys)
         path = write(folder, station0(layout=ref))
         code, out, err = run(capsys, "drill", path, "--trials", "5")
         assert code == 2 and out == ""
-        assert "not a shotplan layout file" in err and "stations[0]: layout:" in err
+        assert "not a shotplan layout file" in err and "station 1 (stations[0]): layout:" in err
         for word in ("api_token", "s3cr3t", "owner", "someone"):
             assert word not in err, err
     # a file with the right format but bad fields: still no unknown key names

@@ -111,6 +111,15 @@ def test_a_folder_is_never_replaced(tmp_path):
         atomic_write_bytes(tmp_path / "out.png", b"x")
 
 
+def test_a_folder_named_as_output_is_called_a_folder(tmp_path):
+    # A folder with no suffix once got "unsupported file type '(none)'"
+    # (found in a new-user trial of `draw -o FOLDER`).
+    (tmp_path / "pictures").mkdir()
+    with pytest.raises(InputError, match="pictures: is a folder, not a file; give a file name "
+                                         "ending in one of .png, .svg"):
+        check_output_path(tmp_path / "pictures", (".png", ".svg"))
+
+
 @pytest.mark.skipif(not POSIX, reason="file modes")
 def test_a_read_only_file_needs_force(tmp_path):
     ro = tmp_path / "kept.json"

@@ -144,3 +144,42 @@ def test_draw_shots_the_search_proposes_stay_inside_the_limit(elev: float) -> No
     for s in res.shots:
         phi = _numeric_angle(s.side, s.height, elev)
         assert phi is not None and phi <= math.asin(0.5) + 1e-9
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.floats(-0.9, 0.9), st.floats(-0.9, 0.9), st.floats(0.0, 59.0))
+def test_the_refusal_says_which_way_to_move_the_cue(a: float, b: float, elev: float) -> None:
+    # The message's advice, checked against the independent numeric angle
+    # (numpy.roots above): "raise the cue" must make the angle smaller with
+    # the cue 1 degree higher, "lower the cue" 1 degree lower, and the point
+    # it names as the aim (sin theta above centre) gives a zero angle.
+    if a * a + b * b > 0.95 or not is_miscue(a, b, elev, 0.5):
+        return
+    with pytest.raises(StrokeError) as info:
+        check_tip(a, b, elev, 0.5)
+    text = str(info.value)
+    here = _numeric_angle(a, b, elev)
+    if here is None:
+        return
+    for word, to in (("raise the cue", min(elev + 1.0, 60.0)),
+                     ("lower the cue", max(elev - 1.0, 0.5 * elev))):
+        if word in text:
+            moved = _numeric_angle(a, b, to)
+            assert moved is not None and moved < here, (word, a, b, elev)
+    aim = math.sin(math.radians(elev))
+    aimed = _numeric_angle(0.0, aim, elev)
+    assert aimed is not None and aimed == pytest.approx(0.0, abs=1e-6)
+    if f"{aim:.2f}" != "0.00":
+        assert f"{aim:.2f} R above centre" in text
+    else:
+        assert "move the tip towards centre" in text
+
+
+def test_a_tip_too_high_on_a_level_cue_is_not_told_to_go_higher() -> None:
+    # Found in a new-user trial: height 0.9 on a level cue was told "move the
+    # tip towards centre (or above it)". By hand: phi = asin(0.9) = 64.16 deg.
+    with pytest.raises(StrokeError) as info:
+        check_tip(0.0, 0.9, 0.0, 0.5)
+    text = str(info.value)
+    assert "64.2 deg off its normal" in text
+    assert "above it" not in text and "move the tip towards centre" in text

@@ -55,7 +55,8 @@ def add_search_options(p: argparse.ArgumentParser) -> None:
         The command's parser.
     """
     p.add_argument("--ball", action="append", metavar="ID",
-                   help="object ball to try (repeat for several; default: all)")
+                   help="object ball to try: shots that hit it first, and combinations "
+                        "that pocket it (repeat for several; default: all)")
     add_shot_options(p)
     p.add_argument("--side", type=float, default=0.0, metavar="F",
                    help="side offset in ball radii, + is right english (default 0)")
@@ -112,7 +113,11 @@ def run_search(args: argparse.Namespace, layout: Layout) -> SearchResult:
     return find_shots(layout, balls=args.ball, pockets=args.pocket, kinds=split_list(args.kinds),
                       speed=args.speed, tip=args.tip, side=args.side,
                       elevation_deg=args.elevation, allow_scratch=args.allow_scratch,
-                      player=player, rules=game_rules(args, layout))
+                      player=player, rules=game_rules(args, layout), labels=SEARCH_LABELS, pocketed_too=True)
+
+
+SEARCH_LABELS = {"kinds": "--kinds", "tip": "--tip", "speed": "--speed", "side": "--side"}
+"""The search's settings as :func:`add_search_options` names them, for messages."""
 
 
 SHOT_COLUMNS: tuple[Column, ...] = (
@@ -169,7 +174,7 @@ CAROM_COLUMNS: tuple[Column, ...] = (
 def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading: float) -> int:
     """``plan`` on a carom game: the carom search's shots, printed or as JSON."""
     from ..physics.run import StrokePlayer
-    from ..search.carom import find_caroms
+    from ..search.carom import SCAN_TIPS, find_caroms
 
     player = StrokePlayer.for_layout(layout, elevation=args.elevation)
     result = find_caroms(player, rules, speeds=[args.speed] if args.speed else None,
@@ -195,10 +200,39 @@ def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading
     if rows:
         for line in format_table(CAROM_COLUMNS, rows):
             print(line)
+    else:
+        pace = "at --speed" if args.speed else "at the search's own speeds"
+        print(f"why: none of the {result.simulations} strokes tried ({pace}, "
+              f"{len(SCAN_TIPS)} tips) scores under the {rules.source} rules")
     if args.explain:
         print("rejected: the carom scan lists no rejected candidates (a direction it tries "
               "scores or not; see the windows)")
     return EXIT_OK
+
+
+def why_no_shot(result: SearchResult) -> str:
+    """The line ``plan`` prints when it finds no shot: why, in a few groups.
+
+    Parameters
+    ----------
+    result : SearchResult
+        A search that found no shot.
+
+    Returns
+    -------
+    str
+        ``why: 37 candidates turned down: 30 a ball in the way, ...``.
+    """
+    from ..search.explain import reason_groups
+
+    if "note" in result.meta:
+        return f"why: {result.meta['note']}"
+    if not result.rejected:
+        return "why: no candidate to try (no object ball or pocket matches the options)"
+    groups = reason_groups([r.reason for r in result.rejected])
+    parts = ", ".join(f"{n} {words}" for words, n in groups)
+    return (f"why: {plural(len(result.rejected), 'candidate')} turned down: {parts} "
+            "(--explain lists each)")
 
 
 def run_plan(args: argparse.Namespace) -> int:
@@ -237,6 +271,8 @@ def run_plan(args: argparse.Namespace) -> int:
         rows = shot_rows(list(shots), layout.table.length_m, layout.table.width_m)
         for line in format_table(SHOT_COLUMNS, rows):
             print(line)
+    elif not args.explain:
+        print(why_no_shot(result))
     if args.explain and result.rejected:
         print("rejected:")
         for r in result.rejected:

@@ -3,8 +3,9 @@
 from __future__ import annotations
 
 import argparse
+import dataclasses
 
-from ..errors import InputError
+from ..errors import InputError, StrokeError
 from ..layout import load_layout
 from ..units import where_words
 from .common import EXIT_OK, emit_json, require_playable
@@ -33,6 +34,9 @@ def add_subcommands(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--height", type=float, metavar="F",
                    help="tip height in ball radii, + follow, - draw; 0.4 is natural roll")
     p.add_argument("--elevation", type=float, metavar="DEG", help="cue elevation, degrees")
+    p.add_argument("--max-events", type=int, metavar="N",
+                   help="stop the run after N events (default: the layout's physics value "
+                        "max_events, 4000 unless it sets one)")
     p.add_argument("--json", action="store_true", help="print JSON")
     p.set_defaults(run=run_simulate)
 
@@ -50,7 +54,8 @@ def run_simulate(args: argparse.Namespace) -> int:
     int
         The exit code.
     """
-    from ..physics import simulate
+    from ..physics import PHYSICS_BOUNDS, simulate
+    from ..physics.strike import check_tip
     from ..stroke import Stroke
     from .engine import engine_ready
 
@@ -64,9 +69,23 @@ def run_simulate(args: argparse.Namespace) -> int:
                          "and --speed")
     values = base.to_dict() if base is not None else {}
     values.update({k: v for k, v in given.items() if v is not None})
-    stroke = Stroke.from_dict(values, where="stroke (options and layout)")
+    options = {"direction_deg": "--direction", "speed_mps": "--speed", "side": "--side",
+               "height": "--height", "elevation_deg": "--elevation"}
+    stroke = Stroke.from_dict(values, where=f"{args.layout}: stroke",
+                              labels={k: v for k, v in options.items() if given[k] is not None})
     require_playable(layout, args.layout)
-    outcome = simulate(layout, stroke)
+    physics = layout.physics()
+    try:
+        check_tip(stroke.side, stroke.height, stroke.elevation_deg, physics.miscue_limit)
+    except StrokeError as e:
+        raise InputError(f"{args.layout}: {e}") from None
+    if args.max_events is not None:
+        lo, hi = PHYSICS_BOUNDS["max_events"]
+        if not lo <= args.max_events <= hi:
+            raise InputError(f"--max-events: {args.max_events} is out of range, must be "
+                             f"between {lo:.0f} and {hi:.0f}")
+        physics = dataclasses.replace(physics, max_events=args.max_events)
+    outcome = simulate(layout, stroke, physics)
     if args.json:
         emit_json(outcome.to_dict())
         return EXIT_OK

@@ -78,8 +78,9 @@ def resolve_atlas_zones(drill: Drill, workers: int | None = None,
                 "window_deg", spec.min_window_deg)
             label = atlas_zone_label(spec.ball, spec.min_window_deg)
             if region.is_empty:
-                raise LayoutError(f"stations[{k}]: zone: no cue-ball spot gives {label} once "
-                                  f"ball {st.ball} is down; ask for less (min_window_deg)")
+                raise LayoutError(f"station {k + 1} (stations[{k}]): zone: no cue-ball spot "
+                                  f"gives {label} once ball {st.ball} is down; ask for less "
+                                  "(min_window_deg)")
             done[key] = Zone.of_shape(region, label)
         stations.append(dataclasses.replace(st, zone=done[key]))
     return dataclasses.replace(drill, stations=tuple(stations))

@@ -268,7 +268,7 @@ class Drill:
             raise LayoutError(f"{where}: stations: {len(items)} stations, at most "
                               f"{MAX_STATIONS} are accepted")
         base = Path(base_dir)
-        stations = tuple(_station(item, f"{where}: stations[{i}]", base)
+        stations = tuple(_station(item, f"{where}: station {i + 1} (stations[{i}])", base)
                          for i, item in enumerate(items))
         return cls(title, stations, note, str(base),
                    attempts if attempts is not None else DEFAULT_ATTEMPTS)
@@ -348,9 +348,13 @@ def _station_layout(raw: Any, where: str, base: Path) -> tuple[Layout, str | Non
 def _station_ball(ball: Any, where: str, layout: Layout) -> str:
     ids = layout.ball_ids
     objects = [b for b in ids if b != "cue"]
+    choices = ", ".join(json.dumps(b) for b in objects) or "(none)"
+    if isinstance(ball, int | float) and not isinstance(ball, bool):
+        raise LayoutError(f"{where}: ball: {show_value(ball)} is a number; a ball id is "
+                          f"written in quotes, one of {choices}")
     if not isinstance(ball, str):
         raise LayoutError(f"{where}: ball: {show_value(ball)} is not a ball id, must be one of "
-                          f"{', '.join(objects) or '(none)'} (a string)")
+                          f"{choices} (in quotes)")
     if ball == "cue":
         raise LayoutError(f"{where}: ball: 'cue' is the cue ball, the ball to pocket must be "
                           f"an object ball: one of {', '.join(objects) or '(none)'}")

@@ -159,6 +159,9 @@ def check_output_path(path: str | os.PathLike[str], suffixes: tuple[str, ...] | 
     """
     p = Path(path)
     shown = show_path(p)
+    if suffixes is not None and os.path.isdir(p):
+        raise InputError(f"{shown}: is a folder, not a file; give a file name ending in one of "
+                         f"{', '.join(suffixes)}")
     if suffixes is not None and p.suffix.lower() not in suffixes:
         raise InputError(f"{shown}: unsupported file type {quoted(p.suffix or '(none)')}, "
                          f"must end in one of {', '.join(suffixes)}")

@@ -9,11 +9,11 @@ from __future__ import annotations
 import importlib
 from typing import Any
 
-from .params import PHYSICS_KEYS, Physics, ball_friction_fit
+from .params import PHYSICS_BOUNDS, PHYSICS_KEYS, Physics, ball_friction_fit
 from .state import EventKind, MotionState
 
 __all__ = [
-    "Physics", "PHYSICS_KEYS", "ball_friction_fit", "EventKind", "MotionState",
+    "Physics", "PHYSICS_KEYS", "PHYSICS_BOUNDS", "ball_friction_fit", "EventKind", "MotionState",
     "BallState", "Event", "Outcome", "Simulator", "simulate", "simulator_for",
     "Launch", "launch", "squirt_angle", "miscue_angle", "limit_angle", "check_tip",
     "is_miscue",

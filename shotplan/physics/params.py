@@ -20,7 +20,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from ..equipment import TableSpec
     from ..files.read import JSONValue
 
-__all__ = ["Physics", "PHYSICS_KEYS", "ball_friction_fit"]
+__all__ = ["Physics", "PHYSICS_KEYS", "PHYSICS_BOUNDS", "ball_friction_fit"]
 
 
 def ball_friction_fit(slip_speed_mps: float) -> float:
@@ -152,7 +152,7 @@ class Physics:
                 value = float(value)
             except OverflowError:
                 value = math.inf
-            lo, hi = _BOUNDS[key]
+            lo, hi = PHYSICS_BOUNDS[key]
             if key == "max_events" and math.isfinite(value) and value != int(value):
                 raise PhysicsError(f"{where}.{key}: {value!r} must be a whole number")
             if not math.isfinite(value) or not lo <= value <= hi:
@@ -218,7 +218,7 @@ class Physics:
 PHYSICS_KEYS: tuple[str, ...] = tuple(f.name for f in fields(Physics))
 """The keys a layout's ``physics`` object may hold."""
 
-_BOUNDS: dict[str, tuple[float, float]] = {
+PHYSICS_BOUNDS: dict[str, tuple[float, float]] = {
     "ball_restitution": (0.0, 1.0),
     "ball_friction": (0.0, 1.0),
     "cloth_sliding_friction": (0.01, 1.0),
@@ -237,3 +237,4 @@ _BOUNDS: dict[str, tuple[float, float]] = {
     "miscue_limit": (0.05, 0.95),
     "max_events": (10, 1_000_000),
 }
+"""The range each physics value may take, inclusive (lowest, highest)."""

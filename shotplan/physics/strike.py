@@ -97,8 +97,29 @@ def check_tip(side: float, height: float, elevation_deg: float, miscue_limit: fl
             f"stroke: tip side {side:g}, height {height:g} at {elevation_deg:g} deg elevation "
             f"meets the ball {math.degrees(phi):.1f} deg off its normal, beyond the limit "
             f"{math.degrees(lim):.1f} deg (miscue limit {miscue_limit:g} R); valid: an angle "
-            "within the limit, move the tip towards centre (or above it) or lower the cue"
+            f"within the limit: {_miscue_hint(side, height, elevation_deg)}"
         )
+
+
+def _miscue_hint(side: float, height: float, elevation_deg: float) -> str:
+    """What brings a miscueing tip back inside the limit.
+
+    The angle is zero where the cue's line passes through the ball's centre:
+    height ``sin(theta)``. With ``cos(phi) = c cos(theta) + b sin(theta)``
+    (:func:`~shotplan.stroke.miscue_angle`), ``d cos(phi) / d theta`` has the
+    sign of ``b - c tan(theta)``: raising the cue helps a tip above that line
+    and lowering it helps one below.
+    """
+    th = math.radians(elevation_deg)
+    aim = "centre" if f"{math.sin(th):.2f}" == "0.00" else (
+        f"{math.sin(th):.2f} R above centre, where the cue points at the ball's centre")
+    c = math.sqrt(max(1.0 - side * side - height * height, 0.0))
+    slope = height * math.cos(th) - c * math.sin(th)
+    if slope > 1e-12 and elevation_deg < 60.0:  # a stroke's elevation is at most 60 deg
+        return f"move the tip towards {aim}, or raise the cue"
+    if slope < -1e-12 and elevation_deg >= 0.05:  # a cue this level has no lower to go
+        return f"move the tip towards {aim}, or lower the cue"
+    return f"move the tip towards {aim}"
 
 
 def launch(stroke: Stroke, radius: float, mass: float, physics: Physics) -> Launch:

@@ -60,7 +60,7 @@ SPEED_STEP_MPS = 0.25
 SCAN_TIPS: tuple[tuple[float, float], ...] = ((0.0, 0.2), (0.3, 0.2), (-0.3, 0.2), (0.3, -0.2),
                                               (-0.3, -0.2))
 """(side, height) of the scan, ball radii: centre ball with a little follow,
-and half a tip of side either way with follow and with draw."""
+and 0.3 R of side either way with follow and with draw."""
 FAMILIES = ("bank shot", "around the table", "reverse", "ball-first")
 """The families, in the trade's words."""
 _SPEEDS = {"three-cushion": (3.5, 5.0), "straight-rail": (1.2, 2.0)}

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import re
 from collections.abc import Sequence
 from typing import TYPE_CHECKING
 
@@ -15,7 +16,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from ..table import Table
     from .candidates import Candidate
 
-__all__ = ["miss_reason", "ball_word", "cut_reason"]
+__all__ = ["miss_reason", "ball_word", "cut_reason", "reason_groups"]
 
 
 def ball_word(ids: Sequence[str], k: int) -> str:
@@ -88,3 +89,43 @@ def _after_contact(player: StrokePlayer, table: Table, cand: Candidate, run: Run
     elif any(int(run.event_kind[k]) == EV_CUSHION for k in mine):
         return f"ball {ids[last]} misses {pocket} and hits the cushion, ending {away:.0f} cm away"
     return f"ball {ids[last]} stops short of {pocket}, {away:.0f} cm from it"
+
+
+_RULE_CITED = re.compile(r"\(((?:WPA|WPBSA|UMB) [^()]*)\)$")
+
+
+def _group(reason: str) -> str:
+    """The group of a rejection reason, in a player's words."""
+    cited = _RULE_CITED.search(reason)
+    if cited:
+        return f"against the {cited.group(1)} rules"
+    if "blocked by" in reason:
+        return "a ball in the way"
+    if "cut" in reason or "pocket closed" in reason:
+        return "an angle that cannot be played"
+    if reason.startswith("scratches"):
+        return "the cue ball scratches"
+    if reason.startswith("window too narrow"):
+        return "a window too narrow to play"
+    return "missing in simulation"
+
+
+def reason_groups(reasons: Sequence[str]) -> list[tuple[str, int]]:
+    """The rejection reasons gathered into a few groups, most frequent first.
+
+    Parameters
+    ----------
+    reasons : sequence of str
+        The reasons (:attr:`shotplan.search.shots.Rejected.reason`).
+
+    Returns
+    -------
+    list of (str, int)
+        Each group's words (``a ball in the way``, ``against the WPA 9-ball
+        rules``...) and how many reasons fall in it.
+    """
+    counts: dict[str, int] = {}
+    for r in reasons:
+        g = _group(r)
+        counts[g] = counts.get(g, 0) + 1
+    return sorted(counts.items(), key=lambda kv: (-kv[1], kv[0]))

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import time
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from typing import Any
 
 import numpy as np
@@ -25,19 +25,31 @@ __all__ = ["find_shots", "aim_direct"]
 
 def _check_settings(kinds: Sequence[str], tip: str, speed: float | None, side: float,
                     height: float | None, phys: Physics,
-                    player: PlayerErrors | None, elevation_deg: float = 0.0) -> float:
-    """Raise InputError on a bad setting; returns the player's tip room."""
+                    player: PlayerErrors | None, elevation_deg: float = 0.0,
+                    labels: Mapping[str, str] | None = None) -> float:
+    """Raise InputError on a bad setting; returns the player's tip room.
+
+    ``labels`` names a setting as the user gave it (``{"tip": "--tip"}``);
+    a message about that setting starts with its label."""
+    def named(key: str, text: str) -> str:
+        if labels and key in labels:
+            return f"{labels[key]}: {text.removeprefix(key + ' ')}"
+        return text
+
     for k in kinds:
         if k not in KINDS:
-            raise InputError(f"{k!r} is not a kind of shot, must be one of {', '.join(KINDS)}")
+            raise InputError(named("kinds", f"{k!r} is not a kind of shot, must be one of "
+                                            f"{', '.join(KINDS)}"))
     if tip not in TIPS:
-        raise InputError(f"{tip!r} is not a tip choice, must be one of {', '.join(TIPS)}")
+        raise InputError(named("tip", f"{tip!r} is not a tip choice, must be one of "
+                                      f"{', '.join(TIPS)}"))
     if speed is not None and not 0.0 < speed <= 15.0:
-        raise InputError(f"speed {speed!r} m/s is out of range, must be above 0 and at most 15")
+        raise InputError(named("speed", f"speed {speed!r} m/s is out of range, must be above "
+                                        "0 and at most 15"))
     limit = phys.miscue_limit
     if not abs(side) <= limit:
-        raise InputError(f"side {side!r} is beyond the miscue limit, must be within "
-                         f"+-{limit:g} ball radii")
+        raise InputError(named("side", f"side {side!r} is beyond the miscue limit, must be "
+                                       f"within +-{limit:g} ball radii"))
     try:  # the one rule, elevation and all (physics.strike.check_tip)
         check_tip(side, 0.0 if height is None else height, elevation_deg, limit)
     except StrokeError as exc:
@@ -128,6 +140,8 @@ def find_shots(
     physics: Physics | None = None,
     player: PlayerErrors | None = None,
     rules: Rules | None = None,
+    labels: Mapping[str, str] | None = None,
+    pocketed_too: bool = False,
 ) -> SearchResult:
     """Every shot on the layout that pockets a ball, best first.
 
@@ -136,7 +150,8 @@ def find_shots(
     layout
         A :class:`shotplan.layout.Layout` with a cue ball.
     balls, pockets
-        Restrict to these object balls / pockets (default: all).
+        Restrict to these object balls / pockets (default: all). A ball is
+        the first object ball the cue ball meets, unless ``pocketed_too``.
     kinds
         Kinds of shot to try (see :data:`KINDS`).
     speed
@@ -159,10 +174,17 @@ def find_shots(
         by the rule, and every simulated stroke must be legal and score (a
         scratch is a foul whatever ``allow_scratch``). None (or the game
         ``any``): no rules.
+    pocketed_too
+        With ``balls``: also the combinations that pocket one of them off
+        another ball first (``--ball 9`` finds the 1-9 combination).
+    labels
+        The settings as the user named them, for messages (``{"tip":
+        "--tip"}``; keys ``kinds``, ``tip``, ``speed``, ``side``).
     """
     t_start = time.perf_counter()
     phys = physics if physics is not None else layout.physics()
-    room = _check_settings(kinds, tip, speed, side, height, phys, player, elevation_deg)
+    room = _check_settings(kinds, tip, speed, side, height, phys, player, elevation_deg,
+                           labels)
     sim = simulator_for(layout.table, phys)
     table = sim.table
     positions = layout.positions()
@@ -183,6 +205,12 @@ def find_shots(
     obj = _object_balls(ids, balls)
     board = Board(table, ids, pos, sp.cue, sim.radius, rails_of(table), max_cut_deg)
     cands, rejected = _candidates(board, obj, pocket_ids, kinds)
+    if pocketed_too and balls and "combination" in kinds:
+        # Combinations that pocket a wanted ball off another ball first.
+        others = [b for b in _object_balls(ids, None) if b not in obj]
+        more, more_out = _candidates(board, others, pocket_ids, ("combination",))
+        cands += [c for c in more if c.last in obj]
+        rejected += [r for r in more_out if r.balls[-1] in balls]
     if rules is not None and rules.game == "any":
         rules = None
     if rules is not None:
