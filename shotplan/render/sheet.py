@@ -42,7 +42,6 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from matplotlib import patches
-from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 
 from ..errors import InputError
@@ -51,6 +50,7 @@ from ..parallel import map_blocks
 from ..players import MISCUE_FLAG_RATE, PlayerErrors, tip_room
 from ..stroke import speed_word
 from .export import draw_scene, figure_bytes, new_figure, pdf_bytes, wrap_text
+from .panel import Panel
 
 if TYPE_CHECKING:
     from ..drills import DrillResult, StationPlan, StationResult
@@ -303,21 +303,17 @@ def aim_words(pic: AimPicture) -> list[str]:
 
 # ------------------------------------------------------------------ panels
 def _panel(fig: Figure, box: tuple[float, float, float, float], size: tuple[float, float],
-           title: str) -> Axes:
+           title: str) -> Panel:
     w, h = size
     x, y, bw, bh = box
     title_in = 0.2
     fig.text(x / w, (y + bh) / h, title, fontsize=_FONT + 0.5, color=_INK, va="top",
              ha="left", fontweight="bold")
-    ax = fig.add_axes((x / w, y / h, bw / w, (bh - title_in) / h))
-    ax.set_axis_off()
-    # Data units are inches from the axes' lower left, unless a panel sets its own.
-    ax.set_xlim(0, bw)
-    ax.set_ylim(0, bh - title_in)
-    return ax
+    # Data units are inches from the panel's lower left, unless a panel sets its own.
+    return Panel(fig, (x, y, bw, bh - title_in))
 
 
-def _draw_rail(ax: Axes, pic: AimPicture) -> None:
+def _draw_rail(ax: Panel, pic: AimPicture) -> None:
     """A kick's aim: the rail with its diamonds and the one to aim at."""
     n = pic.sights
     ax.set_xlim(-0.6, n + 0.6)
@@ -334,7 +330,7 @@ def _draw_rail(ax: Axes, pic: AimPicture) -> None:
             va="bottom", fontsize=6.5, color=_INK)
 
 
-def _draw_aim(ax: Axes, pic: AimPicture) -> None:
+def _draw_aim(ax: Panel, pic: AimPicture) -> None:
     """The object ball face-on, the ghost ball over it, the aim and contact."""
     if pic.kind == "kick" and pic.rail:
         _draw_rail(ax, pic)
@@ -357,7 +353,7 @@ def _draw_aim(ax: Axes, pic: AimPicture) -> None:
             color=_INK)
 
 
-def _draw_tip(ax: Axes, side: float, height: float, limit: float,
+def _draw_tip(ax: Panel, side: float, height: float, limit: float,
               levels: Sequence[PlayerErrors], own: PlayerErrors) -> None:
     """The cue ball's face: the miscue limit, the own level's tip room, the
     tip and the ring 95 % of that player's tips land in."""
@@ -381,7 +377,7 @@ def _draw_tip(ax: Axes, side: float, height: float, limit: float,
             color=_INK)
 
 
-def _draw_speed(ax: Axes, distance: float, table_length: float, word: str) -> None:
+def _draw_speed(ax: Panel, distance: float, table_length: float, word: str) -> None:
     """A ruler of table lengths with the distance the cue ball would roll alone."""
     top = max(math.ceil(distance / table_length + 0.25), 2)
     ax.set_xlim(-0.15, top + 0.15)
