@@ -9,11 +9,12 @@ the angle to the normal taken with numpy.
 from __future__ import annotations
 
 import math
+import re
 from pathlib import Path
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from shotplan.errors import StrokeError
@@ -146,26 +147,33 @@ def test_draw_shots_the_search_proposes_stay_inside_the_limit(elev: float) -> No
         assert phi is not None and phi <= math.asin(0.5) + 1e-9
 
 
-@settings(max_examples=200, deadline=None)
-@given(st.floats(-0.9, 0.9), st.floats(-0.9, 0.9), st.floats(0.0, 59.0))
+@settings(max_examples=300, deadline=None)
+@given(st.floats(-0.9, 0.9), st.floats(-0.9, 0.9), st.floats(0.0, 60.0))
+@example(0.8125, 0.09375, 9.0)  # raising 1 deg passes the best elevation (9.25 deg)
 def test_the_refusal_says_which_way_to_move_the_cue(a: float, b: float, elev: float) -> None:
     # The message's advice, checked against the independent numeric angle
-    # (numpy.roots above): "raise the cue" must make the angle smaller with
-    # the cue 1 degree higher, "lower the cue" 1 degree lower, and the point
-    # it names as the aim (sin theta above centre) gives a zero angle.
+    # (numpy.roots above): an elevation it names is inside the limit and on
+    # the side it says; when it names none, no elevation from 0 to 60 deg
+    # (every half degree) is inside; the point it names as the aim (sin theta
+    # above centre) gives a zero angle.
     if a * a + b * b > 0.95 or not is_miscue(a, b, elev, 0.5):
         return
     with pytest.raises(StrokeError) as info:
         check_tip(a, b, elev, 0.5)
     text = str(info.value)
-    here = _numeric_angle(a, b, elev)
-    if here is None:
-        return
-    for word, to in (("raise the cue", min(elev + 1.0, 60.0)),
-                     ("lower the cue", max(elev - 1.0, 0.5 * elev))):
-        if word in text:
-            moved = _numeric_angle(a, b, to)
-            assert moved is not None and moved < here, (word, a, b, elev)
+    limit = limit_angle(0.5)
+    named = re.search(r"or (raise|lower) the cue to ([0-9.]+) deg$", text)
+    if named:
+        to = float(named.group(2))
+        assert (to > elev) == (named.group(1) == "raise"), text
+        assert 0.0 <= to <= 60.0
+        there = _numeric_angle(a, b, to)
+        assert there is not None and there <= limit + 1e-9, (text, there)
+    else:
+        assert "raise the cue" not in text and "lower the cue" not in text
+        for e in np.arange(0.0, 60.01, 0.5):
+            there = _numeric_angle(a, b, float(e))
+            assert there is None or there > limit - 1e-9, (text, e)
     aim = math.sin(math.radians(elev))
     aimed = _numeric_angle(0.0, aim, elev)
     assert aimed is not None and aimed == pytest.approx(0.0, abs=1e-6)

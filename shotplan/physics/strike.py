@@ -97,29 +97,44 @@ def check_tip(side: float, height: float, elevation_deg: float, miscue_limit: fl
             f"stroke: tip side {side:g}, height {height:g} at {elevation_deg:g} deg elevation "
             f"meets the ball {math.degrees(phi):.1f} deg off its normal, beyond the limit "
             f"{math.degrees(lim):.1f} deg (miscue limit {miscue_limit:g} R); valid: an angle "
-            f"within the limit: {_miscue_hint(side, height, elevation_deg)}"
+            f"within the limit: {_miscue_hint(side, height, elevation_deg, miscue_limit)}"
         )
 
 
-def _miscue_hint(side: float, height: float, elevation_deg: float) -> str:
+def _miscue_hint(side: float, height: float, elevation_deg: float, miscue_limit: float) -> str:
     """What brings a miscueing tip back inside the limit.
 
     The angle is zero where the cue's line passes through the ball's centre:
-    height ``sin(theta)``. With ``cos(phi) = c cos(theta) + b sin(theta)``
-    (:func:`~shotplan.stroke.miscue_angle`), ``d cos(phi) / d theta`` has the
-    sign of ``b - c tan(theta)``: raising the cue helps a tip above that line
-    and lowering it helps one below.
+    height ``sin(theta)``. With ``c = sqrt(1 - a^2 - b^2)``,
+    ``cos(phi) = c cos(theta) + b sin(theta) = r cos(theta - theta*)``
+    (:func:`~shotplan.stroke.miscue_angle`), where ``r = sqrt(b^2 + c^2)`` and
+    ``theta* = atan2(b, c)``; the angle is inside the limit ``phi_L`` for
+    ``|theta - theta*| <= acos(cos(phi_L) / r)``. When such an elevation
+    exists (0 to 60 degrees), the hint names the nearest one, in whole
+    degrees (tenths if the range is narrower).
     """
     th = math.radians(elevation_deg)
     aim = "centre" if f"{math.sin(th):.2f}" == "0.00" else (
         f"{math.sin(th):.2f} R above centre, where the cue points at the ball's centre")
+    hint = f"move the tip towards {aim}"
     c = math.sqrt(max(1.0 - side * side - height * height, 0.0))
-    slope = height * math.cos(th) - c * math.sin(th)
-    if slope > 1e-12 and elevation_deg < 60.0:  # a stroke's elevation is at most 60 deg
-        return f"move the tip towards {aim}, or raise the cue"
-    if slope < -1e-12 and elevation_deg >= 0.05:  # a cue this level has no lower to go
-        return f"move the tip towards {aim}, or lower the cue"
-    return f"move the tip towards {aim}"
+    r = math.hypot(height, c)
+    cos_lim = math.cos(limit_angle(miscue_limit))
+    if r <= 0.0 or cos_lim > r:
+        return hint  # no elevation brings this offset inside the limit
+    centre = math.degrees(math.atan2(height, c))
+    half = math.degrees(math.acos(cos_lim / r))
+    lo, hi = max(centre - half, 0.0), min(centre + half, 60.0)
+    for step in (1.0, 0.1):
+        if elevation_deg < lo:
+            to = math.ceil(lo / step - 1e-9) * step
+            if to <= hi:
+                return f"{hint}, or raise the cue to {to:g} deg"
+        elif elevation_deg > hi:
+            to = math.floor(hi / step + 1e-9) * step
+            if to >= lo:
+                return f"{hint}, or lower the cue to {to:g} deg"
+    return hint
 
 
 def launch(stroke: Stroke, radius: float, mass: float, physics: Physics) -> Launch:
