@@ -91,6 +91,10 @@ def add_shot_options(p: argparse.ArgumentParser) -> None:
                    help="stun, follow, draw or centre (default: stun)")
 
 
+SEARCH_LABELS = {"kinds": "--kinds", "tip": "--tip", "speed": "--speed", "side": "--side"}
+"""The search's settings as :func:`add_search_options` names them, for messages."""
+
+
 def run_search(args: argparse.Namespace, layout: Layout) -> SearchResult:
     """Search ``layout`` with the options of :func:`add_search_options`.
 
@@ -113,11 +117,8 @@ def run_search(args: argparse.Namespace, layout: Layout) -> SearchResult:
     return find_shots(layout, balls=args.ball, pockets=args.pocket, kinds=split_list(args.kinds),
                       speed=args.speed, tip=args.tip, side=args.side,
                       elevation_deg=args.elevation, allow_scratch=args.allow_scratch,
-                      player=player, rules=game_rules(args, layout), labels=SEARCH_LABELS, pocketed_too=True)
-
-
-SEARCH_LABELS = {"kinds": "--kinds", "tip": "--tip", "speed": "--speed", "side": "--side"}
-"""The search's settings as :func:`add_search_options` names them, for messages."""
+                      player=player, rules=game_rules(args, layout), labels=SEARCH_LABELS,
+                      pocketed_too=True)
 
 
 SHOT_COLUMNS: tuple[Column, ...] = (

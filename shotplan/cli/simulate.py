@@ -55,7 +55,6 @@ def run_simulate(args: argparse.Namespace) -> int:
         The exit code.
     """
     from ..physics import PHYSICS_BOUNDS, simulate
-    from ..physics.strike import check_tip
     from ..stroke import Stroke
     from .engine import engine_ready
 
@@ -75,17 +74,16 @@ def run_simulate(args: argparse.Namespace) -> int:
                               labels={k: v for k, v in options.items() if given[k] is not None})
     require_playable(layout, args.layout)
     physics = layout.physics()
-    try:
-        check_tip(stroke.side, stroke.height, stroke.elevation_deg, physics.miscue_limit)
-    except StrokeError as e:
-        raise InputError(f"{args.layout}: {e}") from None
     if args.max_events is not None:
         lo, hi = PHYSICS_BOUNDS["max_events"]
         if not lo <= args.max_events <= hi:
             raise InputError(f"--max-events: {args.max_events} is out of range, must be "
                              f"between {lo:.0f} and {hi:.0f}")
         physics = dataclasses.replace(physics, max_events=args.max_events)
-    outcome = simulate(layout, stroke, physics)
+    try:
+        outcome = simulate(layout, stroke, physics)
+    except StrokeError as e:  # a tip beyond the miscue limit (physics.strike.check_tip)
+        raise InputError(f"{args.layout}: {e}") from None
     if args.json:
         emit_json(outcome.to_dict())
         return EXIT_OK

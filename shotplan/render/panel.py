@@ -86,9 +86,6 @@ class Panel:
         self._equal = True
         self._update()
 
-    def set_axis_off(self) -> None:
-        """A panel draws no axes (as ``Axes.set_axis_off``)."""
-
     # ---------------------------------------------------------------- artists
     def text(self, x: float, y: float, s: str, **kwargs: Any) -> Text:
         """A text at a data point (``Axes.text``)."""
