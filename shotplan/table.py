@@ -534,12 +534,18 @@ class Table:
             (N,) distances, m.
         """
         pts = np.asarray(points, dtype=float).reshape(-1, 2)
-        best = np.full(len(pts), np.inf)
-        for x0, y0, x1, y1, *_ in self.cushion_lines:
-            best = np.minimum(best, _segment_distance(pts, x0, y0, x1, y1))
-        for cx, cy, r, _k in self.tip_circles:
-            best = np.minimum(best, np.maximum(np.hypot(pts[:, 0] - cx, pts[:, 1] - cy) - r, 0.0))
-        return best
+        px, py = pts[:, 0:1], pts[:, 1:2]
+        # Every segment and disc at once (the view asks for one point a frame
+        # while a ball is dragged; a loop over 30 elements cost 20 times more).
+        x0, y0, x1, y1 = self.cushion_lines[:, :4].T
+        dx, dy = x1 - x0, y1 - y0
+        L2 = dx * dx + dy * dy
+        num = (px - x0) * dx + (py - y0) * dy
+        t = np.clip(np.divide(num, L2, out=np.zeros_like(num), where=L2 > 0.0), 0.0, 1.0)
+        lines = np.hypot(px - (x0 + t * dx), py - (y0 + t * dy))
+        cx, cy, r = self.tip_circles[:, :3].T
+        tips = np.maximum(np.hypot(px - cx, py - cy) - r, 0.0)
+        return np.minimum(np.min(lines, axis=1, initial=np.inf), np.min(tips, axis=1, initial=np.inf))
 
     def cushion_clearance(self, points: np.ndarray) -> np.ndarray:
         """Gap between a ball at each point and the nearest cushion.
@@ -631,15 +637,6 @@ def jaw_angle(jaw: Jaw) -> float:
     """The angle between a jaw's nose direction and its face, degrees."""
     c = jaw.rail_dir[0] * jaw.face_dir[0] + jaw.rail_dir[1] * jaw.face_dir[1]
     return math.degrees(math.acos(max(-1.0, min(1.0, c))))
-
-
-def _segment_distance(pts: np.ndarray, x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
-    dx, dy = x1 - x0, y1 - y0
-    L2 = dx * dx + dy * dy
-    if L2 == 0:
-        return np.hypot(pts[:, 0] - x0, pts[:, 1] - y0)
-    t = np.clip(((pts[:, 0] - x0) * dx + (pts[:, 1] - y0) * dy) / L2, 0.0, 1.0)
-    return np.hypot(pts[:, 0] - (x0 + t * dx), pts[:, 1] - (y0 + t * dy))
 
 
 @lru_cache(maxsize=32)

@@ -26,7 +26,7 @@ from shotplan.render.scene import CircleShape
 from shotplan.table import Table
 from shotplan.view.app import App
 from shotplan.view.controls import face_to_tip, slider_to_speed, speed_bands, speed_to_slider
-from shotplan.view.draw import dash_segments
+from shotplan.view.draw import dash_segments, flat_shapes
 from shotplan.view.recovery import read_recovery
 from shotplan.view.state import FreeAim, PocketAim, ViewState
 
@@ -656,7 +656,7 @@ def test_play_scrub_and_reset(demo):
     # The balls are drawn where the outcome has them at that time.
     t = play.t
     cue_at = pred.outcome.positions(t)["cue"]
-    circles = [s for s in demo._dynamic_shapes() if isinstance(s, CircleShape)]
+    circles = [s for s in flat_shapes(demo._dynamic_shapes()) if isinstance(s, CircleShape)]
     assert any(s.centre == pytest.approx(cue_at) and s.radius == R for s in circles)
     demo.do("scrub", 0.5)
     assert play.t == pytest.approx(0.5 * duration) and not play.playing

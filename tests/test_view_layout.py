@@ -21,6 +21,7 @@ from shotplan.render.scene import TextShape
 from shotplan.search import find_shots
 from shotplan.view.app import App
 from shotplan.view.controls import MIN_SIZE, ball_width, proposal_text, shot_columns, toolbar_layout
+from shotplan.view.draw import flat_shapes
 from shotplan.view.layers import _HALO, path_styles, shown_positions
 from shotplan.view.panels import PathDialog
 
@@ -202,7 +203,7 @@ def test_a_ball_off_the_table_is_shown_at_the_edge_and_can_be_dragged_back(tmp_p
     assert shown["3"] == pytest.approx((table.length - R, 0.5))
     assert shown["5"] == pytest.approx((1.5, R))
     assert shown["cue"] == (0.6, 0.6)
-    texts = [s.text for s in app._dynamic_shapes() if isinstance(s, TextShape)]
+    texts = [s.text for s in flat_shapes(app._dynamic_shapes()) if isinstance(s, TextShape)]
     assert "3: off the table" in texts and "5: off the table" in texts
     # The ball is drawn inside the table area, where the pointer can take it.
     px = app.transform.to_screen(*shown["3"])
@@ -344,7 +345,7 @@ def test_the_view_draws_the_paths_in_those_styles(tmp_path):
     app.settle()
     assert set(app.predictor.outcome.moved()) >= {"cue", "1", "9"}
     styles = path_styles(app.predictor.outcome.moved())
-    colours = {s.colour for s in app._dynamic_shapes() if getattr(s, "arrow", False)}
+    colours = {s.colour for s in flat_shapes(app._dynamic_shapes()) if getattr(s, "arrow", False)}
     assert {styles[b].colour for b in ("cue", "1", "9")} <= colours
 
 

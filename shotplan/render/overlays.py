@@ -367,11 +367,12 @@ class OutcomeLike(Protocol):
 
 def outcome_shapes(outcome: OutcomeLike, radius: float, cue_id: str = "cue", *,
                    style: str = "colour", cloth: str | None = None,
-                   region: BaseGeometry | None = None) -> list[Shape]:
+                   region: BaseGeometry | None = None, paths: bool = True) -> list[Shape]:
     """What a simulated stroke did: each moving ball's path, a marker at every
     ball contact and cushion, an outline where each moving ball stopped (in
     ``print`` with the ball's name in it). Paths are cut to ``region`` when
-    given (see :func:`play_region`).
+    given (see :func:`play_region`). With ``paths=False`` only the markers
+    (the table view draws the paths and outlines in its own style).
 
     Parameters
     ----------
@@ -387,15 +388,17 @@ def outcome_shapes(outcome: OutcomeLike, radius: float, cue_id: str = "cue", *,
         The colour the paths are drawn on.
     region : BaseGeometry, optional
         Where paths may be drawn.
+    paths : bool
+        Draw the paths and the outlines where the balls stopped.
 
     Returns
     -------
     list of Shape
     """
     style = check_style(style)
-    paths = {b: outcome.path(b) for b in outcome.moved()}
-    lines = path_shapes(paths, cue_id=cue_id, style=style, cloth=cloth)
-    looks = path_looks(list(_clean_paths(paths)), cue_id, style=style, cloth=cloth)
+    moved = {b: outcome.path(b) for b in outcome.moved()} if paths else {}
+    lines = path_shapes(moved, cue_id=cue_id, style=style, cloth=cloth)
+    looks = path_looks(list(_clean_paths(moved)), cue_id, style=style, cloth=cloth)
     shapes: list[Shape] = []
     for ln in lines:
         shapes += clip_polyline(ln, region) if region is not None else [ln]
@@ -408,7 +411,7 @@ def outcome_shapes(outcome: OutcomeLike, radius: float, cue_id: str = "cue", *,
         elif word in ("cushion", "jaw"):
             s = ev.states[0]
             shapes.append(marker_shape((s.x, s.y), "cushion", style=style))
-    for b, pts in paths.items():
+    for b, pts in moved.items():
         if not len(pts):
             continue
         end = (float(pts[-1][0]), float(pts[-1][1]))

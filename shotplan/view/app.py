@@ -38,12 +38,12 @@ from ..layout import Layout, load_layout, save_layout
 from ..racks import new_layout
 from ..render import FIGURE_SUFFIXES
 from ..render.overlays import shot_scene
-from ..render.scene import Scene, Shape
+from ..render.scene import Scene
 from ..render.table_shapes import layout_scene, table_scene
 from ..stroke import tip_height
 from .actions import ACTIONS
 from .atlas_layer import AtlasLayer
-from .draw import Painter, TableCache, rgb
+from .draw import Drawable, Painter, TableCache, rgb
 from .frame import BACKGROUND, draw_help, draw_loading, draw_notes
 from .keeping import Keeper
 from .keys import binding_for
@@ -143,7 +143,7 @@ class App:
         self._last_rev = self.state.revision
         self._edit_time = 0.0
         self._shapes_key: Any = None
-        self._shapes: list[Shape] = []
+        self._shapes: list[Drawable] = []
         self._frame: pygame.Surface | None = None
         self._frame_key: Any = None
         self._scene: tuple[Any, Scene] | None = None
@@ -664,7 +664,7 @@ class App:
         return aim_html(self.state, self.predictor)
 
     # --------------------------------------------------------------- draw
-    def _dynamic_shapes(self) -> list[Shape]:
+    def _dynamic_shapes(self) -> list[Drawable]:
         st, pred = self.state, self.predictor
         play = self.playback
         t = play.t if play.active and pred.outcome is not None else None

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
 from importlib import resources
 from typing import Any
 
@@ -35,12 +36,62 @@ from ..render.scene import (
 )
 from .transform import Transform
 
-__all__ = ["Painter", "TableCache", "dash_segments", "rgb", "ui_font_path"]
+__all__ = ["Drawable", "Painter", "ShapeGroup", "TableCache", "dash_segments", "flat_shapes", "rgb",
+           "ui_font_path"]
 
 _OPAQUE_ALPHA = 0.85
 """Shapes at least this opaque are drawn opaque: a per-shape alpha surface
 the size of a path across the whole table costs more than the 10 % of
 see-through is worth (paths are drawn at 0.9)."""
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class ShapeGroup:
+    """Shapes the view draws as one cached picture (a ball with its stripe,
+    outline and number): drawn once into a see-through sprite, then copied
+    while the same group is shown at the same scale.
+
+    The cache knows a group by its ``shapes`` tuple itself (its identity),
+    so a maker that returns the same tuple for the same ball (the view's
+    balls come from an ``lru_cache``) is what makes it pay.
+    """
+
+    shapes: tuple[Shape, ...]
+    """The shapes, in drawing order."""
+    centre: tuple[float, float]
+    """Middle of the group, m."""
+    reach: float
+    """How far from ``centre`` any of them reaches, m."""
+    layer: int
+    """Drawing order of the whole group."""
+
+
+Drawable = Shape | ShapeGroup
+"""What the painter draws: a scene shape or a group of them."""
+
+
+def flat_shapes(items: Iterable[Drawable]) -> list[Shape]:
+    """The scene shapes of ``items``, groups opened in place.
+
+    Parameters
+    ----------
+    items : iterable of Shape or ShapeGroup
+
+    Returns
+    -------
+    list of Shape
+    """
+    out: list[Shape] = []
+    for item in items:
+        if isinstance(item, ShapeGroup):
+            out.extend(item.shapes)
+        else:
+            out.append(item)
+    return out
+
+
+_SPRITES_KEPT = 256
+"""Most group sprites kept (a full rack is 22 balls)."""
 
 
 def rgb(colour: str) -> tuple[int, int, int]:
@@ -124,17 +175,23 @@ def dash_segments(
     xs = np.interp(np.concatenate([starts, ends]), cum, pts[:, 0])
     ys = np.interp(np.concatenate([starts, ends]), cum, pts[:, 1])
     n = len(starts)
-    # Vertices strictly inside each dash (the corners it goes round).
+    # Vertices strictly inside each dash (the corners it goes round); most
+    # dashes have none, so the runs are built as whole lists.
     lo = np.searchsorted(cum, starts, side="right")
     hi = np.searchsorted(cum, ends, side="left")
-    out: list[list[tuple[float, float]]] = []
-    for k in range(n):
-        run = [(float(xs[k]), float(ys[k]))]
-        if hi[k] > lo[k]:
-            run.extend((float(x), float(y)) for x, y in pts[lo[k]:hi[k]])
-        run.append((float(xs[n + k]), float(ys[n + k])))
-        out.append(run)
+    first = np.column_stack([xs[:n], ys[:n]]).tolist()
+    last = np.column_stack([xs[n:], ys[n:]]).tolist()
+    out: list[list[tuple[float, float]]] = [[(a[0], a[1]), (b[0], b[1])]
+                                           for a, b in zip(first, last, strict=True)]
+    for k in np.flatnonzero(hi > lo).tolist():
+        out[k][1:1] = [(p[0], p[1]) for p in pts[lo[k]:hi[k]].tolist()]
     return out
+
+
+def _local(pts: np.ndarray, ox: float, oy: float) -> list[tuple[float, float]]:
+    """Screen points as pygame takes them, shifted by (-ox, -oy) (numpy's
+    ``tolist`` is ten times faster than iterating over the rows)."""
+    return [(p[0], p[1]) for p in (pts - (ox, oy)).tolist()]
 
 
 class Painter:
@@ -159,6 +216,11 @@ class Painter:
         self.min_text_px = min_text_px
         self._fonts: dict[tuple[int, bool], pygame.font.Font] = {}
         self._texts: dict[tuple[str, int, bool, str], pygame.Surface] = {}
+        self._premul: dict[tuple[str, int, bool, str], pygame.Surface] = {}
+        self._sprites: dict[int, tuple[tuple[Shape, ...], Transform, pygame.Surface,
+                                       tuple[int, int]]] = {}
+        self.sprite_renders = 0
+        """How many group sprites were drawn (a test reads it)."""
 
     # ------------------------------------------------------------ text
     def font(self, size_px: int, bold: bool = False) -> pygame.font.Font:
@@ -214,20 +276,63 @@ class Painter:
         return surf
 
     # ----------------------------------------------------------- shapes
-    def draw(self, surface: pygame.Surface, shapes: Iterable[Shape], transform: Transform) -> None:
+    def draw(self, surface: pygame.Surface, shapes: Iterable[Drawable], transform: Transform) -> None:
         """Draw ``shapes`` in layer order (ties keep their order).
 
         Parameters
         ----------
         surface : Surface
             Where to draw.
-        shapes : iterable of Shape
+        shapes : iterable of Shape or ShapeGroup
             What to draw.
         transform : Transform
             Table metres to the surface's pixels.
         """
         for shape in sorted(shapes, key=lambda s: s.layer):
-            self.draw_shape(surface, shape, transform)
+            if isinstance(shape, ShapeGroup):
+                self.draw_group(surface, shape, transform)
+            else:
+                self.draw_shape(surface, shape, transform)
+
+    def draw_group(self, surface: pygame.Surface, group: ShapeGroup, transform: Transform) -> None:
+        """Draw a group through its cached sprite (drawn first if it is new).
+
+        The sprite holds the shapes drawn on a clear surface; its edges'
+        smoothing leaves colours already weighted by their coverage, so it
+        is laid on premultiplied, which gives the pixels of drawing the
+        shapes straight on to within a level or two.
+
+        Parameters
+        ----------
+        surface : Surface
+            Where to draw.
+        group : ShapeGroup
+            What to draw.
+        transform : Transform
+            Table metres to the surface's pixels.
+        """
+        kept = self._sprites.get(id(group.shapes))
+        if kept is None or kept[0] is not group.shapes or kept[1] != transform:
+            cx, cy = transform.to_screen(*group.centre)
+            reach = transform.px(group.reach) + 3.0
+            x0, y0, x1, y1 = cx - reach, cy - reach, cx + reach, cy + reach
+            for shape in group.shapes:
+                if isinstance(shape, TextShape):  # a label may be wider than a small ball
+                    tl, tt, tw, th = self._text_box(shape, transform)
+                    x0, y0, x1, y1 = min(x0, tl), min(y0, tt), max(x1, tl + tw), max(y1, tt + th)
+            left, top = math.floor(x0), math.floor(y0)
+            size = math.ceil(x1) - left, math.ceil(y1) - top
+            sprite = pygame.Surface(size, pygame.SRCALPHA)
+            local = Transform(transform.scale, transform.origin_x - left, transform.origin_y - top,
+                              transform.bounds, (0, 0, size[0], size[1]))
+            for shape in group.shapes:
+                self.draw_shape(sprite, shape, local)
+            self.sprite_renders += 1
+            if len(self._sprites) >= _SPRITES_KEPT:
+                self._sprites.clear()
+            kept = (group.shapes, transform, sprite, (left, top))
+            self._sprites[id(group.shapes)] = kept
+        surface.blit(kept[2], kept[3], special_flags=pygame.BLEND_PREMULTIPLIED)
 
     def draw_scene(self, surface: pygame.Surface, scene: Scene, transform: Transform) -> None:
         """Draw every shape of ``scene`` (its title and note are the caller's).
@@ -315,18 +420,18 @@ class Painter:
         width = self._width(shape, transform)
         layer, (ox, oy) = self._layer_for(surface, self._box(pts, width), shape.alpha,
                                           holes=bool(shape.holes))
-        local = [(x - ox, y - oy) for x, y in pts]
+        local = _local(pts, ox, oy)
         if shape.fill is not None:
             fill = rgb(shape.fill)
             pygame.draw.polygon(layer, fill, local)
             pygame.draw.aalines(layer, fill, True, local)  # smooth the filled edge
             for hole in shape.holes:
-                hp = [(x - ox, y - oy) for x, y in transform.to_screen_array(hole)]
+                hp = _local(transform.to_screen_array(hole), ox, oy)
                 pygame.draw.polygon(layer, (0, 0, 0, 0), hp)
         if shape.edge is not None:
             self._lines(layer, rgb(shape.edge), local, width, closed=True)
             for hole in shape.holes:
-                hp = [(x - ox, y - oy) for x, y in transform.to_screen_array(hole)]
+                hp = _local(transform.to_screen_array(hole), ox, oy)
                 self._lines(layer, rgb(shape.edge), hp, width, closed=True)
         self._finish(surface, layer, (ox, oy), shape.alpha)
 
@@ -362,20 +467,26 @@ class Painter:
             stop, _tri = head
             table_pts = np.vstack([table_pts[:-1], [stop]])
         pts = transform.to_screen_array(table_pts)
-        box_pts = pts if head is None else np.vstack([pts, transform.to_screen_array(head[1])])
-        layer, (ox, oy) = self._layer_for(surface, self._box(box_pts, width), shape.alpha)
-        local = [(x - ox, y - oy) for x, y in pts]
+        tri = transform.to_screen_array(head[1]) if head is not None else None
         colour = rgb(shape.colour)
         if shape.dash:
             dash = max(6.0, 3.0 * width)
-            for run in dash_segments(local, dash, 0.75 * dash):
-                self._lines(layer, colour, run, width)
+            runs = dash_segments(pts, dash, 0.75 * dash)
         else:
-            self._lines(layer, colour, local, width)
-        if head is not None:
-            tri = [(x - ox, y - oy) for x, y in transform.to_screen_array(head[1])]
-            pygame.draw.polygon(layer, colour, tri)
-            pygame.draw.aalines(layer, colour, True, tri)
+            runs = [_local(pts, 0.0, 0.0)]
+
+        def paint(layer: pygame.Surface, ox: float, oy: float) -> None:
+            for run in runs:
+                self._lines(layer, colour, [(x - ox, y - oy) for x, y in run] if ox or oy else run,
+                            width)
+            if tri is not None:
+                local = _local(tri, ox, oy)
+                pygame.draw.polygon(layer, colour, local)
+                pygame.draw.aalines(layer, colour, True, local)
+
+        box_pts = pts if tri is None else np.vstack([pts, tri])
+        layer, (ox, oy) = self._layer_for(surface, self._box(box_pts, width), shape.alpha)
+        paint(layer, ox, oy)
         self._finish(surface, layer, (ox, oy), shape.alpha)
 
     @staticmethod
@@ -398,15 +509,33 @@ class Painter:
             for p in (pts if closed else pts[1:-1]):
                 pygame.draw.circle(surface, colour, p, w / 2.0)
 
+    def _text_box(self, shape: TextShape, transform: Transform) -> tuple[int, int, int, int]:
+        """(left, top, width, height) of a text's image on the surface, px."""
+        size = max(self.min_text_px, round(transform.px(shape.size_mm / 1000.0)))
+        w, h = self.text_surface(shape.text, size, shape.colour, shape.bold).get_size()
+        x, y = transform.to_screen(*shape.position)
+        horizontal, vertical = ANCHORS[shape.anchor]
+        left = {"left": x, "center": x - w / 2, "right": x - w}[horizontal]
+        top = {"top": y, "center": y - h / 2, "bottom": y - h}[vertical]
+        return round(left), round(top), w, h
+
     def _text(self, surface: pygame.Surface, shape: TextShape, transform: Transform) -> None:
         size = max(self.min_text_px, round(transform.px(shape.size_mm / 1000.0)))
         img = self.text_surface(shape.text, size, shape.colour, shape.bold)
-        x, y = transform.to_screen(*shape.position)
-        horizontal, vertical = ANCHORS[shape.anchor]
-        w, h = img.get_size()
-        left = {"left": x, "center": x - w / 2, "right": x - w}[horizontal]
-        top = {"top": y, "center": y - h / 2, "bottom": y - h}[vertical]
-        surface.blit(img, (round(left), round(top)))
+        left, top, _w, _h = self._text_box(shape, transform)
+        if surface.get_flags() & pygame.SRCALPHA:
+            # On a see-through sprite, the way pygame's smoothing leaves its
+            # pixels: colour weighted by coverage (a text image's clear
+            # pixels carry its colour, which would show when laid on).
+            key = (shape.text, size, shape.bold, shape.colour)
+            pm = self._premul.get(key)
+            if pm is None:
+                if len(self._premul) > 2000:
+                    self._premul.clear()
+                pm = self._premul[key] = img.premul_alpha()
+            surface.blit(pm, (left, top), special_flags=pygame.BLEND_PREMULTIPLIED)
+        else:
+            surface.blit(img, (left, top))
 
     def _wedge(self, surface: pygame.Surface, shape: WedgeShape, transform: Transform) -> None:
         span = shape.end_deg - shape.start_deg
@@ -416,7 +545,7 @@ class Painter:
         arc = np.column_stack([ax + shape.radius * np.cos(ang), ay + shape.radius * np.sin(ang)])
         pts = transform.to_screen_array(np.vstack([[shape.apex], arc]))
         layer, (ox, oy) = self._layer_for(surface, self._box(pts, 2), shape.alpha)
-        local = [(x - ox, y - oy) for x, y in pts]
+        local = _local(pts, ox, oy)
         fill = rgb(shape.fill)
         pygame.draw.polygon(layer, fill, local)
         pygame.draw.aalines(layer, fill, True, local)

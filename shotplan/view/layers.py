@@ -22,6 +22,7 @@ from ..render.palette import BALL_COLOURS, STRIPE_IDS
 from ..render.scene import CircleShape, Layer, PolylineShape, Shape, TextShape
 from ..render.table_shapes import ball_shapes
 from ..table import Table
+from .draw import Drawable, ShapeGroup
 from .predict import AimGeometry, Predictor
 from .state import PocketAim, ViewState
 
@@ -218,9 +219,11 @@ def _ball(ball: str, x: float, y: float, radius: float, problem: bool) -> tuple[
 
 
 def balls_layer(positions: Mapping[str, tuple[float, float]], radius: float,
-                problem_balls: Iterable[str] = (), hidden: Iterable[str] = ()) -> list[Shape]:
+                problem_balls: Iterable[str] = (), hidden: Iterable[str] = ()) -> list[ShapeGroup]:
     """Every ball at its position, those in ``problem_balls`` outlined in red,
-    those in ``hidden`` (pocketed, in an animation) left out.
+    those in ``hidden`` (pocketed, in an animation) left out. Each ball is
+    one :class:`~shotplan.view.draw.ShapeGroup` (the painter keeps a ball
+    that does not move as a sprite).
 
     Parameters
     ----------
@@ -235,15 +238,17 @@ def balls_layer(positions: Mapping[str, tuple[float, float]], radius: float,
 
     Returns
     -------
-    list of Shape
+    list of ShapeGroup
     """
     bad = set(problem_balls)
     skip = set(hidden)
-    out: list[Shape] = []
+    out: list[ShapeGroup] = []
+    R = float(radius)
     for b, (x, y) in positions.items():
         if b in skip:
             continue
-        out.extend(_ball(b, float(x), float(y), float(radius), b in bad))
+        out.append(ShapeGroup(_ball(b, float(x), float(y), R, b in bad), (float(x), float(y)), R,
+                              Layer.BALL))
     return out
 
 
@@ -289,9 +294,7 @@ def prediction_layer(outcome: Outcome, table: Table, mm_per_px: float = 0.0) -> 
     R = table.ball_radius
     # The markers come from the scene; the paths and their end rings are
     # drawn here in the view's own colours.
-    shapes: list[Shape] = [s for s in outcome_shapes(outcome, R)
-                           if not (isinstance(s, PolylineShape) and s.layer == Layer.PATH)
-                           and not (isinstance(s, CircleShape) and s.layer == Layer.GHOST)]
+    shapes: list[Shape] = outcome_shapes(outcome, R, paths=False)
     moved = list(outcome.moved())
     styles = path_styles(moved)
     for b in moved:
@@ -489,7 +492,7 @@ def selection_layer(table: Table, positions: Mapping[str, tuple[float, float]],
 
 
 def view_shapes(state: ViewState, pred: Predictor, t: float | None, hover_ball: str | None,
-                mm_per_px: float) -> list[Shape]:
+                mm_per_px: float) -> list[Drawable]:
     """Everything drawn over the table, bottom to top: the window, the
     predicted paths, the aim, the balls (where they stand, or where the
     animation has them), the cue and the selection.
@@ -510,12 +513,13 @@ def view_shapes(state: ViewState, pred: Predictor, t: float | None, hover_ball: 
 
     Returns
     -------
-    list of Shape
+    list of Shape or ShapeGroup
+        The balls are groups (see :func:`balls_layer`).
     """
     table = state.table
     R = table.ball_radius
     aimed = state.aim.pocket if isinstance(state.aim, PocketAim) else None
-    shapes: list[Shape] = []
+    shapes: list[Drawable] = []
     positions = state.layout.positions()
     if pred.window is not None and "cue" in positions and t is None:
         shapes += window_layer(pred.window, positions["cue"], R)
