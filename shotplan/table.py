@@ -545,7 +545,9 @@ class Table:
         lines = np.hypot(px - (x0 + t * dx), py - (y0 + t * dy))
         cx, cy, r = self.tip_circles[:, :3].T
         tips = np.maximum(np.hypot(px - cx, py - cy) - r, 0.0)
-        return np.minimum(np.min(lines, axis=1, initial=np.inf), np.min(tips, axis=1, initial=np.inf))
+        best: np.ndarray = np.minimum(np.min(lines, axis=1, initial=np.inf),
+                                      np.min(tips, axis=1, initial=np.inf))
+        return best
 
     def cushion_clearance(self, points: np.ndarray) -> np.ndarray:
         """Gap between a ball at each point and the nearest cushion.

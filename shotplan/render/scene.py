@@ -192,6 +192,13 @@ def check_point(value: object, what: str) -> tuple[float, float]:
     return (float(arr[0]), float(arr[1]))
 
 
+class _Checked(tuple):  # type: ignore[type-arg]
+    """Points :func:`check_points` has already checked (a shape copied with
+    :func:`dataclasses.replace` is not checked again)."""
+
+    __slots__ = ()
+
+
 def check_points(value: object, what: str, minimum: int) -> tuple[tuple[float, float], ...]:
     """``value`` as a tuple of at least ``minimum`` finite points.
 
@@ -213,6 +220,8 @@ def check_points(value: object, what: str, minimum: int) -> tuple[tuple[float, f
     InputError
         Not an (N, 2) array of finite numbers with N at least ``minimum``.
     """
+    if type(value) is _Checked and len(value) >= minimum:
+        return value
     arr = np.asarray(value, dtype=float)
     if arr.ndim != 2 or arr.shape[1] != 2 or len(arr) < minimum:
         raise InputError(f"{what}: must be at least {minimum} points (x, y), got shape {arr.shape}")
@@ -220,7 +229,7 @@ def check_points(value: object, what: str, minimum: int) -> tuple[tuple[float, f
         raise InputError(f"{what}: every point must be finite")
     # tolist: Python floats in one call (iterating the rows costs ten times more;
     # the view builds its paths' shapes every frame while a ball is dragged).
-    return tuple(map(tuple, arr.tolist()))
+    return _Checked(map(tuple, arr.tolist()))
 
 
 def _set(obj: Any, name: str, value: Any) -> None:
@@ -664,25 +673,25 @@ def arrow_head(
     ((float, float), tuple of (float, float)) or None
         ``(base, triangle)`` as above, or ``None``.
     """
-    arr = np.asarray(points, dtype=float)
-    tip = arr[-1]
-    for k in range(len(arr) - 2, -1, -1):
-        d = tip - arr[k]
-        n = float(np.hypot(*d))
+    # Plain floats from the end back (the view draws a path's arrow every
+    # frame; making an array of the whole path cost more than the rest).
+    tx, ty = float(points[-1][0]), float(points[-1][1])
+    for k in range(len(points) - 2, -1, -1):
+        dx, dy = tx - float(points[k][0]), ty - float(points[k][1])
+        n = float(np.hypot(dx, dy))
         if n > 1e-12:
             break
     else:
         return None
-    u = d / n
+    ux, uy = dx / n, dy / n
     length = max(0.012, 5.0 * line_width_mm / 1000.0)
     half = 0.4 * length
-    base = tip - u * length
-    perp = np.array([-u[1], u[0]])
-    left, right = base + perp * half, base - perp * half
-    stop = tip - u * (0.7 * length)
-    return ((float(stop[0]), float(stop[1])),
-            ((float(tip[0]), float(tip[1])), (float(left[0]), float(left[1])),
-             (float(right[0]), float(right[1]))))
+    bx, by = tx - ux * length, ty - uy * length
+    px, py = -uy, ux
+    left = (bx + px * half, by + py * half)
+    right = (bx - px * half, by - py * half)
+    stop = (tx - ux * (0.7 * length), ty - uy * (0.7 * length))
+    return (stop, ((tx, ty), left, right))
 
 
 

@@ -219,6 +219,7 @@ class Painter:
         self._premul: dict[tuple[str, int, bool, str], pygame.Surface] = {}
         self._sprites: dict[int, tuple[tuple[Shape, ...], Transform, pygame.Surface,
                                        tuple[int, int]]] = {}
+        self._rings: dict[tuple[float, float, tuple[int, int, int], float, float], pygame.Surface] = {}
         self.sprite_renders = 0
         """How many group sprites were drawn (a test reads it)."""
 
@@ -439,21 +440,47 @@ class Painter:
         cx, cy = transform.to_screen(*shape.centre)
         r = transform.px(shape.radius)
         width = self._width(shape, transform)
+        if shape.dash and shape.edge is not None and shape.fill is None and r >= 1.0 \
+                and shape.alpha >= _OPAQUE_ALPHA:
+            self._dashed_ring_sprite(surface, (cx, cy), r, rgb(shape.edge), width)
+            return
         layer, (ox, oy) = self._layer_for(surface, (cx - r, cy - r, cx + r, cy + r), shape.alpha)
         c = (cx - ox, cy - oy)
         if shape.fill is not None and r >= 0.5:
             pygame.draw.aacircle(layer, rgb(shape.fill), c, max(r, 1.0))
         if shape.edge is not None:
             if shape.dash:
-                n = max(24, int(2 * math.pi * r / 2.0))
-                ang = np.linspace(0.0, 2 * math.pi, n + 1)
-                ring = np.column_stack([c[0] + r * np.cos(ang), c[1] + r * np.sin(ang)])
-                dash = max(4.0, 0.12 * 2 * math.pi * r / 3)
-                for run in dash_segments(ring, dash, 0.7 * dash):
-                    self._lines(layer, rgb(shape.edge), run, width)
+                self._dashed_ring(layer, c, r, rgb(shape.edge), width)
             elif r >= 1.0:
                 pygame.draw.aacircle(layer, rgb(shape.edge), c, r, max(1, round(width)))
         self._finish(surface, layer, (ox, oy), shape.alpha)
+
+    def _dashed_ring(self, layer: pygame.Surface, c: tuple[float, float], r: float,
+                     colour: tuple[int, int, int], width: float) -> None:
+        n = max(24, int(2 * math.pi * r / 2.0))
+        ang = np.linspace(0.0, 2 * math.pi, n + 1)
+        ring = np.column_stack([c[0] + r * np.cos(ang), c[1] + r * np.sin(ang)])
+        dash = max(4.0, 0.12 * 2 * math.pi * r / 3)
+        for run in dash_segments(ring, dash, 0.7 * dash):
+            self._lines(layer, colour, run, width)
+
+    def _dashed_ring_sprite(self, surface: pygame.Surface, c: tuple[float, float], r: float,
+                            colour: tuple[int, int, int], width: float) -> None:
+        # A dashed ring (where a ball stops) moves with the prediction, but
+        # its picture depends only on its size and where its centre falls
+        # within a pixel (taken to a quarter): one sprite serves every place.
+        ix, iy = math.floor(c[0]), math.floor(c[1])
+        fx, fy = round((c[0] - ix) * 4) / 4, round((c[1] - iy) * 4) / 4
+        pad = math.ceil(r + width) + 3
+        key = (r, width, colour, fx, fy)
+        sprite = self._rings.get(key)
+        if sprite is None:
+            sprite = pygame.Surface((2 * pad + 2, 2 * pad + 2), pygame.SRCALPHA)
+            self._dashed_ring(sprite, (pad + fx, pad + fy), r, colour, width)
+            if len(self._rings) >= _SPRITES_KEPT:
+                self._rings.clear()
+            self._rings[key] = sprite
+        surface.blit(sprite, (ix - pad, iy - pad), special_flags=pygame.BLEND_PREMULTIPLIED)
 
     def _polyline(self, surface: pygame.Surface, shape: PolylineShape, transform: Transform) -> None:
         table_pts = np.asarray(shape.points, dtype=float)

@@ -88,6 +88,7 @@ def _hex(r: float, g: float, b: float) -> str:
     return "#" + "".join(f"{max(0, min(255, round(c * 255))):02x}" for c in (r, g, b))
 
 
+@functools.lru_cache(maxsize=512)
 def _readable(colour: str, lightness: float = _MIN_LIGHTNESS) -> str:
     """``colour`` with its HLS lightness raised to at least ``lightness`` (hue kept)."""
     r, g, b = (c / 255.0 for c in _rgb(colour))
