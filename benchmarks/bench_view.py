@@ -39,6 +39,7 @@ def main() -> None:
     import pygame
 
     from shotplan.view.app import App
+    from shotplan.view.mainloop import settle_memory
 
     pygame.display.init()
     pygame.font.init()
@@ -49,6 +50,7 @@ def main() -> None:
     st.aim_at_pocket("1", "foot-left")
     app.settle()
     app.draw(screen)
+    settle_memory()  # as the window loop does after its first frame
 
     def frame_times(ball: str, n: int) -> np.ndarray:
         x0, y0 = st.layout.position(ball)

@@ -453,3 +453,39 @@ def test_spin_driven_push_into_a_touching_ball_keeps_them_apart():
         dd[np.diag_indices(4)] = np.inf
         worst = max(worst, 2 * R - float(dd.min()))
     assert worst <= 1e-6, f"overlap {worst:.3g} m"
+
+
+def _polyline_distance(points: np.ndarray, line: np.ndarray) -> np.ndarray:
+    """Distance from each point to the polyline ``line`` (exact, segment by segment)."""
+    a, b = line[:-1], line[1:]
+    d = b - a
+    L2 = np.maximum(np.einsum("ij,ij->i", d, d), 1e-300)
+    t = np.clip(np.einsum("kij,ij->ki", points[:, None, :] - a[None], d) / L2, 0.0, 1.0)
+    near = a[None] + t[..., None] * d[None]
+    return np.min(np.hypot(*(points[:, None, :] - near).transpose(2, 0, 1)), axis=1)
+
+
+@slow(150)
+@given(preset=st.sampled_from(PRESETS), n=st.integers(2, 6), seed=st.integers(0, 2**32 - 1),
+       stroke=strokes(hi=5.0), phys=physics_values)
+def test_a_path_sampled_by_step_keeps_every_event_and_stays_on_the_curve(preset, n, seed, stroke,
+                                                                        phys):
+    # What the table view draws (Outcome.path with step_m: about one sample
+    # per step of a curve's chord, at least 4) must keep every event point
+    # of the path exactly, and must not stray from the path sampled 400
+    # times a curve by more than half a pixel of the view at 2 mm a pixel
+    # (its step is 3 pixels: 6 mm). A visual tolerance, no source.
+    table = TABLES[preset]
+    pos = random_layout(table, n, np.random.default_rng(seed))
+    assume(len(pos) == n)
+    ids = ["cue"] + [f"b{k}" for k in range(1, n)]
+    out = Simulator(table, phys).run(ids, pos, stroke)
+    for b in out.moved():
+        coarse = out.path(b, step_m=0.006)
+        events = out.path(b, points_per_curve=1)
+        kept = {tuple(p) for p in coarse.tolist()}
+        assert all(tuple(p) in kept for p in events.tolist())
+        assert len(coarse) <= len(out.path(b))
+        if len(coarse) >= 2:
+            fine = out.path(b, points_per_curve=400)
+            assert _polyline_distance(fine, coarse).max() <= 0.001

@@ -9,6 +9,7 @@ piecewise-polynomial trajectories, which can be sampled at any time.
 
 from __future__ import annotations
 
+import math
 import threading
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
@@ -628,7 +629,7 @@ class Outcome:
         x, y, vx, vy, wx, wy, wz = (float(v) for v in arr[0])
         return BallState(x, y, vx, vy, wx, wy, wz, MotionState(int(self._seg_state[s])))
 
-    def path(self, ball: str, points_per_curve: int = 24) -> np.ndarray:
+    def path(self, ball: str, points_per_curve: int = 24, step_m: float | None = None) -> np.ndarray:
         """A polyline of a ball's path: exact at every event, sampled along the curved (sliding) parts.
 
         Parameters
@@ -637,6 +638,10 @@ class Outcome:
             The ball's id.
         points_per_curve : int, optional
             Samples along each curved segment (24).
+        step_m : float, optional
+            Fewer samples on a short curve: about one per ``step_m`` of the
+            curve's chord (at least 4, at most ``points_per_curve``). The
+            table view passes a few pixels' worth.
 
         Returns
         -------
@@ -645,6 +650,17 @@ class Outcome:
         """
         i = self.ids.index(ball)
         idx = self._by_ball[i]
+        chord: dict[int, float] = {}
+        if step_m is not None and step_m > 0.0:
+            ends = [int(s) for s in idx]
+            pos = np.zeros((len(ends) + 1, 7))
+            last = int(idx[-1])
+            _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
+                    np.array(ends + [last], dtype=np.int64),
+                    np.array([float(self._seg_t[seg]) for seg in ends] + [self.duration]),
+                    self.simulator.prm, pos)
+            for k, seg in enumerate(ends):
+                chord[seg] = float(np.hypot(pos[k + 1, 0] - pos[k, 0], pos[k + 1, 1] - pos[k, 1]))
         seg_list: list[int] = []
         times: list[float] = []
         for k, s in enumerate(idx):
@@ -655,6 +671,8 @@ class Outcome:
                 times.append(t0)
                 continue
             m = points_per_curve if self._seg_state[s] == SLIDING else 1
+            if m > 4 and chord and step_m is not None:
+                m = min(m, max(4, math.ceil(chord[int(s)] / step_m)))
             for j in range(m):
                 seg_list.append(int(s))
                 times.append(t0 + (t1 - t0) * j / m)

@@ -186,6 +186,9 @@ def check_point(value: object, what: str) -> tuple[float, float]:
     InputError
         Not two finite numbers.
     """
+    if type(value) is tuple and len(value) == 2 and type(value[0]) is float \
+            and type(value[1]) is float and math.isfinite(value[0]) and math.isfinite(value[1]):
+        return value  # already a point of two floats (most shapes the view makes each frame)
     arr = np.asarray(value, dtype=float).reshape(-1)
     if arr.shape != (2,) or not np.all(np.isfinite(arr)):
         raise InputError(f"{what}: {value!r} is not a finite point (x, y)")

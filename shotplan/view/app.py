@@ -44,7 +44,7 @@ from ..stroke import tip_height
 from .actions import ACTIONS
 from .atlas_layer import AtlasLayer
 from .draw import Drawable, Painter, TableCache, rgb
-from .frame import BACKGROUND, draw_help, draw_loading, draw_notes
+from .frame import BACKGROUND, draw_help, draw_loading, draw_notes, show_caption
 from .keeping import Keeper
 from .keys import binding_for
 from .layers import view_shapes
@@ -591,6 +591,7 @@ class App:
         self.pointer.follow_drag()
         self._note_edit()
         dragging = self.pointer.dragging
+        searches = self.predictor.window_searches
         self.predictor.update(st, self.now, dragging)
         if not dragging:
             self.atlas.update(st)
@@ -598,14 +599,12 @@ class App:
         self._autosave()
         if self.note and self.now > self._note_until:
             self.note = ""
+        # A frame that searched the window leaves the aim text to the next.
         self.panels.sync(st, self.predictor, self.playback, self.status_text(), self.title_text(),
-                         self.aim_html(), self.now, dragging)
+                         self.aim_html(), self.now, dragging,
+                         defer_text=dragging and self.predictor.window_searches != searches)
         self.manager.update(dt)
-        if pygame.display.get_init() and pygame.display.get_surface() is not None:
-            caption = f"shotplan \u2014 {self.title_text()}"
-            if caption != self._caption:
-                self._caption = caption
-                pygame.display.set_caption(caption)
+        self._caption = show_caption(self._caption, self.title_text())
 
     def _note_edit(self) -> None:
         if self.state.revision != self._last_rev:

@@ -19,13 +19,36 @@ from .keys import HELP_ROWS
 from .words import WARN
 
 __all__ = ["BACKGROUND", "help_box", "fit_screen", "blit_text", "wrap_px", "fit_px",
-           "draw_notes", "draw_help", "draw_loading"]
+           "draw_notes", "draw_help", "draw_loading", "show_caption"]
 
 BACKGROUND = "#171918"
 """Behind the table: a dark, slightly warm grey that lets the rail read."""
 
 _GOLD = "#d6b358"  # the edge of a box of the view's own
 _BOX = "#202322"
+
+
+def show_caption(shown: str, title: str) -> str:
+    """Put ``title`` in the window's caption if it is not there already
+    (``shown``: what was put there last) and there is a window.
+
+    Parameters
+    ----------
+    shown : str
+        The caption shown now.
+    title : str
+        The layout's title.
+
+    Returns
+    -------
+    str
+        The caption shown after.
+    """
+    caption = f"shotplan \u2014 {title}"
+    if caption != shown and pygame.display.get_init() and pygame.display.get_surface() is not None:
+        pygame.display.set_caption(caption)
+        return caption
+    return shown
 
 
 def help_box(size: tuple[int, int]) -> tuple[pygame.Rect, int, int]:

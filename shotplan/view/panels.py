@@ -459,9 +459,10 @@ class Panels:
 
     # -------------------------------------------------------------- show
     def sync(self, state: ViewState, predictor: Predictor, playback: Playback, status: str, title: str,
-             aim_html: str, now: float = 0.0, busy: bool = False) -> None:
+             aim_html: str, now: float = 0.0, busy: bool = False, defer_text: bool = False) -> None:
         """Show the model's values (only what changed is redrawn); ``busy``
-        (a drag in progress) lets the aim text refresh at a few hertz only.
+        (a drag in progress) lets the aim text refresh at a few hertz only;
+        ``defer_text`` leaves it to a later frame.
 
         Parameters
         ----------
@@ -479,6 +480,8 @@ class Panels:
             The view's clock, s.
         busy : bool
             A drag is in progress.
+        defer_text : bool
+            This frame has done enough: the aim text waits.
         """
         s = state.settings
         self.speed_label.set_text(f"Speed {s.speed_mps:.2f} m/s \u00b7 {speed_word(s.speed_mps)}")
@@ -495,9 +498,11 @@ class Panels:
             self._face_key = key
             self.face.set_image(draw_face(self.face_size, s.side, s.height, state.miscue_limit,
                                           self._small))
-        # A text box lays its text out again on every change: while the
-        # numbers run (a drag), a few times a second is enough to read them.
-        if aim_html != self._aim_text and (now - self._aim_time >= 0.12 or not busy):
+        # A text box lays its text out again on every change (3 ms here):
+        # while the numbers run (a drag), four times a second is as often as
+        # a changing number can be read, as on a meter's display.
+        if aim_html != self._aim_text and not defer_text and (now - self._aim_time >= 0.25
+                                                              or not busy):
             self._aim_text, self._aim_time = aim_html, now
             self.aim_box.set_text(aim_html)
         self._sync_game(state)
