@@ -24,7 +24,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from hypothesis import HealthCheck, assume, event, given, settings
+from hypothesis import HealthCheck, assume, event, example, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import minimize_scalar
 
@@ -208,6 +208,11 @@ def test_invariants_random_layouts(preset, n, seed, stroke, phys, aim):
 
 
 @slow(40)
+# Found by this test: a ball gathered into a cluster phase it took no part in
+# was moved to the phase's time, and the pair tests read its motion as of
+# its old time, so they skipped its next contact (2.8 um of overlap).
+@example(seed=1421484, speed=10.170282572936943, aim=0.0, gap=0.0003, side=0.2892365236387031,
+         height=0.292, zero_friction=True, preset="pool-8ft")
 @given(seed=st.integers(0, 2**32 - 1), speed=st.floats(8.0, 12.0), aim=st.floats(-1.5, 1.5),
        gap=st.sampled_from([0.0, 1e-7, 1e-5, 3e-4]), side=st.floats(-0.3, 0.3),
        height=st.floats(-0.3, 0.3), zero_friction=st.booleans(),

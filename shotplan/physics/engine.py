@@ -263,12 +263,16 @@ def _refresh_ball(i, t, pos, vel, om, st, tref, prm, lines,  # type: ignore[no-u
     be its reference time. For the pair tests of :func:`_refresh_pairs`, also
     the box its centre stays in until that event (``box[i]``: x low, x high,
     y low, y high) and its motion (``mot[i]``: position, velocity and
-    acceleration at ``t``, x and y each; zero velocity and acceleration for a
-    ball that does not move)."""
+    acceleration at ``t``, x and y each, and ``t`` itself; zero velocity and
+    acceleration for a ball that does not move). The motion keeps its own
+    time: a ball gathered into a cluster phase it takes no part in is
+    advanced to the phase's time (a new reference time, the same path) and
+    not refreshed."""
     x, y = pos[i, 0], pos[i, 1]
     box[i, 0] = box[i, 1] = mot[i, 0] = x
     box[i, 2] = box[i, 3] = mot[i, 1] = y
     mot[i, 2] = mot[i, 3] = mot[i, 4] = mot[i, 5] = 0.0
+    mot[i, 6] = t
     if st[i] == POCKETED:
         own_t[i] = math.inf
         own_kind[i] = 0
@@ -311,7 +315,7 @@ def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ign
     g = 2.0 * prm[P_R] + PAIR_BOX_SLACK_M
     si = st[i]
     mi = si == SLIDING or si == ROLLING
-    ui = t - tref[i]
+    ui = t - mot[i, 6]
     xi = mot[i, 0] + mot[i, 2] * ui + 0.5 * mot[i, 4] * ui * ui
     yi = mot[i, 1] + mot[i, 3] * ui + 0.5 * mot[i, 5] * ui * ui
     vxi = mot[i, 2] + mot[i, 4] * ui
@@ -327,7 +331,7 @@ def _refresh_pairs(i, skip, k_from, t, pos, vel, om, st, tref, prm,  # type: ign
         if not (si == POCKETED or sk == POCKETED or not (mi or mk)
                 or box[i, 1] + g < box[k, 0] or box[k, 1] + g < box[i, 0]
                 or box[i, 3] + g < box[k, 2] or box[k, 3] + g < box[i, 2]):
-            uk = t - tref[k]
+            uk = t - mot[k, 6]
             span = min(own_t[i], own_t[k]) - t
             # j's centre seen from i's: position, velocity, acceleration.
             rx = mot[k, 0] + mot[k, 2] * uk + 0.5 * mot[k, 4] * uk * uk - xi
@@ -574,7 +578,7 @@ def run_events(pos, vel, om, st, prm, lines, circles, drops,  # type: ignore[no-
     own_elem = np.full(n, -1, dtype=np.int64)
     trans_t = np.full(n, math.inf)
     box = np.zeros((n, 4))
-    mot = np.zeros((n, 6))
+    mot = np.zeros((n, 7))
     pair_t = np.full((n, n), math.inf)
     row_t = np.full(n, math.inf)
     row_j = np.full(n, -1, dtype=np.int64)
