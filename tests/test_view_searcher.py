@@ -30,6 +30,16 @@ def worker():
         yield w
 
 
+def _parts_until_done(worker, job):
+    t0 = time.perf_counter()
+    parts = []
+    while not (parts and parts[-1].done) and time.perf_counter() - t0 < 120.0:
+        parts += worker.parts(job)
+        time.sleep(0.01)
+    assert parts and parts[-1].done
+    return parts
+
+
 def _key(shots):
     return [s.to_dict() for s in shots]
 
@@ -59,12 +69,7 @@ def test_a_newer_job_replaces_the_one_in_hand(worker):
     old = worker.submit(lay, lay.physics(), 20)
     new = worker.submit(moved, moved.physics(), 20)
     assert new == old + 1
-    t0 = time.perf_counter()
-    parts = []
-    while not (parts and parts[-1].done) and time.perf_counter() - t0 < 120.0:
-        parts += worker.parts(new)
-        time.sleep(0.01)
-    assert parts and parts[-1].done
+    parts = _parts_until_done(worker, new)
     assert all(p.number == new for p in parts)
     assert _key(parts[-1].shots) == _key(_proposals(moved, None).proposals[:20])
 
@@ -103,3 +108,59 @@ def test_a_layout_the_carom_search_refuses_says_why_either_way(worker):
     reasons = [r.reason for r in there.rejections]
     assert reasons == [r.reason for r in here.rejections]
     assert len(reasons) == 1 and "exactly two other balls" in reasons[0]
+
+
+def _wait_window(worker, number, seconds=60.0):
+    t0 = time.perf_counter()
+    while time.perf_counter() - t0 < seconds:
+        got = worker.window(number)
+        if got is not None:
+            return got
+        time.sleep(0.005)
+    raise AssertionError("no window result")
+
+
+def test_a_window_job_answers_what_find_shots_finds_and_leaves_the_proposals_job_going(worker):
+    from shotplan.search import find_shots
+
+    lay = load_layout(CUT)
+    search = {"balls": ["2"], "pockets": ["foot-left"], "kinds": ("direct",)}
+    job = worker.submit(lay, lay.physics(), 20)
+    win = worker.submit_window(lay, lay.physics(), search)
+    got = _wait_window(worker, win)
+    here = find_shots(lay, physics=lay.physics(), **search)
+    assert got.error == "" and _key(got.shots) == _key(here.shots)
+    assert [r.to_dict() for r in got.rejected] == [r.to_dict() for r in here.rejected]
+    # The proposals job was not dropped for the window: it ends, whole.
+    parts = _parts_until_done(worker, job)
+    assert _key(parts[-1].shots) == _key(_proposals(lay, None).proposals[:20])
+    bad = worker.submit_window(lay, lay.physics(), {"balls": ["7"]})
+    assert "7" in _wait_window(worker, bad).error  # no ball 7 here: said, not raised
+
+
+def test_a_dragged_ball_gets_the_window_from_the_worker_and_keeps_the_last_meanwhile(worker):
+    # The same aim searched again (the object ball moved) goes to the worker:
+    # no window search runs in the frame; the last window stays shown until
+    # the answer, which is the one the view's own search finds.
+    from shotplan.view.state import PocketAim
+
+    lay = load_layout(CUT)
+    st = ViewState(lay, None, "")
+    pred = Predictor()
+    pred.worker = worker
+    st.aim_at_pocket("2", "foot-left")
+    pred.update(st, 0.0)
+    first = pred.window
+    assert first is not None  # a new aim is searched at once, here
+    x, y = st.layout.position("2")
+    st.move_ball("2", (x + 0.01, y))
+    pred.update(st, 1.0, dragging=True)
+    assert pred.window is first and pred.busy(st)
+    pred.settle(st, 1.0)
+    assert pred.window is not first and pred.window is not None
+    here = Predictor()
+    st2 = ViewState(st.layout, None, "")
+    st2.aim_at_pocket("2", "foot-left")
+    here.update(st2, 0.0)
+    assert pred.window.to_dict() == here.window.to_dict()
+    assert isinstance(st.aim, PocketAim)

@@ -7,7 +7,10 @@ millisecond, a full rack in a few) and rations the dear ones:
 
 * the *window* of the shot being aimed (``find_shots`` for one ball and one
   pocket, 2 to 10 ms) is searched again when an edit ends, and at most every
-  :attr:`Predictor.window_interval_s` while a ball is being dragged;
+  :attr:`Predictor.window_interval_s` while a ball is being dragged; when
+  the aim stays the same (a ball or a slider moves) and there is a worker
+  process (``shotplan view`` starts one), the worker searches it and the
+  last window is shown until the answer comes, so no frame waits for it;
 * the *proposals* (every ball into every pocket) are searched one ball and
   pocket at a time, within :attr:`Predictor.budget_s` per frame, once the
   layout has been still for :attr:`Predictor.settle_s`, so the view never
@@ -21,20 +24,24 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import Any
 
 from ..aim import aim_at, contact_fraction
 from ..errors import ShotplanError
 from ..physics import Outcome
-from ..search import KINDS, Rejected, Shot, find_shots
-from .searcher import SearchStopped, SearchWorker, search_pieces
+from ..search import KINDS, Rejected, Shot
+from .searcher import SearchStopped, SearchWorker, search_pieces, search_window
 from .state import FreeAim, PocketAim, ViewState
 
 __all__ = ["AimGeometry", "Predictor", "MAX_PROPOSALS"]
 
 MAX_PROPOSALS = 40
 """Longest proposals list kept (best first)."""
+
+Picker = Callable[[Sequence[Shot], Sequence[Rejected]], tuple[Shot | None, str]]
+"""Picks the window shown from a window search's shots and rejections."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -109,6 +116,7 @@ class Predictor:
         """The worker process that searches the proposals (``shotplan view``
         starts one); ``None``: they are searched a slice a frame here."""
         self._job = 0
+        self._win_wait: tuple[int, Picker, Any] | None = None
 
     # ------------------------------------------------------------- queries
     def busy(self, state: ViewState) -> bool:
@@ -123,7 +131,7 @@ class Predictor:
         -------
         bool
         """
-        return self._playable(state) and not state.proposals_done
+        return self._playable(state) and (not state.proposals_done or self._win_wait is not None)
 
     @staticmethod
     def _playable(state: ViewState) -> bool:
@@ -203,7 +211,7 @@ class Predictor:
             if self.outcome is not None or self.geometry is not None or self.message != why:
                 self.outcome, self.geometry, self.window, self.target = None, None, None, None
                 self.message, self.window_note = why, ""
-                self._sim_key = self._win_key = self._free_key = None
+                self._sim_key = self._win_key = self._free_key = self._win_wait = None
                 changed = True
             if not state.proposals_done:
                 state.set_proposals((), True)
@@ -283,11 +291,19 @@ class Predictor:
         changed = False
         key = (layout, state.settings, aim, state.physics())
         if key != self._win_key and (not dragging or now - self._win_time >= self.window_interval_s):
+            # The same aim searched again (a ball or a slider moved) goes to
+            # the worker; the last window is shown until the answer comes.
+            same_aim = self._win_key is not None and self._win_key[2] == aim
+            if not same_aim:
+                self.window, self.window_note = None, ""
             self._win_key, self._win_time = key, now
-            self.window, self.window_note = self._window_for(state, aim)
+            found = self._window_for(state, aim, wait=not same_aim)
+            if found is not None:
+                self.window, self.window_note = found
             self.target = (aim.sequence, aim.pocket)
             changed = True
-        fresh = key == self._win_key
+        changed |= self._window_arrived(("pocket", aim))
+        fresh = key == self._win_key and self._win_wait is None
         cue, ob = pos["cue"], pos[aim.ball]
         R = table.ball_radius
         w = self.window
@@ -325,8 +341,10 @@ class Predictor:
             changed = True
         return changed
 
-    def _window_for(self, state: ViewState, aim: PocketAim) -> tuple[Shot | None, str]:
-        """The searched shot for ``aim`` with the settings in use."""
+    def _window_for(self, state: ViewState, aim: PocketAim,
+                    wait: bool = True) -> tuple[Shot | None, str] | None:
+        """The searched shot for ``aim`` with the settings in use (``None``:
+        asked of the worker, see :meth:`_window_arrived`)."""
         if state.chosen is not None and state.chosen < len(state.proposals):
             shot = state.proposals[state.chosen]
             s = state.settings
@@ -334,22 +352,58 @@ class Predictor:
                     and tuple(shot.rails) == aim.rails and shot.speed_mps == s.speed_mps
                     and shot.side == s.side and shot.height == s.height
                     and shot.elevation_deg == s.elevation_deg):
+                self._win_wait = None
                 return shot, ""
         s = state.settings
+
+        def pick(shots: Sequence[Shot], rejected: Sequence[Rejected]) -> tuple[Shot | None, str]:
+            for shot in shots:
+                if shot.balls == aim.sequence and tuple(shot.rails) == aim.rails:
+                    return shot, ""
+            for r in rejected:
+                if r.balls == aim.sequence and tuple(r.rails) == aim.rails:
+                    return None, r.reason
+            return None, "misses in simulation"
+
+        return self._search_window(state, {
+            "balls": [aim.ball], "pockets": [aim.pocket], "kinds": (aim.kind,),
+            "speed": s.speed_mps, "side": s.side, "height": s.height,
+            "elevation_deg": s.elevation_deg}, pick, ("pocket", aim), wait)
+
+    def _search_window(self, state: ViewState, search: dict[str, Any], pick: Picker, aim: Any,
+                       wait: bool) -> tuple[Shot | None, str] | None:
+        """Search a window here (``wait``, or no worker), or ask the worker
+        and return ``None``."""
         self.window_searches += 1
-        try:
-            res = find_shots(state.layout, balls=[aim.ball], pockets=[aim.pocket], kinds=(aim.kind,),
-                             speed=s.speed_mps, side=s.side, height=s.height,
-                             elevation_deg=s.elevation_deg, physics=state.physics())
-        except (ShotplanError, KeyError) as e:
-            return None, str(e)
-        for shot in res.shots:
-            if shot.balls == aim.sequence and tuple(shot.rails) == aim.rails:
-                return shot, ""
-        for r in res.rejected:
-            if r.balls == aim.sequence and tuple(r.rails) == aim.rails:
-                return None, r.reason
-        return None, "misses in simulation"
+        worker = self.worker
+        if not wait and worker is not None and worker.alive:
+            number = worker.submit_window(state.layout, state.physics(), search)
+            self._win_wait = (number, pick, aim)
+            return None
+        self._win_wait = None  # this answer is newer than any on its way
+        shots, rejected, error = search_window(state.layout, state.physics(), search)
+        return (None, error) if error else pick(shots, rejected)
+
+    def _window_arrived(self, aim: Any) -> bool:
+        """Show the worker's window if it has come, and is for ``aim`` (the
+        aim in use: a window for another is dropped). True if shown."""
+        if self._win_wait is None:
+            return False
+        number, pick, asked = self._win_wait
+        worker = self.worker
+        if worker is None or not worker.alive:
+            self._win_wait = None
+            self._win_key = self._free_key = None  # search again in these frames
+            return False
+        got = worker.window(number)
+        if got is None:
+            return False
+        self._win_wait = None
+        if asked != aim:
+            return False
+        self.window, self.window_note = (None, got.error) if got.error else pick(got.shots,
+                                                                                  got.rejected)
+        return True
 
     def _free_geometry(self, state: ViewState) -> None:
         """The ghost-ball picture of what a free stroke does, from its simulation."""
@@ -393,26 +447,29 @@ class Predictor:
             self.window, self.window_note, self._free_key = None, "", None
             return changed
         key = (state.layout, state.settings, self.target, state.physics())
+        arrived = self._window_arrived(("free", self.target))
         if key == self._free_key:
-            return False
+            return arrived
         if dragging and now - self._win_time < self.window_interval_s:
-            return False
+            return arrived
+        same_target = self._free_key is not None and self._free_key[2] == self.target
         self._free_key, self._win_time = key, now
         seq, pocket = self.target
-        self.window_searches += 1
         s = state.settings
-        try:
-            res = find_shots(state.layout, balls=[seq[0]], pockets=[pocket], kinds=KINDS,
-                             speed=s.speed_mps, side=s.side, height=s.height,
-                             physics=state.physics())
-        except (ShotplanError, KeyError) as e:
-            self.window, self.window_note = None, str(e)
-            return True
-        shots = [sh for sh in res.shots if sh.balls[-1] == seq[-1]]
-        d = state.direction_deg or 0.0
-        inside = [sh for sh in shots if sh.window_low_deg - 1e-9 <= d <= sh.window_high_deg + 1e-9]
-        self.window = inside[0] if inside else (shots[0] if shots else None)
-        self.window_note = "" if self.window is not None else "pockets, but no window found"
+
+        def pick(found: Sequence[Shot], _rejected: Sequence[Rejected]) -> tuple[Shot | None, str]:
+            shots = [sh for sh in found if sh.balls[-1] == seq[-1]]
+            d = state.direction_deg or 0.0
+            inside = [sh for sh in shots
+                      if sh.window_low_deg - 1e-9 <= d <= sh.window_high_deg + 1e-9]
+            shot = inside[0] if inside else (shots[0] if shots else None)
+            return shot, "" if shot is not None else "pockets, but no window found"
+
+        found = self._search_window(state, {
+            "balls": [seq[0]], "pockets": [pocket], "kinds": KINDS, "speed": s.speed_mps,
+            "side": s.side, "height": s.height}, pick, ("free", self.target), wait=not same_target)
+        if found is not None:
+            self.window, self.window_note = found
         return True
 
     # ------------------------------------------------------------ proposals

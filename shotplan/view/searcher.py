@@ -1,5 +1,7 @@
 """The proposals search in a worker process, so that no frame of the view
-waits for it (pure Python: no pygame here, nor in the worker).
+waits for it (pure Python: no pygame here, nor in the worker); and the
+window of the shot aimed at, which the view asks for a few times a second
+while a ball is dragged.
 
 The view sends a job (the layout, its physics, its game) whenever the layout
 has settled after an edit; the worker searches it one ball, pocket and kind
@@ -7,7 +9,9 @@ at a time (a carom game: one speed and tip of the carom scan at a time) and
 sends what it has found so far every :data:`PART_S` seconds, then the whole.
 A newer job makes the worker drop the one it is on at its next piece, so a
 dragged ball never queues up stale searches. Results carry their job's
-number; the view keeps only the newest.
+number; the view keeps only the newest. A window job (one
+``find_shots`` call, a few ms) is answered at once, between two pieces of a
+proposals job, which goes on.
 
 The worker is started with the ``spawn`` method (a fresh interpreter: the
 view's window and threads are not copied into it) and loads the compiled
@@ -23,7 +27,8 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-__all__ = ["SearchWorker", "SearchJob", "SearchPart", "SearchStopped", "search_pieces", "PART_S"]
+__all__ = ["SearchWorker", "SearchJob", "SearchPart", "SearchStopped", "WindowJob", "WindowResult",
+           "search_pieces", "search_window", "PART_S"]
 
 PART_S = 0.1
 """How often the worker sends what it has found so far, s."""
@@ -58,6 +63,65 @@ class SearchPart:
     """Candidates turned down (with the last part only)."""
     done: bool
     """Whether this is the whole."""
+
+
+@dataclass(frozen=True, slots=True)
+class WindowJob:
+    """One window search for the worker: ``find_shots`` on a layout."""
+
+    number: int
+    """Counts up with the proposals jobs' numbers; the result carries it."""
+    layout: Any
+    """The :class:`shotplan.layout.Layout`."""
+    physics: Any
+    """Its :class:`shotplan.physics.Physics`."""
+    search: dict[str, Any]
+    """Keyword arguments of :func:`shotplan.search.find_shots` (balls, pockets,
+    kinds, speed, side, height...)."""
+
+
+@dataclass(frozen=True, slots=True)
+class WindowResult:
+    """What a window search found."""
+
+    number: int
+    """The job's number."""
+    shots: tuple[Any, ...]
+    """The shots found (:class:`shotplan.search.Shot`)."""
+    rejected: tuple[Any, ...]
+    """The candidates turned down (:class:`shotplan.search.Rejected`)."""
+    error: str
+    """Why the search could not run (a bad layout or name), or ``""``."""
+
+
+def search_window(layout: Any, physics: Any, search: dict[str, Any]
+                  ) -> tuple[tuple[Any, ...], tuple[Any, ...], str]:
+    """A window search, as the worker and the view's own frames run it.
+
+    Parameters
+    ----------
+    layout : Layout
+        The layout.
+    physics : Physics
+        Its physics.
+    search : dict
+        Keyword arguments of :func:`shotplan.search.find_shots`.
+
+    Returns
+    -------
+    shots, rejected : tuple
+        What :func:`~shotplan.search.find_shots` found and turned down.
+    error : str
+        Why it could not search, or ``""``.
+    """
+    from ..errors import ShotplanError
+    from ..search import find_shots
+
+    try:
+        res = find_shots(layout, physics=physics, **search)
+    except (ShotplanError, KeyError) as e:
+        return (), (), str(e)
+    return tuple(res.shots), tuple(res.rejected), ""
 
 
 class SearchStopped(Exception):
@@ -144,6 +208,23 @@ def search_pieces(layout: Any, physics: Any, elevation_deg: float = 0.0
 def _serve(conn: Any) -> None:
     """The worker's loop: jobs in, parts out, until ``None`` or a closed pipe."""
     waiting: list[SearchJob | None] = []  # a message read while a job ran
+
+    def answer(job: WindowJob) -> None:
+        shots, rejected, error = search_window(job.layout, job.physics, job.search)
+        conn.send(WindowResult(job.number, shots, rejected, error))
+
+    def newer() -> bool:
+        """Answer the window jobs waiting; True if a newer proposals job (or
+        the end) came, which is then kept in ``waiting``."""
+        while conn.poll():
+            msg = conn.recv()
+            if isinstance(msg, WindowJob):
+                answer(msg)
+            else:
+                waiting.append(msg)
+                return True
+        return False
+
     while True:
         try:
             job = waiting.pop() if waiting else conn.recv()
@@ -151,14 +232,16 @@ def _serve(conn: Any) -> None:
             return
         if job is None:
             return
-        shots: list[Any] = []
-        rejected: list[Any] = []
-        sent = time.perf_counter()
         try:
+            if isinstance(job, WindowJob):
+                answer(job)
+                continue
+            shots: list[Any] = []
+            rejected: list[Any] = []
+            sent = time.perf_counter()
             pieces, merge = search_pieces(job.layout, job.physics, job.elevation_deg)
             for piece in pieces:
-                if conn.poll():  # a newer job (or the end): drop this one
-                    waiting.append(conn.recv())
+                if newer():  # a newer job (or the end): drop this one
                     break
                 try:
                     shots = merge(piece, shots, rejected)
@@ -186,6 +269,8 @@ class SearchWorker:
         self._proc.start()
         child.close()
         self._number = 0
+        self._parts: list[SearchPart] = []
+        self._window: WindowResult | None = None
 
     @property
     def alive(self) -> bool:
@@ -216,6 +301,36 @@ class SearchWorker:
         self._conn.send(SearchJob(self._number, layout, physics, max_shots, elevation_deg))
         return self._number
 
+    def submit_window(self, layout: Any, physics: Any, search: dict[str, Any]) -> int:
+        """Send a window search (answered between two pieces of the proposals
+        job, which goes on).
+
+        Parameters
+        ----------
+        layout : Layout
+            The layout.
+        physics : Physics
+            Its physics.
+        search : dict
+            Keyword arguments of :func:`shotplan.search.find_shots`.
+
+        Returns
+        -------
+        int
+            The job's number.
+        """
+        self._number += 1
+        self._conn.send(WindowJob(self._number, layout, physics, dict(search)))
+        return self._number
+
+    def _drain(self) -> None:
+        while self._conn.poll():
+            msg = self._conn.recv()
+            if isinstance(msg, SearchPart):
+                self._parts.append(msg)
+            elif isinstance(msg, WindowResult):
+                self._window = msg
+
     def parts(self, number: int) -> list[SearchPart]:
         """The parts that have arrived for job ``number`` (older jobs' are
         dropped); never waits.
@@ -229,12 +344,29 @@ class SearchWorker:
         -------
         list of SearchPart
         """
-        out = []
-        while self._conn.poll():
-            part = self._conn.recv()
-            if isinstance(part, SearchPart) and part.number == number:
-                out.append(part)
+        self._drain()
+        out = [p for p in self._parts if p.number == number]
+        self._parts = [p for p in self._parts if p.number > number]
         return out
+
+    def window(self, number: int) -> WindowResult | None:
+        """The result of window job ``number`` if it has arrived (an older
+        job's is dropped); never waits.
+
+        Parameters
+        ----------
+        number : int
+            The job.
+
+        Returns
+        -------
+        WindowResult or None
+        """
+        self._drain()
+        got = self._window
+        if got is not None and got.number <= number:
+            self._window = None
+        return got if got is not None and got.number == number else None
 
     def close(self) -> None:
         """Ask the worker to end, and end it if it does not within a second."""
