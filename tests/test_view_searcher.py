@@ -136,6 +136,12 @@ def test_a_window_job_answers_what_find_shots_finds_and_leaves_the_proposals_job
     assert _key(parts[-1].shots) == _key(_proposals(lay, None).proposals[:20])
     bad = worker.submit_window(lay, lay.physics(), {"balls": ["7"]})
     assert "7" in _wait_window(worker, bad).error  # no ball 7 here: said, not raised
+    # A burst (a slider moved): the newest is answered, as find_shots answers it.
+    for speed in (1.0, 1.5, 2.0, 2.5):
+        last = worker.submit_window(lay, lay.physics(), dict(search, speed=speed))
+    got = _wait_window(worker, last)
+    assert _key(got.shots) == _key(find_shots(lay, physics=lay.physics(), speed=2.5,
+                                              **search).shots)
 
 
 def test_a_dragged_ball_gets_the_window_from_the_worker_and_keeps_the_last_meanwhile(worker):

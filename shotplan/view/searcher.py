@@ -210,20 +210,27 @@ def _serve(conn: Any) -> None:
     waiting: list[SearchJob | None] = []  # a message read while a job ran
 
     def answer(job: WindowJob) -> None:
+        """Answer the newest window job in the pipe from ``job`` on (the view
+        keeps only the newest answer: a slider moved for a second sends 60)."""
+        while conn.poll():
+            msg = conn.recv()
+            if not isinstance(msg, WindowJob):
+                waiting.append(msg)  # a proposals job, or the end: next
+                break
+            job = msg
         shots, rejected, error = search_window(job.layout, job.physics, job.search)
         conn.send(WindowResult(job.number, shots, rejected, error))
 
     def newer() -> bool:
         """Answer the window jobs waiting; True if a newer proposals job (or
         the end) came, which is then kept in ``waiting``."""
-        while conn.poll():
+        while not waiting and conn.poll():
             msg = conn.recv()
             if isinstance(msg, WindowJob):
                 answer(msg)
             else:
                 waiting.append(msg)
-                return True
-        return False
+        return bool(waiting)
 
     while True:
         try:
