@@ -242,27 +242,32 @@ def _serve(conn: Any) -> None:
         try:
             if isinstance(job, WindowJob):
                 answer(job)
-                continue
-            shots: list[Any] = []
-            rejected: list[Any] = []
-            sent = time.perf_counter()
-            pieces, merge = search_pieces(job.layout, job.physics, job.elevation_deg)
-            for piece in pieces:
-                if newer():  # a newer job (or the end): drop this one
-                    break
-                try:
-                    shots = merge(piece, shots, rejected)
-                except SearchStopped:
-                    shots = []
-                    break
-                if time.perf_counter() - sent >= PART_S:
-                    conn.send(SearchPart(job.number, tuple(shots[:job.max_shots]), (), False))
-                    sent = time.perf_counter()
-            if not waiting:
-                conn.send(SearchPart(job.number, tuple(shots[:job.max_shots]), tuple(rejected),
-                                     True))
+            else:
+                _search_job(conn, job, newer)
         except (EOFError, OSError):
             return
+
+
+def _search_job(conn: Any, job: SearchJob, newer: Callable[[], bool]) -> None:
+    """Search a proposals job piece by piece, sending parts as they grow and
+    the whole at the end; dropped (nothing more sent) when ``newer()`` says
+    a newer job or the end has come."""
+    shots: list[Any] = []
+    rejected: list[Any] = []
+    sent = time.perf_counter()
+    pieces, merge = search_pieces(job.layout, job.physics, job.elevation_deg)
+    for piece in pieces:
+        if newer():
+            return
+        try:
+            shots = merge(piece, shots, rejected)
+        except SearchStopped:
+            shots = []
+            break
+        if time.perf_counter() - sent >= PART_S:
+            conn.send(SearchPart(job.number, tuple(shots[:job.max_shots]), (), False))
+            sent = time.perf_counter()
+    conn.send(SearchPart(job.number, tuple(shots[:job.max_shots]), tuple(rejected), True))
 
 
 class SearchWorker:
