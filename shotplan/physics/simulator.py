@@ -652,15 +652,13 @@ class Outcome:
         idx = self._by_ball[i]
         chord: dict[int, float] = {}
         if step_m is not None and step_m > 0.0:
-            ends = [int(s) for s in idx]
-            pos = np.zeros((len(ends) + 1, 7))
-            last = int(idx[-1])
-            _sample(self._seg_t, self._seg_state, self._seg_pos, self._seg_vel, self._seg_om,
-                    np.array(ends + [last], dtype=np.int64),
-                    np.array([float(self._seg_t[seg]) for seg in ends] + [self.duration]),
-                    self.simulator.prm, pos)
-            for k, seg in enumerate(ends):
-                chord[seg] = float(np.hypot(pos[k + 1, 0] - pos[k, 0], pos[k + 1, 1] - pos[k, 1]))
+            # A segment starts where the ball's previous one ends; the last
+            # ends where the ball is at the end of the run.
+            end = self.state_of(ball, self.duration)
+            starts = [(float(self._seg_pos[s, 0]), float(self._seg_pos[s, 1])) for s in idx]
+            for k, s in enumerate(idx):
+                x1, y1 = starts[k + 1] if k + 1 < len(idx) else (end.x, end.y)
+                chord[int(s)] = float(np.hypot(x1 - starts[k][0], y1 - starts[k][1]))
         seg_list: list[int] = []
         times: list[float] = []
         for k, s in enumerate(idx):

@@ -695,9 +695,7 @@ class App:
         clip = pygame.Rect(*self.panels.regions.table)
         # The table area is drawn on its own surface, through the same
         # transform shifted to that surface's corner.
-        local = Transform(transform.scale, transform.origin_x - clip.left,
-                          transform.origin_y - clip.top, transform.bounds,
-                          (0, 0, clip.width, clip.height))
+        local = transform.shifted(clip.left, clip.top, clip.width, clip.height)
         table = self.table_cache.surface(self.scene, local, clip.size, BACKGROUND)
         shapes = self._dynamic_shapes()
         # The table with everything on it is kept while nothing changes (most
@@ -763,8 +761,7 @@ class App:
         assert self.panels is not None
         t = self.transform
         area = pygame.Rect(*self.panels.regions.table)
-        local = Transform(t.scale, t.origin_x - area.left, t.origin_y - area.top, t.bounds,
-                          (0, 0, area.width, area.height))
+        local = t.shifted(area.left, area.top, area.width, area.height)
         table = self.table_cache.surface(self.scene, local, area.size, BACKGROUND)
         draw_loading(screen, self.painter, table, area)
 

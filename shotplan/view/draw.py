@@ -319,13 +319,13 @@ class Painter:
             x0, y0, x1, y1 = cx - reach, cy - reach, cx + reach, cy + reach
             for shape in group.shapes:
                 if isinstance(shape, TextShape):  # a label may be wider than a small ball
-                    tl, tt, tw, th = self._text_box(shape, transform)
+                    img, _size, tl, tt = self._text_image(shape, transform)
+                    tw, th = img.get_size()
                     x0, y0, x1, y1 = min(x0, tl), min(y0, tt), max(x1, tl + tw), max(y1, tt + th)
             left, top = math.floor(x0), math.floor(y0)
             size = math.ceil(x1) - left, math.ceil(y1) - top
             sprite = pygame.Surface(size, pygame.SRCALPHA)
-            local = Transform(transform.scale, transform.origin_x - left, transform.origin_y - top,
-                              transform.bounds, (0, 0, size[0], size[1]))
+            local = transform.shifted(left, top, size[0], size[1])
             for shape in group.shapes:
                 self.draw_shape(sprite, shape, local)
             self.sprite_renders += 1
@@ -536,20 +536,20 @@ class Painter:
             for p in (pts if closed else pts[1:-1]):
                 pygame.draw.circle(surface, colour, p, w / 2.0)
 
-    def _text_box(self, shape: TextShape, transform: Transform) -> tuple[int, int, int, int]:
-        """(left, top, width, height) of a text's image on the surface, px."""
+    def _text_image(self, shape: TextShape, transform: Transform
+                    ) -> tuple[pygame.Surface, int, int, int]:
+        """A text's image, its size in px and where its corner goes on the surface."""
         size = max(self.min_text_px, round(transform.px(shape.size_mm / 1000.0)))
-        w, h = self.text_surface(shape.text, size, shape.colour, shape.bold).get_size()
+        img = self.text_surface(shape.text, size, shape.colour, shape.bold)
+        w, h = img.get_size()
         x, y = transform.to_screen(*shape.position)
         horizontal, vertical = ANCHORS[shape.anchor]
         left = {"left": x, "center": x - w / 2, "right": x - w}[horizontal]
         top = {"top": y, "center": y - h / 2, "bottom": y - h}[vertical]
-        return round(left), round(top), w, h
+        return img, size, round(left), round(top)
 
     def _text(self, surface: pygame.Surface, shape: TextShape, transform: Transform) -> None:
-        size = max(self.min_text_px, round(transform.px(shape.size_mm / 1000.0)))
-        img = self.text_surface(shape.text, size, shape.colour, shape.bold)
-        left, top, _w, _h = self._text_box(shape, transform)
+        img, size, left, top = self._text_image(shape, transform)
         if surface.get_flags() & pygame.SRCALPHA:
             # On a see-through sprite, the way pygame's smoothing leaves its
             # pixels: colour weighted by coverage (a text image's clear

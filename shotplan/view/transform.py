@@ -163,6 +163,24 @@ class Transform:
         out[:, 1] = (self.origin_y - pts[:, 1]) / self.scale
         return out
 
+    def shifted(self, left: float, top: float, width: int, height: int) -> Transform:
+        """The same transform onto a surface whose corner is at (``left``,
+        ``top``) of this one's screen, ``width`` by ``height`` px.
+
+        Parameters
+        ----------
+        left, top : float
+            Where the surface's corner is, px.
+        width, height : int
+            The surface's size, px.
+
+        Returns
+        -------
+        Transform
+        """
+        return Transform(self.scale, self.origin_x - left, self.origin_y - top, self.bounds,
+                         (0, 0, width, height))
+
     # --------------------------------------------------------- lengths
     def px(self, length_m: float) -> float:
         """A table length in pixels.
