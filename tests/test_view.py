@@ -304,9 +304,9 @@ def test_choosing_a_proposal_loads_its_aim_and_stroke(demo):
     best = st.proposals[0]
     shots = demo.panels.shots
     pump(demo, 2)
-    item = shots.item_list[0]["button_element"]
-    click_widget(demo, item)
-    assert st.chosen == 0
+    click(demo, shots.row_rect(0).center)
+    pump(demo, 2)
+    assert st.chosen == 0 and shots.chosen == 0
     assert st.aim == PocketAim(best.balls[0], best.pocket, best.kind, tuple(best.rails),
                                tuple(best.balls))
     assert st.settings.speed_mps == best.speed_mps and st.settings.height == best.height
@@ -314,7 +314,7 @@ def test_choosing_a_proposal_loads_its_aim_and_stroke(demo):
     # A proposal is a shot that pockets its ball in simulation; the view plays it.
     assert demo.predictor.outcome.pocketed().get(best.balls[-1]) == best.pocket
     key(demo, pygame.K_n)
-    assert st.chosen == 1
+    assert st.chosen == 1 and shots.chosen == 1  # the list shows the one in use
 
 
 def test_proposals_are_ranked_best_first(demo):

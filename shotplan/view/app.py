@@ -717,16 +717,16 @@ class App:
             draw_help(surface, self.painter)
 
     def busy(self) -> bool:
-        """Whether the view has work of its own this frame.
+        """Whether the view has work of its own this frame: the animation playing, a drag, the
+        search not finished, an edit under a second old, the shots list gliding to its place.
 
         Returns
         -------
         bool
-            The animation playing, a drag, the search not finished, or an
-            edit under a second old.
         """
         return (self.playback.playing or self.pointer.dragging or self.atlas.busy
-                or self.predictor.busy(self.state) or self.now - self._edit_time < 1.0)
+                or self.predictor.busy(self.state) or self.now - self._edit_time < 1.0
+                or bool(self.panels and self.panels.shots.scrolling))
 
     def look(self) -> tuple[Any, ...]:
         """What the frame shows, in a few values.

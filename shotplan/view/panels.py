@@ -29,7 +29,6 @@ from pygame_gui.elements import (
     UIImage,
     UILabel,
     UIPanel,
-    UISelectionList,
     UITextBox,
     UIWindow,
 )
@@ -40,7 +39,6 @@ from ..stroke import speed_word
 from .controls import (
     MIN_SIZE,
     RAIL_LEGEND,
-    SHOT_COLUMNS,
     SLIDER_STEPS,
     TIP_PRESETS,
     TOOLBAR,
@@ -57,6 +55,7 @@ from .controls import (
     toolbar_layout,
 )
 from .playback import Playback
+from .shotlist import ShotList
 from .state import ELEVATION_RANGE_DEG, SPEED_RANGE_MPS
 
 if TYPE_CHECKING:
@@ -159,7 +158,8 @@ class Panels:
         self._status_time = -1.0
         self._list_source: Any = None
         self._list_time = -math.inf
-        self._list_texts: list[str | tuple[str, str]] = []
+        self._list_texts: list[str] = []
+        self._pickable = 0
         self._play_label = ""
         self.build()
 
@@ -174,8 +174,8 @@ class Panels:
         self._aim_text = self._status_text = self._play_label = ""
         self._list_source = None
         self._list_texts = []
+        self._pickable = 0
         self._why_text = ""
-        self._columns_text = SHOT_COLUMNS
 
         # Toolbar: the buttons wrap onto a second row in a narrow window.
         width = max(self.size[0], MIN_SIZE[0])
@@ -270,15 +270,10 @@ class Panels:
         self.game_menu: UIDropDownMenu | None = None
         self._game_key: tuple[tuple[str, ...], str] | None = None
         y += heading_h
-        # The column heading is a list of one row, so that it is drawn exactly
-        # as the rows under it are (a label's text is spaced a little apart).
-        self.columns = UISelectionList(pygame.Rect(12, y, iw, columns_h), [SHOT_COLUMNS], m,
-                                       container=side, object_id="#columns")
-        self.columns.disable()
+        # The list draws its own column heading, in the rows' font and margin.
+        list_h = max(ph - y - columns_h - legend_h - bottom, 48)
+        self.shots = ShotList(pygame.Rect(12, y, iw, columns_h + list_h), m, side)
         y += columns_h
-        list_h = max(ph - y - legend_h - bottom, 48)
-        self.shots = UISelectionList(pygame.Rect(12, y, iw, list_h), [], m,
-                                     container=side, object_id="#shots")
         # When nothing is found, the reasons take the headings' and the list's place.
         self.why = UITextBox("", pygame.Rect(12, y - columns_h, iw, list_h + columns_h), m,
                              container=side, object_id="#why")
@@ -321,10 +316,11 @@ class Panels:
         out: dict[str, Any] = {f"button {a}": b for a, b in self.buttons.items()}
         out.update({f"tip {t}": b for t, b in self.tip_buttons.items()})
         for name in ("title_label", "speed_label", "speed_slider", "bands", "tip_label", "face",
-                     "elevation_label", "elevation_slider", "aim_box", "columns", "shots",
+                     "elevation_label", "elevation_slider", "aim_box", "shots",
                      "legend", "play_button", "reset_button", "rate_menu", "time_slider",
                      "time_label", "status"):
             out[name] = getattr(self, name)
+        out["shots"] = self.shots.element
         if self.game_menu is not None:
             out["game_menu"] = self.game_menu
         return out
@@ -431,11 +427,10 @@ class Panels:
                 return ("scrub", float(event.value) / SLIDER_STEPS)
         elif event.type == pygame_gui.UI_DROP_DOWN_MENU_CHANGED:
             return self._menu_action(event)
-        elif event.type == pygame_gui.UI_SELECTION_LIST_NEW_SELECTION and event.ui_element is self.shots:
-            words = str(event.text).split()
-            head = words[0] if words else ""
-            if head.isdigit():
-                return ("proposal", int(head) - 1)
+        elif event.type in (pygame.MOUSEBUTTONDOWN, pygame.MOUSEWHEEL):
+            row = self.shots.handle(event)
+            if row is not None and row < self._pickable:
+                return ("proposal", row)
         return None
 
     def _menu_action(self, event: pygame.event.Event) -> tuple[str, object] | None:
@@ -507,6 +502,8 @@ class Panels:
             self.aim_box.set_text(aim_html)
         self._sync_game(state)
         self._sync_list(state, now)
+        self.shots.set_chosen(state.chosen)
+        self.shots.refresh()
         duration = predictor.duration
         label = f"{playback.t:.2f} / {duration:.2f} s"
         if label != self._play_label:
@@ -539,8 +536,8 @@ class Panels:
     def _sync_list(self, state: Any, now: float = math.inf) -> None:
         """The proposed shots' list (or why there are none), redrawn when the
         search's results change: while the search is still filling it, at
-        most every :data:`LIST_REFRESH_S` (pygame_gui lays the whole list out
-        again each time, about 10 ms), at once when it is done."""
+        most every :data:`LIST_REFRESH_S` (rows that jump more often cannot
+        be read, nor clicked), at once when it is done."""
         source = (state.proposals, state.rejections, state.proposals_done,
                   bool(state.problems()))
         old = self._list_source
@@ -553,13 +550,9 @@ class Panels:
             self._list_source = source
             self._list_time = now
             bw = ball_width(state.proposals)
-            texts: list[str | tuple[str, str]] = [proposal_text(k + 1, shot, bw)
-                                                  for k, shot in enumerate(state.proposals)]
+            texts = [proposal_text(k + 1, shot, bw) for k, shot in enumerate(state.proposals)]
+            self._pickable = len(texts)
             columns = shot_columns(bw, carom=state.layout.game in CAROM_GAMES)
-            if columns != self._columns_text:
-                self._columns_text = columns
-                self.columns.set_item_list([columns])
-                self.columns.disable()
             why = ""
             if not texts:
                 if state.problems():
@@ -568,19 +561,16 @@ class Panels:
                     texts = ["   (searching...)"]
                 else:
                     why = no_shot_text(state.rejections, object_balls=len(state.object_balls))
-            if texts != self._list_texts:
-                self._list_texts = texts
-                self.shots.set_item_list(texts)
+            self._list_texts = texts
+            self.shots.set_rows(columns, texts)
             if why != self._why_text:
                 self._why_text = why
                 self.why.set_text(why)
             if why and not self.why.visible:
                 self.shots.hide()
-                self.columns.hide()
                 self.why.show()
             elif not why and self.why.visible:
                 self.why.hide()
-                self.columns.show()
                 self.shots.show()
 
 

@@ -1,0 +1,176 @@
+"""The shots list the view draws itself (shotplan/view/shotlist.py): rows
+under the pointer, the wheel, the scroll kept when the rows change, the row
+in use scrolled into sight, only new text rendered, and in the view a click
+on a scrolled list choosing the shot under the pointer. Headless
+(conftest.py). Row positions are worked by hand from the list's fixed row
+height."""
+
+from __future__ import annotations
+
+import pygame
+import pygame_gui
+import pytest
+from pygame_gui.elements import UIPanel, UIWindow
+from test_view import DEMO, click, make_app, pump
+
+from shotplan.layout import load_layout
+from shotplan.view.app import theme_resource
+from shotplan.view.shotlist import HEADING_H, ROW_H, WHEEL_ROWS, ShotList
+
+pytestmark = pytest.mark.usefixtures("display")  # conftest.py
+
+HEAD = " # shot    ball"
+
+
+def rows(n: int, tag: str = "") -> list[str]:
+    return [f"{k:>2} direct  {tag}{k}" for k in range(1, n + 1)]
+
+
+@pytest.fixture
+def lst():
+    """A list 8 rows high and a half (heading, border) at (20, 30) of a panel at (5, 5)."""
+    m = pygame_gui.UIManager((800, 600), theme_resource())
+    panel = UIPanel(pygame.Rect(5, 5, 400, 500), manager=m)
+    h = HEADING_H + 2 + 8 * ROW_H + ROW_H // 2
+    out = ShotList(pygame.Rect(20, 30, 300, h), m, panel)
+    out.manager_ = m
+    return out
+
+
+def hover(lst, pos):
+    """The pointer at ``pos``, as the manager sees it after a frame."""
+    pygame.mouse.set_pos(pos)
+    lst.manager_.update(0.01)
+    lst.refresh()
+
+
+def test_rows_at_hand_worked_places(lst):
+    lst.set_rows(HEAD, rows(5))
+    lst.refresh()
+    assert lst.scroll_bar is None  # 5 rows fit in 8.5
+    origin = lst.element.get_abs_rect().topleft
+    top = origin[1] + HEADING_H + 1  # the heading, then the border
+    x = origin[0] + 50
+    assert lst.row_at((x, top)) == 0
+    assert lst.row_at((x, top + ROW_H - 1)) == 0
+    assert lst.row_at((x, top + ROW_H)) == 1
+    assert lst.row_at((x, top + 4 * ROW_H + 3)) == 4
+    assert lst.row_at((x, top + 5 * ROW_H + 3)) is None  # below the last row
+    assert lst.row_at((x, top - 2)) is None  # the heading
+    assert lst.row_rect(2) == pygame.Rect(origin[0] + 1, top + 2 * ROW_H, 298, ROW_H)
+
+
+def test_the_wheel_scrolls_and_a_change_of_rows_keeps_the_place(lst):
+    lst.set_rows(HEAD, rows(30))
+    lst.refresh()
+    assert lst.scroll_bar is not None and lst.offset == 0
+    box = lst.row_rect(0)
+    hover(lst, (box.x + 40, box.centery))
+    assert lst.hover == 0
+    lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-1))  # one notch down
+    lst.refresh()
+    assert lst.offset == WHEEL_ROWS * ROW_H
+    # The row under the pointer is now the third.
+    hover(lst, (box.x + 40, box.centery))
+    assert lst.hover == WHEEL_ROWS
+    # Rows found above: the list stays where it was, in pixels.
+    lst.set_rows(HEAD, rows(31, "x"))
+    lst.refresh()
+    assert lst.offset == WHEEL_ROWS * ROW_H
+    # Far up: stops at the top; far down: at the last row.
+    lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=50))
+    lst.refresh()
+    assert lst.offset == 0
+    lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-50))
+    lst.refresh()
+    assert lst.offset == 31 * ROW_H - lst.rows_rect.height
+    assert lst.row_rect(30).bottom == lst.element.get_abs_rect().y + lst.rows_rect.bottom
+    assert not lst.scrolling
+    # Few rows again: no scroll bar, back at the top.
+    lst.set_rows(HEAD, rows(3))
+    lst.refresh()
+    assert lst.scroll_bar is None and lst.offset == 0
+
+
+def test_the_row_in_use_is_scrolled_into_sight_and_highlighted(lst):
+    lst.set_rows(HEAD, rows(30))
+    lst.set_chosen(20)
+    lst.refresh()
+    # Row 20 ends at 21 rows; the rows' box is 8.5 rows high.
+    assert lst.offset == 21 * ROW_H - lst.rows_rect.height
+    r = lst.row_rect(20)
+    assert r is not None and r.height == ROW_H
+    origin = lst.element.get_abs_rect().topleft
+    # A pixel of the row right of its text: the highlight's colour.
+    px = lst.element.image.get_at((r.right - 4 - origin[0], r.centery - origin[1]))
+    assert px == lst.colours["selected_bg"]
+    other = lst.row_rect(18)
+    px = lst.element.image.get_at((other.right - 4 - origin[0], other.centery - origin[1]))
+    assert px == lst.colours["dark_bg"]
+    # Back to the first: scrolled up to it.
+    lst.set_chosen(0)
+    lst.refresh()
+    assert lst.offset == 0
+    # Text is drawn: the first row has pixels of neither background.
+    r = lst.row_rect(1)
+    area = lst.element.image.subsurface(r.move(-origin[0], -origin[1]))
+    colours = {tuple(area.get_at((x, y))) for x in range(area.get_width()) for y in range(ROW_H)}
+    assert len(colours - {tuple(lst.colours["dark_bg"])}) >= 3
+
+
+def test_a_refresh_renders_only_text_not_seen_before(lst):
+    lst.set_rows(HEAD, rows(6))
+    lst.refresh()
+    before = lst.renders
+    # A shot found above the others: every row below is numbered again, but
+    # their text is known, and so are the numbers 1 to 6; new are the row's
+    # rest and the number 7.
+    texts = [r[3:] for r in rows(6)]
+    new = [f"{k + 1:>2} {t}" for k, t in enumerate(["bank F  9"] + texts)]
+    lst.set_rows(HEAD, new)
+    lst.refresh()
+    assert lst.renders - before == 2
+    # The same rows again: nothing drawn, nothing rendered.
+    draws, before = lst.draws, lst.renders
+    lst.set_rows(HEAD, list(new))
+    lst.refresh()
+    assert (lst.draws, lst.renders) == (draws, before)
+
+
+def test_a_window_over_the_list_has_the_click(lst):
+    lst.set_rows(HEAD, rows(5))
+    r = lst.row_rect(1)
+    hover(lst, r.center)
+    down = pygame.event.Event(pygame.MOUSEBUTTONDOWN, pos=r.center, button=1)
+    assert lst.handle(down) == 1
+    UIWindow(pygame.Rect(r.x - 10, r.y - 10, 200, 120), lst.manager_)
+    hover(lst, r.center)
+    assert lst.handle(down) is None
+    assert lst.hover is None
+
+
+def test_in_the_view_a_click_on_a_scrolled_list_chooses_the_shot_under_it(tmp_path):
+    app = make_app(tmp_path, load_layout(DEMO), DEMO)
+    app.settle()
+    pump(app, 2)
+    st, shots = app.state, app.panels.shots
+    assert len(st.proposals) > WHEEL_ROWS + 1 and shots.scroll_bar is not None
+    first = shots.row_rect(0)
+    pygame.mouse.set_pos(first.center)
+    app.update(0.02)
+    app.process_event(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-1, flipped=False,
+                                         precise_x=0.0, precise_y=-1.0))
+    app.update(0.02)
+    assert shots.offset == WHEEL_ROWS * ROW_H
+    click(app, first.center)
+    pump(app, 2)
+    assert st.chosen == WHEEL_ROWS
+    assert st.aim.ball == st.proposals[WHEEL_ROWS].balls[0]
+    assert st.settings.speed_mps == st.proposals[WHEEL_ROWS].speed_mps
+    # The wheel over the table does not move the list.
+    pygame.mouse.set_pos(app.transform.to_screen(1.0, 0.6))
+    app.update(0.02)
+    app.process_event(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-1, flipped=False,
+                                         precise_x=0.0, precise_y=-1.0))
+    app.update(0.02)
+    assert shots.offset == WHEEL_ROWS * ROW_H
