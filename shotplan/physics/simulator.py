@@ -517,10 +517,11 @@ class Outcome:
         dict
             Ball id -> pocket name.
         """
-        t, kind, a, _b, elem, *_ = self._ev
-        table = self.simulator.table
-        return {self.ids[a[k]]: table.pockets[elem[k]].name
-                for k in range(len(t)) if kind[k] == EventKind.POCKET}
+        _t, kind, a, _b, elem, *_ = self._ev
+        pockets = self.simulator.table.pockets
+        fell = np.flatnonzero(kind == EventKind.POCKET)  # in event order
+        return {self.ids[i]: pockets[p].name for i, p in zip(a[fell].tolist(), elem[fell].tolist(),
+                                                             strict=True)}
 
     @property
     def final(self) -> dict[str, dict[str, JSONValue]]:

@@ -155,7 +155,7 @@ class Panels:
         self._aim_text = ""
         self._aim_time = -1.0
         self._status_text = ""
-        self._status_time = -1.0
+        self._status_time = self._play_time = -1.0
         self._list_source: Any = None
         self._list_time = -math.inf
         self._list_texts: list[str] = []
@@ -495,26 +495,33 @@ class Panels:
                                           self._small))
         # A text box lays its text out again on every change (3 ms here):
         # while the numbers run (a drag), four times a second is as often as
-        # a changing number can be read, as on a meter's display.
+        # a changing number can be read, as on a meter's display. While
+        # busy, a frame lays out one changing text at most (the aim, the
+        # time or the status line); the others wait a frame.
+        spent = defer_text
         if aim_html != self._aim_text and not defer_text and (now - self._aim_time >= 0.25
                                                               or not busy):
             self._aim_text, self._aim_time = aim_html, now
             self.aim_box.set_text(aim_html)
+            spent = True
         self._sync_game(state)
         self._sync_list(state, now)
         self.shots.set_chosen(state.chosen)
         self.shots.refresh()
         duration = predictor.duration
         label = f"{playback.t:.2f} / {duration:.2f} s"
-        if label != self._play_label:
-            self._play_label = label
+        # While dragging, the duration changes every frame: a few times a
+        # second, as the aim text (a label laid out again costs 0.5 ms).
+        if label != self._play_label and (not busy or now - self._play_time >= 0.25 and not spent):
+            self._play_label, self._play_time = label, now
             self.time_label.set_text(label)
+            spent = True
         self.play_button.set_text("Pause" if playback.playing else "Play")
         if not _held(self.time_slider):
             pos = round(SLIDER_STEPS * playback.t / duration) if duration > 0 else 0
             if round(self.time_slider.get_current_value()) != pos:
                 self.time_slider.set_current_value(pos, warn=False)
-        if status != self._status_text and (now - self._status_time >= 0.06 or not busy):
+        if status != self._status_text and (not busy or now - self._status_time >= 0.06 and not spent):
             self._status_text, self._status_time = status, now
             self.status.set_text(status)
         self.title_label.set_text(title)
