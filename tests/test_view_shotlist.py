@@ -10,6 +10,8 @@ from __future__ import annotations
 import pygame
 import pygame_gui
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 from pygame_gui.elements import UIPanel, UIWindow
 from test_view import DEMO, click, make_app, pump
 
@@ -174,3 +176,43 @@ def test_in_the_view_a_click_on_a_scrolled_list_chooses_the_shot_under_it(tmp_pa
                                          precise_x=0.0, precise_y=-1.0))
     app.update(0.02)
     assert shots.offset == WHEEL_ROWS * ROW_H
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(st.lists(st.one_of(
+    st.tuples(st.just("rows"), st.integers(0, 60)),
+    st.tuples(st.just("wheel"), st.integers(-6, 6)),
+    st.tuples(st.just("choose"), st.integers(-1, 60)),
+    st.tuples(st.just("bar"), st.floats(0.0, 1.0))), min_size=1, max_size=12))
+def test_any_sequence_keeps_the_list_consistent(lst, steps):
+    """Whatever is done to it, the list scrolls within its rows, each row in
+    sight is found where it is drawn, and a shot newly chosen is in sight
+    (the user may then scroll it away: the view sets the choice every frame)."""
+    lst.set_rows(HEAD, [])
+    lst.set_chosen(None)
+    lst.refresh()
+    box = lst.rows_rect
+    x = lst.element.get_abs_rect().x + box.x + 30
+    for kind, value in steps:
+        before = lst.chosen
+        if kind == "rows":
+            lst.set_rows(HEAD, rows(value))
+        elif kind == "wheel":
+            hover(lst, (x, lst.element.get_abs_rect().y + box.centery))
+            lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=value))
+        elif kind == "choose":
+            lst.set_chosen(None if value < 0 else value)
+        elif lst.scroll_bar is not None:
+            lst.scroll_bar.set_scroll_from_start_percentage(value)
+        lst.refresh()
+        n = len(lst.rows)
+        assert 0 <= lst.offset <= max(0, n * ROW_H - box.height)
+        assert (lst.scroll_bar is not None) == (n * ROW_H > box.height)
+        seen = [k for k in range(n) if lst.row_rect(k) is not None]
+        assert seen == list(range(seen[0], seen[-1] + 1)) if seen else n == 0
+        for k in seen:
+            r = lst.row_rect(k)
+            assert lst.row_at((x, r.centery)) == k
+        if kind == "choose" and lst.chosen is not None and lst.chosen != before:
+            r = lst.row_rect(lst.chosen)
+            assert r is not None and r.height == ROW_H  # wholly in sight
