@@ -358,3 +358,31 @@ def test_the_window_opens_inside_a_small_screen():
     assert fit_screen((1280, 800), [(1100, 800)]) == (1012, 736)
     assert fit_screen((1280, 800), [(640, 480)]) == MIN_SIZE
     assert fit_screen((1280, 800), []) == (1280, 800)
+
+
+def test_a_kicks_window_ends_at_its_first_cushion(tmp_path):
+    """As `shotplan draw --shot` draws it (README): the window is cut to where
+    the cue ball's centre can go, so a kick's stops at the rail it aims at."""
+    from shapely.geometry import Point
+
+    from shotplan.render.overlays import play_region
+    from shotplan.render.scene import PolygonShape
+    from shotplan.view.layers import view_shapes
+
+    app = make_app(tmp_path, load_layout(DEMO), DEMO)
+    app.settle()
+    st = app.state
+    kick = next(k for k, s in enumerate(st.proposals) if s.kind == "kick")
+    app.do("proposal", kick)
+    app.settle()
+    assert app.predictor.window is not None and app.predictor.window.kind == "kick"
+    shapes = view_shapes(st, app.predictor, None, None, 1.0)
+    wedges = [s for s in shapes if isinstance(s, PolygonShape) and s.layer == shapes[0].layer]
+    assert wedges, "the window is drawn"
+    region = play_region(st.table).buffer(1e-6)
+    cue = st.layout.position("cue")
+    for w in wedges:
+        assert all(region.contains(Point(p)) for p in w.points)
+    # It reaches the head rail (the rail the kick goes off), not the ghost ball.
+    far = max(math.dist(cue, p) for w in wedges for p in w.points)
+    assert far == pytest.approx(cue[0] - st.table.ball_radius, abs=0.01)

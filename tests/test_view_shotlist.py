@@ -13,7 +13,7 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from pygame_gui.elements import UIPanel, UIWindow
-from test_view import DEMO, click, make_app, pump
+from test_view import DEMO, click, click_widget, make_app, pump
 
 from shotplan.layout import load_layout
 from shotplan.view.app import theme_resource
@@ -37,6 +37,18 @@ def lst():
     out = ShotList(pygame.Rect(20, 30, 300, h), m, panel)
     out.manager_ = m
     return out
+
+
+def wheel(lst, y):
+    """A turn of the wheel, through the manager as the view hands it on."""
+    lst.manager_.process_events(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=y, flipped=False,
+                                                   precise_x=0.0, precise_y=float(y)))
+
+
+def press(lst, pos):
+    """A left press at ``pos``, through the manager; the row it chose, if any."""
+    lst.manager_.process_events(pygame.event.Event(pygame.MOUSEBUTTONDOWN, pos=pos, button=1))
+    return lst.take_click()
 
 
 def hover(lst, pos):
@@ -69,7 +81,7 @@ def test_the_wheel_scrolls_and_a_change_of_rows_keeps_the_place(lst):
     box = lst.row_rect(0)
     hover(lst, (box.x + 40, box.centery))
     assert lst.hover == 0
-    lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-1))  # one notch down
+    wheel(lst, -1)  # one notch down
     lst.refresh()
     assert lst.offset == WHEEL_ROWS * ROW_H
     # The row under the pointer is now the third.
@@ -80,10 +92,10 @@ def test_the_wheel_scrolls_and_a_change_of_rows_keeps_the_place(lst):
     lst.refresh()
     assert lst.offset == WHEEL_ROWS * ROW_H
     # Far up: stops at the top; far down: at the last row.
-    lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=50))
+    wheel(lst, 50)
     lst.refresh()
     assert lst.offset == 0
-    lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-50))
+    wheel(lst, -50)
     lst.refresh()
     assert lst.offset == 31 * ROW_H - lst.rows_rect.height
     assert lst.row_rect(30).bottom == lst.element.get_abs_rect().y + lst.rows_rect.bottom
@@ -142,13 +154,35 @@ def test_a_refresh_renders_only_text_not_seen_before(lst):
 def test_a_window_over_the_list_has_the_click(lst):
     lst.set_rows(HEAD, rows(5))
     r = lst.row_rect(1)
-    hover(lst, r.center)
-    down = pygame.event.Event(pygame.MOUSEBUTTONDOWN, pos=r.center, button=1)
-    assert lst.handle(down) == 1
+    assert press(lst, r.center) == 1
+    # No frame between the pointer's arrival and the press: still the row
+    # under it (a quick tap).
+    assert press(lst, lst.row_rect(3).center) == 3
     UIWindow(pygame.Rect(r.x - 10, r.y - 10, 200, 120), lst.manager_)
     hover(lst, r.center)
-    assert lst.handle(down) is None
+    assert press(lst, r.center) is None
     assert lst.hover is None
+
+
+def test_the_scroll_bar_track_pages_and_its_arrows_step_a_row(lst):
+    lst.set_rows(HEAD, rows(40))
+    lst.refresh()
+    bar = lst.scroll_bar
+    page = lst.rows_rect.height // ROW_H - 1  # 8.5 rows in sight: 7 a page
+    assert page == 7
+    thumb = bar.sliding_button.rect
+    below = (thumb.centerx, thumb.bottom + 20)
+    assert press(lst, below) is None  # the track: no row chosen
+    lst.refresh()
+    assert lst.offset == page * ROW_H
+    thumb = bar.sliding_button.rect
+    press(lst, (thumb.centerx, thumb.top - 3))  # above the thumb: back up
+    lst.refresh()
+    assert lst.offset == 0
+    # An arrow's quick click: one row.
+    assert lst.arrow(bar.bottom_button) and not lst.arrow(object())
+    lst.refresh()
+    assert lst.offset == ROW_H
 
 
 def test_in_the_view_a_click_on_a_scrolled_list_chooses_the_shot_under_it(tmp_path):
@@ -159,7 +193,7 @@ def test_in_the_view_a_click_on_a_scrolled_list_chooses_the_shot_under_it(tmp_pa
     assert len(st.proposals) > WHEEL_ROWS + 1 and shots.scroll_bar is not None
     first = shots.row_rect(0)
     pygame.mouse.set_pos(first.center)
-    app.update(0.02)
+    app.update(0.02)  # the manager sees the pointer over the list
     app.process_event(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=-1, flipped=False,
                                          precise_x=0.0, precise_y=-1.0))
     app.update(0.02)
@@ -176,6 +210,16 @@ def test_in_the_view_a_click_on_a_scrolled_list_chooses_the_shot_under_it(tmp_pa
                                          precise_x=0.0, precise_y=-1.0))
     app.update(0.02)
     assert shots.offset == WHEEL_ROWS * ROW_H
+    # A quick tap, no frame between the pointer's arrival and the press.
+    r = shots.row_rect(WHEEL_ROWS + 1)
+    pygame.mouse.set_pos(r.center)
+    app.process_event(pygame.event.Event(pygame.MOUSEBUTTONDOWN, pos=r.center, button=1))
+    app.process_event(pygame.event.Event(pygame.MOUSEBUTTONUP, pos=r.center, button=1))
+    app.update(0.02)
+    assert st.chosen == WHEEL_ROWS + 1
+    # A quick click on the scroll bar's down arrow moves the list a row.
+    click_widget(app, shots.scroll_bar.bottom_button)
+    assert shots.offset == (WHEEL_ROWS + 1) * ROW_H
 
 
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
@@ -199,7 +243,7 @@ def test_any_sequence_keeps_the_list_consistent(lst, steps):
             lst.set_rows(HEAD, rows(value))
         elif kind == "wheel":
             hover(lst, (x, lst.element.get_abs_rect().y + box.centery))
-            lst.handle(pygame.event.Event(pygame.MOUSEWHEEL, x=0, y=value))
+            wheel(lst, value)
         elif kind == "choose":
             lst.set_chosen(None if value < 0 else value)
         elif lst.scroll_bar is not None:

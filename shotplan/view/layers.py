@@ -17,7 +17,17 @@ import math
 from collections.abc import Iterable, Mapping, Sequence
 from typing import TYPE_CHECKING, Any
 
-from ..render.overlays import ghost_ball_shape, marker_shape, outcome_shapes, path_shapes, window_shape
+import numpy as np
+
+from ..render.overlays import (
+    ghost_ball_shape,
+    marker_shape,
+    outcome_shapes,
+    path_shapes,
+    play_region,
+    window_shape,
+    window_shapes,
+)
 from ..render.palette import BALL_COLOURS, STRIPE_IDS
 from ..render.scene import CircleShape, Layer, PolylineShape, Shape, TextShape
 from ..render.table_shapes import ball_shapes
@@ -327,9 +337,11 @@ def prediction_layer(outcome: Outcome, table: Table, mm_per_px: float = 0.0) -> 
     return shapes
 
 
-def window_layer(window: Shot, cue: tuple[float, float], radius: float) -> list[Shape]:
+def window_layer(window: Shot, cue: tuple[float, float], table: Table) -> list[Shape]:
     """A shot's window as a wedge from the cue ball, long enough to reach the
-    ghost ball; a window too thin to see is widened about its middle to 0.2 deg.
+    ghost ball, cut to where the cue ball's centre can go and ended where it
+    first leaves it (a kick's at its first cushion, as ``shotplan draw``
+    draws it); a window too thin to see is widened about its middle to 0.2 deg.
 
     Parameters
     ----------
@@ -337,19 +349,42 @@ def window_layer(window: Shot, cue: tuple[float, float], radius: float) -> list[
         The shot whose window is drawn.
     cue : (float, float)
         The cue ball's centre, m.
-    radius : float
-        Ball radius, m.
+    table : Table
+        The table.
 
     Returns
     -------
     list of Shape
     """
-    reach = max(float(window.cue_distance_m), 4.0 * radius)
+    reach = max(float(window.cue_distance_m), 4.0 * table.ball_radius)
     lo, hi = float(window.window_low_deg), float(window.window_high_deg)
     if hi - lo < 0.2:
         mid = 0.5 * (lo + hi)
         lo, hi = mid - 0.1, mid + 0.1
-    return [window_shape(cue, reach, lo, hi)]
+    cx, cy = float(cue[0]), float(cue[1])
+    # Within the cloth's rectangle shrunk by a radius (inside the noses, away
+    # from the pockets' openings) nothing is cut: the plain wedge, as the
+    # window of a ball-first shot nearly always is.
+    ang = np.radians(np.linspace(lo, hi, max(2, math.ceil((hi - lo) / 0.5) + 1)))
+    xs, ys = cx + reach * np.cos(ang), cy + reach * np.sin(ang)
+    R = table.ball_radius
+    if min(xs.min(), cx) >= R and max(xs.max(), cx) <= table.length - R and \
+            min(ys.min(), cy) >= R and max(ys.max(), cy) <= table.width - R:
+        return [window_shape((cx, cy), reach, lo, hi)]
+    return list(_window_shapes(table, (cx, cy), reach, lo, hi))
+
+
+@functools.lru_cache(maxsize=8)
+def _window_shapes(table: Table, cue: tuple[float, float], reach: float, lo: float,
+                   hi: float) -> tuple[Shape, ...]:
+    """The cut window (shapely's cut costs a few hundred us: once per window
+    and cue place, not once a frame)."""
+    return tuple(window_shapes(cue, reach, lo, hi, _play_region(table)))
+
+
+@functools.lru_cache(maxsize=4)
+def _play_region(table: Table) -> Any:
+    return play_region(table)
 
 
 def aim_layer(geometry: AimGeometry, radius: float) -> list[Shape]:
@@ -526,7 +561,7 @@ def view_shapes(state: ViewState, pred: Predictor, t: float | None, hover_ball: 
     shapes: list[Drawable] = []
     positions = state.layout.positions()
     if pred.window is not None and "cue" in positions and t is None:
-        shapes += window_layer(pred.window, positions["cue"], R)
+        shapes += window_layer(pred.window, positions["cue"], table)
     if pred.outcome is not None:
         shapes += prediction_layer(pred.outcome, table, mm_per_px)
     if pred.geometry is not None and t is None:

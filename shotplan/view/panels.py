@@ -418,19 +418,26 @@ class Panels:
             if el is self.reset_button:
                 return ("reset", None)
         elif event.type == pygame_gui.UI_HORIZONTAL_SLIDER_MOVED:
-            el = event.ui_element
-            if el is self.speed_slider:
-                return ("speed", slider_to_speed(event.value))
-            if el is self.elevation_slider:
-                return ("elevation", float(event.value))
-            if el is self.time_slider:
-                return ("scrub", float(event.value) / SLIDER_STEPS)
+            return self._slider_action(event)
         elif event.type == pygame_gui.UI_DROP_DOWN_MENU_CHANGED:
             return self._menu_action(event)
-        elif event.type in (pygame.MOUSEBUTTONDOWN, pygame.MOUSEWHEEL):
-            row = self.shots.handle(event)
+        elif event.type == pygame.MOUSEBUTTONDOWN:
+            row = self.shots.take_click()  # the list took the press, if it was on top
             if row is not None and row < self._pickable:
                 return ("proposal", row)
+        elif event.type == pygame_gui.UI_BUTTON_START_PRESS:
+            self.shots.arrow(event.ui_element)
+        return None
+
+    def _slider_action(self, event: pygame.event.Event) -> tuple[str, object] | None:
+        """The action a slider's new value asks for."""
+        el = event.ui_element
+        if el is self.speed_slider:
+            return ("speed", slider_to_speed(event.value))
+        if el is self.elevation_slider:
+            return ("elevation", float(event.value))
+        if el is self.time_slider:
+            return ("scrub", float(event.value) / SLIDER_STEPS)
         return None
 
     def _menu_action(self, event: pygame.event.Event) -> tuple[str, object] | None:

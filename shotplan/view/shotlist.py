@@ -12,9 +12,10 @@ without rendering them again.
 
 The row of the proposal in use is highlighted (:meth:`ShotList.set_chosen`,
 scrolled into sight when it is chosen), the row under the pointer too; a
-click on a row asks for it (:meth:`ShotList.handle`); the mouse wheel over
-the rows scrolls them. The scroll position is kept, in pixels, when the rows
-change.
+click on a row asks for it (:meth:`ShotList.take_click`); the mouse wheel
+over the rows scrolls them, a click on the scroll bar's track by a page, a
+click on an arrow by a row. The scroll position is kept, in pixels, when the
+rows change.
 """
 
 from __future__ import annotations
@@ -43,6 +44,28 @@ THEME_ID = "shot_list"
 """The theme block (theme.json) of the list's font and colours."""
 
 
+class _Rows(UIImage):
+    """The list's image, taking the pointer's events where it is the widget
+    on top (pygame_gui hands an event to the widgets from the top down, so a
+    window or a menu over the list keeps its own)."""
+
+    def __init__(self, owner: ShotList, rect: pygame.Rect, surface: pygame.Surface,
+                 manager: IUIManagerInterface, container: UIPanel) -> None:
+        self.owner = owner
+        super().__init__(rect, surface, manager, container=container, object_id="#shots")
+
+    def process_event(self, event: pygame.event.Event) -> bool:
+        if event.type == pygame.MOUSEBUTTONDOWN and event.button == 1 and \
+                self.hover_point(*event.pos):
+            self.owner.press(event.pos)
+            return True
+        if event.type == pygame.MOUSEWHEEL and event.y and \
+                self.hover_point(*self.ui_manager.get_mouse_position()):
+            self.owner.scroll_rows(-event.y * WHEEL_ROWS)
+            return True
+        return False
+
+
 class ShotList:
     """The shots list: a heading, rows, a scroll bar when needed.
 
@@ -69,8 +92,7 @@ class ShotList:
             "disabled_text", "disabled_bg")}
         self.line_h = int(self.font.size("Ag")[1])
         self.surface = pygame.Surface(self.rect.size)
-        self.element = UIImage(self.rect, self.surface, manager, container=container,
-                               object_id="#shots")
+        self.element = _Rows(self, self.rect, self.surface, manager, container)
         self.heading = ""
         self.rows: list[str] = []
         self.chosen: int | None = None
@@ -80,6 +102,7 @@ class ShotList:
         self.scroll_bar: UIVerticalScrollBar | None = None
         self._texts: dict[str, pygame.Surface] = {}
         self._dirty = True
+        self._clicked: int | None = None
         self.renders = 0
         """Texts rendered so far (the refresh's cost, for the checks)."""
         self.draws = 0
@@ -215,29 +238,71 @@ class ShotList:
         self._dirty = True
 
     # ------------------------------------------------------------- input
-    def handle(self, event: pygame.event.Event) -> int | None:
-        """React to a pointer event: the row clicked (``None`` otherwise).
-
-        Only what the pointer does on the list itself counts: a window or
-        a menu over it has the event.
+    def press(self, pos: Sequence[float]) -> None:
+        """A left press on the list at window position ``pos``: a row is
+        clicked (:meth:`take_click`); on the scroll bar's track, the rows
+        move by a page toward the press (the bar's thumb and arrows are
+        widgets of their own).
 
         Parameters
         ----------
-        event : Event
-            A pygame event.
+        pos : (float, float)
+            Window position, px.
+        """
+        bar = self.scroll_bar
+        if bar is not None and bar.visible and bar.sliding_button is not None and \
+                bar.get_abs_rect().collidepoint(pos):
+            page = max(1, self.rows_rect.height // ROW_H - 1)
+            self.scroll_rows(-page if pos[1] < bar.sliding_button.rect.top else page)
+            return
+        self._clicked = self.row_at(pos)
+
+    def take_click(self) -> int | None:
+        """The row last clicked, once (``None`` if none was since).
 
         Returns
         -------
         int or None
-            The row a left click chose.
         """
-        if not self.element.visible:
-            return None
-        if event.type == pygame.MOUSEBUTTONDOWN and event.button == 1 and self.element.hovered:
-            return self.row_at(event.pos)
-        if event.type == pygame.MOUSEWHEEL and self.element.hovered and self.scroll_bar is not None:
-            self._scroll_to(self.offset - event.y * WHEEL_ROWS * ROW_H)
-        return None
+        k, self._clicked = self._clicked, None
+        return k
+
+    def scroll_rows(self, rows: int) -> None:
+        """Scroll by ``rows`` rows (down when positive), within the list.
+
+        Parameters
+        ----------
+        rows : int
+            Rows; negative scrolls up.
+        """
+        if self.scroll_bar is not None:
+            self._scroll_to(self.offset + rows * ROW_H)
+
+    def arrow(self, button: object) -> bool:
+        """Step one row if ``button`` is one of the scroll bar's arrows: a
+        quick click on an arrow moves a row (holding it keeps scrolling, as
+        the bar does by itself).
+
+        Parameters
+        ----------
+        button : UIElement
+            The button pressed.
+
+        Returns
+        -------
+        bool
+            It was one of the arrows.
+        """
+        bar = self.scroll_bar
+        if bar is None or button is None:
+            return False
+        if button is bar.top_button:
+            self.scroll_rows(-1)
+            return True
+        if button is bar.bottom_button:
+            self.scroll_rows(1)
+            return True
+        return False
 
     @property
     def scrolling(self) -> bool:
