@@ -78,6 +78,22 @@ def test_bad_values_elsewhere(capsys, tmp_path, monkeypatch, argv):
     (["simulate", DEMO, "--max-events", "5"], "--max-events: 5 is out of range, must be "
                                               "between 10 and 1000000"),
     (["simulate", DEMO, "--height", "0.9"], f"{DEMO}: stroke: tip side 0, height 0.9 at 0 deg"),
+    # Found in a later new-user trial: these named no option.
+    (["plan", DEMO, "--ball", "99"], "--ball: '99' is not an object ball on this layout"),
+    (["plan", DEMO, "--pocket", "nowhere"], "--pocket: 'nowhere' is not a pocket of this table"),
+    (["plan", DEMO, "--elevation", "-10"], "--elevation: -10.0 deg is out of range"),
+    (["position", DEMO, "--ball", "4", "--pocket", "foot-right", "--heights", "-5,0.2"],
+     "--heights: tip height -5.0 is out of range"),
+    (["position", DEMO, "--ball", "4", "--pocket", "foot-right", "--speeds", "-1,2"],
+     "--speeds: speed -1.0 m/s is out of range"),
+    (["study", "window", "--step", "-15"], "--step: -15 deg is out of range"),
+    # A comma list that starts with a negative number is a value, not an
+    # unknown option (argparse said "expected at least one argument").
+    (["study", "window", "--distances", "-0.3,0.9"], "argument --distances: '-0.3' is not a "
+                                                     "distance in m above 0"),
+    (["study", "throw", "--speeds", "-1,2"], "argument --speeds: '-1' m/s is out of range"),
+    (["atlas", DEMO, "--ball", "4", "--contours", "-1,0.5"], "--contours: '-1,0.5' has a value "
+                                                             "out of range"),
 ])
 def test_an_option_error_names_the_option(capsys, argv, start):
     assert main(argv) == 2
@@ -93,3 +109,30 @@ def test_max_events_stops_the_run(capsys):
     assert main(["simulate", rack, "--max-events", "10", "--json"]) == 0
     out = capsys.readouterr().out
     assert '"complete": false' in out and "event limit (10 events" in out
+
+
+def test_plan_reads_the_old_tip_word_with_a_warning(capsys):
+    # README: the spellings of the version before, `rolling` among them,
+    # still work with one warning line.
+    assert main(["plan", DEMO, "--tip", "follow", "--top", "3"]) == 0
+    new = capsys.readouterr().out.splitlines()[1:]  # (the first line has timings)
+    assert main(["plan", DEMO, "--tip", "rolling", "--top", "3"]) == 0
+    got = capsys.readouterr()
+    assert got.out.splitlines()[1:] == new and len(new) == 4
+    assert got.err.count("\n") == 1 and "'--tip follow'" in got.err
+
+
+def test_plan_top_lists_the_best_and_counts_them_all(capsys):
+    # Caroms as pool shots: the first line counts what was found, --top
+    # lists the best of them (a new-user trial saw "2 caroms found").
+    carom = DEMO.replace("club-night-4-position-drill", "club-night-9-three-cushion")
+    assert main(["plan", carom, "--json"]) == 0
+    import json
+
+    every = json.loads(capsys.readouterr().out)
+    assert main(["plan", carom, "--top", "2"]) == 0
+    lines = capsys.readouterr().out.splitlines()
+    assert lines[0].split(": ", 1)[1].startswith(f"{len(every)} caroms found")
+    assert len(every) > 2 and len(lines) == 1 + 1 + 2  # the count, the heading, two rows
+    assert main(["plan", carom, "--top", "2", "--json"]) == 0
+    assert json.loads(capsys.readouterr().out) == every[:2]

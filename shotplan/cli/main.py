@@ -13,6 +13,7 @@ no traceback, and nothing written or half-written.
 from __future__ import annotations
 
 import argparse
+import re
 import sys
 from collections.abc import Sequence
 from typing import Any, NoReturn
@@ -52,6 +53,10 @@ class UsageError(Exception):
     """A command-line mistake; turned into one error line by :func:`main`."""
 
 
+NEGATIVE_VALUE = re.compile(r"^-\.?\d[\d.eE+-]*(,\s*[-+]?\.?\d[\d.eE+-]*)*,?$")
+"""A command-line word that is a negative number or a comma list starting with one."""
+
+
 class _Parser(argparse.ArgumentParser):
     """An argparse parser whose errors are one line, not usage plus message,
     and whose help shows a list option as one comma-separated value."""
@@ -59,6 +64,10 @@ class _Parser(argparse.ArgumentParser):
     def __init__(self, *args: Any, **kwargs: Any) -> None:
         kwargs.setdefault("formatter_class", ListHelpFormatter)
         super().__init__(*args, **kwargs)
+        # A value that starts with a minus and a digit is a value, a comma
+        # list too (`--distances -0.3,0.9`): argparse's own test takes only
+        # one plain number, and so read the list as an unknown option.
+        self._negative_number_matcher = NEGATIVE_VALUE
 
     def error(self, message: str) -> NoReturn:
         raise UsageError(f"{message} (see '{self.prog} --help')")

@@ -13,7 +13,7 @@ from ..layout import load_layout
 from ..units import to_diamonds
 from .common import EXIT_OK, emit_json, plural, require_playable
 from .games import add_game_options, game_rules
-from .options import int_in, split_list
+from .options import deprecated, int_in, split_list
 from .text import Column, format_table
 
 if TYPE_CHECKING:
@@ -91,7 +91,8 @@ def add_shot_options(p: argparse.ArgumentParser) -> None:
                    help="stun, follow, draw or centre (default: stun)")
 
 
-SEARCH_LABELS = {"kinds": "--kinds", "tip": "--tip", "speed": "--speed", "side": "--side"}
+SEARCH_LABELS = {"kinds": "--kinds", "tip": "--tip", "speed": "--speed", "side": "--side",
+                 "ball": "--ball", "pocket": "--pocket", "elevation": "--elevation"}
 """The search's settings as :func:`add_search_options` names them, for messages."""
 
 
@@ -112,10 +113,15 @@ def run_search(args: argparse.Namespace, layout: Layout) -> SearchResult:
     """
     from ..players import PlayerErrors
     from ..search import find_shots
+    from ..stroke import OLD_ROLL_WORDS
 
     player = PlayerErrors.level(args.level) if args.level is not None else None
+    tip = args.tip
+    if tip in OLD_ROLL_WORDS:  # the version before's word, read with a warning
+        deprecated(f"--tip {tip}", f"--tip {OLD_ROLL_WORDS[tip]}")
+        tip = OLD_ROLL_WORDS[tip]
     return find_shots(layout, balls=args.ball, pockets=args.pocket, kinds=split_list(args.kinds),
-                      speed=args.speed, tip=args.tip, side=args.side,
+                      speed=args.speed, tip=tip, side=args.side,
                       elevation_deg=args.elevation, allow_scratch=args.allow_scratch,
                       player=player, rules=game_rules(args, layout), labels=SEARCH_LABELS,
                       pocketed_too=True)
@@ -178,10 +184,11 @@ def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading
     from ..search.carom import SCAN_TIPS, find_caroms
 
     player = StrokePlayer.for_layout(layout, elevation=args.elevation)
-    result = find_caroms(player, rules, speeds=[args.speed] if args.speed else None,
-                         top=args.top)
+    result = find_caroms(player, rules, speeds=[args.speed] if args.speed else None)
+    # The whole count is printed, the best --top listed (as for pool).
+    shots = result.shots[: args.top] if args.top else result.shots
     if args.json:
-        doc: Any = [s.to_dict() for s in result.shots]
+        doc: Any = [s.to_dict() for s in shots]
         if args.explain:
             # The carom scan keeps no rejected candidates: every direction it
             # tries either scores or does not (the same keys as pool's).
@@ -192,7 +199,7 @@ def _plan_caroms(args: argparse.Namespace, layout: Layout, rules: Rules, loading
           f"({result.simulations} simulations, {result.seconds * 1000:.0f} ms) "
           f"after loading the engine ({loading * 1000:.0f} ms)")
     rows = []
-    for k, c in enumerate(result.shots, 1):
+    for k, c in enumerate(shots, 1):
         lo, hi = c.speed_window_mps
         rows.append([str(k), c.family, c.first_ball, f"{c.fraction:.2f}",
                      f"{c.direction_deg:7.2f}\u00b0", f"{c.window_deg:5.2f}\u00b0",

@@ -245,7 +245,8 @@ def run_position(args: argparse.Namespace) -> int:
         zone.check_on_table(layout.geometry, "--zone")
     pm = position_map(layout, args.ball, args.pocket, zone=zone, speeds=speeds,
                       heights=heights, sides=sides, errors=errors,
-                      rules=game_rules(args, layout))
+                      rules=game_rules(args, layout),
+                      labels={"speeds": "--speeds", "heights": "--heights", "sides": "--sides"})
     if out is not None:
         from ..render.export import write_scene
         from ..render.position_map import position_scene

@@ -6,7 +6,7 @@ from __future__ import annotations
 
 import math
 import time
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
@@ -35,6 +35,7 @@ __all__ = [
     "ROBUST_LEVELS",
     "default_grid",
     "position_map",
+    "check_grid",
     "zone_settings",
     "robustness",
 ]
@@ -393,8 +394,27 @@ def _down(value: float, digits: int) -> float:
     return math.trunc(value * q + math.copysign(1e-9, value)) / q
 
 
-def _check_grid(speeds: Sequence[float], heights: Sequence[float | str],
-                sides: Sequence[float]) -> None:
+def check_grid(speeds: Sequence[float], heights: Sequence[float | str],
+               sides: Sequence[float], labels: Mapping[str, str] | None = None) -> None:
+    """Raise InputError on a grid of settings :func:`position_map` refuses.
+
+    Parameters
+    ----------
+    speeds, heights, sides
+        The grid's launch speeds (m/s), tip heights (ball radii or
+        ``"stun"``) and sides (ball radii).
+    labels : mapping, optional
+        The options the values came from (``{"speeds": "--speeds"}``): a
+        message about one starts with its option.
+
+    Raises
+    ------
+    InputError
+        An empty or too large grid, or a value out of range.
+    """
+    def named(key: str, text: str) -> str:
+        return f"{labels[key]}: {text}" if labels and key in labels else text
+
     if not speeds or not heights or not sides:
         raise InputError("the grid needs at least one speed, one height and one side")
     if len(speeds) * len(heights) * len(sides) > 20000:
@@ -402,16 +422,18 @@ def _check_grid(speeds: Sequence[float], heights: Sequence[float | str],
                          "at most 20000 are played")
     for v in speeds:
         if not is_number(v) or not 0.0 < v <= 15.0:
-            raise InputError(f"speed {v!r} m/s is out of range, must be above 0 and at most 15")
+            raise InputError(named("speeds", f"speed {v!r} m/s is out of range, must be above 0 "
+                                             "and at most 15"))
     for h in heights:
         if h == "stun":
             continue
         if isinstance(h, str) or not is_number(h) or not -1.0 <= h <= 1.0:
-            raise InputError(f"tip height {h!r} is out of range, must be 'stun' or a number "
-                             "from -1 to 1 ball radius")
+            raise InputError(named("heights", f"tip height {h!r} is out of range, must be "
+                                              "'stun' or a number from -1 to 1 ball radius"))
     for s in sides:
         if not is_number(s) or not -1.0 <= s <= 1.0:
-            raise InputError(f"side {s!r} is out of range, must be from -1 to 1 ball radius")
+            raise InputError(named("sides", f"side {s!r} is out of range, must be from -1 to 1 "
+                                            "ball radius"))
 
 
 def position_map(
@@ -426,6 +448,7 @@ def position_map(
     physics: Physics | None = None,
     errors: PlayerErrors | None = None,
     rules: Rules | None = None,
+    labels: Mapping[str, str] | None = None,
 ) -> PositionMap:
     """Play a direct shot of ``ball`` into ``pocket`` over a grid of settings.
 
@@ -450,6 +473,8 @@ def position_map(
         A game's rules (:class:`shotplan.games.Rules`): the ball must be a
         ball on, and a setting whose stroke the rules make a foul (another
         ball not on falls too) ends as ``foul``, never proposed.
+    labels
+        The options the grid came from, for messages (see :func:`check_grid`).
 
     Raises :class:`InputError` when the player's tip error leaves no room at
     all (not even centre ball keeps a miscue rare).
@@ -475,7 +500,7 @@ def position_map(
     speeds = tuple(speeds) if speeds is not None else d_speeds
     heights = tuple(heights) if heights is not None else d_heights
     sides = tuple(sides) if sides is not None else d_sides
-    _check_grid(speeds, heights, sides)
+    check_grid(speeds, heights, sides, labels)
     sp = player.stroke_player
     cue_dist = max(math.dist(sp.pos[sp.cue], sp.pos[player.ball]) - 2.0 * sp.radius, 0.0)
     finishes: list[Finish] = []

@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
+import contextlib
 import time
-from collections.abc import Mapping, Sequence
+from collections.abc import Iterator, Mapping, Sequence
 from typing import Any
 
 import numpy as np
 
 from ..aim import aim_at
-from ..errors import InputError, StrokeError
+from ..errors import InputError, StrokeError, UnknownName
 from ..games import Rules
 from ..physics import Physics, simulator_for
 from ..physics.run import StrokePlayer
@@ -21,6 +22,18 @@ from .refine import Settings, error_fn, evaluate, refine
 from .shots import KINDS, MAX_CUT_DEG, Rejected, SearchResult, Shot
 
 __all__ = ["find_shots", "aim_direct"]
+
+
+@contextlib.contextmanager
+def _named_as(labels: Mapping[str, str] | None, key: str) -> Iterator[None]:
+    """A bad name raised inside starts with the option it came from, when
+    ``labels`` names it (``{"ball": "--ball"}``)."""
+    try:
+        yield
+    except (InputError, UnknownName) as exc:
+        if not labels or key not in labels:
+            raise
+        raise type(exc)(f"{labels[key]}: {exc}") from None
 
 
 def _check_settings(kinds: Sequence[str], tip: str, speed: float | None, side: float,
@@ -46,6 +59,9 @@ def _check_settings(kinds: Sequence[str], tip: str, speed: float | None, side: f
     if speed is not None and not 0.0 < speed <= 15.0:
         raise InputError(named("speed", f"speed {speed!r} m/s is out of range, must be above "
                                         "0 and at most 15"))
+    if not 0.0 <= elevation_deg <= 60.0:
+        raise InputError(named("elevation", f"elevation {elevation_deg!r} deg is out of range, "
+                                            "must be between 0 and 60 degrees"))
     limit = phys.miscue_limit
     if not abs(side) <= limit:
         raise InputError(named("side", f"side {side!r} is beyond the miscue limit, must be "
@@ -192,17 +208,16 @@ def find_shots(
     if "cue" not in ids:
         raise InputError("the layout has no cue ball: nothing to strike")
     pos = np.array([positions[i] for i in ids], dtype=float)
-    if not 0.0 <= elevation_deg <= 60.0:
-        raise InputError(f"elevation {elevation_deg!r} deg is out of range, must be between 0 "
-                         "and 60 degrees")
     sp = StrokePlayer(sim, ids, pos, elevation_deg)
     if not table.pockets:
         return SearchResult((), (), 0, time.perf_counter() - t_start,
                             {"note": "this table has no pockets"})
     pocket_ids = list(range(len(table.pockets)))
-    if pockets:
-        pocket_ids = [table.pocket_index(p) for p in pockets]
-    obj = _object_balls(ids, balls)
+    with _named_as(labels, "pocket"):
+        if pockets:
+            pocket_ids = [table.pocket_index(p) for p in pockets]
+    with _named_as(labels, "ball"):
+        obj = _object_balls(ids, balls)
     board = Board(table, ids, pos, sp.cue, sim.radius, rails_of(table), max_cut_deg)
     cands, rejected = _candidates(board, obj, pocket_ids, kinds)
     if pocketed_too and balls and "combination" in kinds:
