@@ -640,10 +640,10 @@ class App:
         -------
         str
         """
-        parts = []
+        parts: list[str] = []
         pos = self.hover_pos
         if pos is not None and self.pointer.inside(pos):
-            parts.append(pointer_words(*self.transform.to_table(*pos), self.state.table))
+            parts += filter(None, [pointer_words(*self.transform.to_table(*pos), self.state.table)])
         if self.note:
             parts.append(self.note)
         elif self.atlas.on:

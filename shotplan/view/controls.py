@@ -49,6 +49,7 @@ __all__ = [
     "draw_face",
     "band_strip",
     "RAIL_LEGEND",
+    "CAROM_LEGEND",
     "SHOT_COLUMNS",
     "shot_columns",
     "ball_width",
@@ -392,6 +393,8 @@ _KIND_SHORT = {"combination": "combo"}
 
 RAIL_LEGEND = "F H L R: off the foot, head, left, right rail \u00b7 angles in \u00b0"
 """The key under the shots list."""
+CAROM_LEGEND = "carom N: N cushions before the 2nd ball \u00b7 angles in \u00b0"
+"""The key under the shots list for a carom game."""
 
 
 def shot_columns(ball_width: int = 4, carom: bool = False) -> str:

@@ -582,4 +582,5 @@ def view_shapes(state: ViewState, pred: Predictor, t: float | None, hover_ball: 
         shapes += cue_layer(positions["cue"], d, R, state.settings.elevation_deg)
     invite = state.selection is not None and state.selection != "cue" and aimed is None
     shapes += selection_layer(table, positions, state.selection, hover_ball, aimed, invite)
-    return shapes
+    # Text last, over the balls (the cut's label beside a rack stays readable).
+    return sorted(shapes, key=lambda s: isinstance(s, TextShape) and s.layer >= Layer.LABEL)

@@ -37,6 +37,7 @@ from pygame_gui.windows import UIFileDialog
 from ..games import CAROM_GAMES, games_for
 from ..stroke import speed_word
 from .controls import (
+    CAROM_LEGEND,
     MIN_SIZE,
     RAIL_LEGEND,
     SLIDER_STEPS,
@@ -156,6 +157,8 @@ class Panels:
         self._aim_time = -1.0
         self._status_text = ""
         self._status_time = self._play_time = -1.0
+        self._title_key: tuple[str, int] | None = None
+        self._title_text = ""
         self._list_source: Any = None
         self._list_time = -math.inf
         self._list_texts: list[str] = []
@@ -531,7 +534,24 @@ class Panels:
         if status != self._status_text and (not busy or now - self._status_time >= 0.06 and not spent):
             self._status_text, self._status_time = status, now
             self.status.set_text(status)
-        self.title_label.set_text(title)
+        self.title_label.set_text(self._fitted_title(title))
+
+    def _fitted_title(self, title: str) -> str:
+        """The title cut to its label's width with an ellipsis, keeping
+        ``(unsaved)`` in sight (a label cuts a long text mid-letter)."""
+        font = self.title_label.font
+        width = self.title_label.rect.width - 10
+        key = (title, width)
+        if key != self._title_key:
+            fitted = title
+            if font is not None and font.size(title)[0] > width:
+                tail = " (unsaved)" if title.endswith(" (unsaved)") else ""
+                head = title[:len(title) - len(tail)]
+                while head and font.size(head + "\u2026" + tail)[0] > width:
+                    head = head[:-1]
+                fitted = head.rstrip() + "\u2026" + tail
+            self._title_key, self._title_text = key, fitted
+        return self._title_text
 
     def _sync_game(self, state: Any) -> None:
         """The game menu: the games of the table's kind, the layout's chosen
@@ -577,6 +597,10 @@ class Panels:
                     why = no_shot_text(state.rejections, object_balls=len(state.object_balls))
             self._list_texts = texts
             self.shots.set_rows(columns, texts)
+            # The key says what the rows' letters mean; over the reasons, nothing.
+            legend = "" if why else CAROM_LEGEND if state.layout.game in CAROM_GAMES else RAIL_LEGEND
+            if legend != self.legend.text:
+                self.legend.set_text(legend)
             if why != self._why_text:
                 self._why_text = why
                 self.why.set_text(why)

@@ -11,6 +11,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from ..aim import overlap_word
+from ..games import CAROM_GAMES, carom_scores
+from ..physics.state import EventKind
 from ..table import Table
 from .predict import Predictor
 from .state import FreeAim, PocketAim, ViewState
@@ -68,8 +70,12 @@ def pointer_words(x: float, y: float, table: Table) -> str:
     Returns
     -------
     str
-        One line for the status bar.
+        One line for the status bar; empty off the table (past the rail's
+        outer edge, as it is drawn).
     """
+    outer = table.spec.cushion.rubber_width_m + table.spec.cushion.rail_width_m
+    if not (-outer <= x <= table.length + outer and -outer <= y <= table.width + outer):
+        return ""
     da, dc = to_diamonds(x, y, table.length, table.width)
     return (f"x {x * 1000:6.0f} mm   y {y * 1000:5.0f} mm   "
             f"\u00b7   {da:4.2f} diamonds along, {dc:4.2f} across")
@@ -100,11 +106,34 @@ def _window_line(state: ViewState, pred: Predictor) -> str | None:
     return None
 
 
-def _outcome_lines(pred: Predictor) -> list[str]:
+def _carom_line(pred: Predictor, game: str) -> str:
+    """Whether the stroke scores a carom, and what the cue ball met (UMB's
+    rule, as the carom search judges it)."""
+    assert pred.outcome is not None
+    met: list[str] = []
+    cushions = 0
+    for e in pred.outcome.events:
+        if e.kind == EventKind.COLLISION and "cue" in e.balls:
+            met.append(next(b for b in e.balls if b != "cue"))
+            if len(set(met)) == 2:
+                break
+        elif e.kind == EventKind.CUSHION and e.balls[:1] == ("cue",):
+            cushions += 1
+    verdict = carom_scores(game, met, cushions)
+    order = list(dict.fromkeys(met))
+    if verdict.scores:
+        return (f"Scores: {order[0]}, then {order[1]} after {cushions} "
+                f"cushion{'s' if cushions != 1 else ''}")
+    return f"<font color='{WARN}'>No point: {escape_markup(verdict.reason)}</font>"
+
+
+def _outcome_lines(pred: Predictor, game: str = "any") -> list[str]:
     out = pred.outcome
     if out is None:
         return [f"<font color='{WARN}'>{escape_markup(pred.message)}</font>"] if pred.message \
             else []
+    if game in CAROM_GAMES:
+        return [_carom_line(pred, game)]
     lines = []
     potted = out.pocketed()
     if "cue" in potted:
@@ -147,5 +176,5 @@ def aim_html(state: ViewState, pred: Predictor) -> str:
     window = _window_line(state, pred)
     if window is not None:
         lines.append(window)
-    lines += _outcome_lines(pred)
+    lines += _outcome_lines(pred, state.layout.game)
     return "<br>".join(lines)
