@@ -96,6 +96,8 @@ def test_check_lists_every_problem(tmp_path, capsys):
     assert code == 2
     got = json.loads(out)
     assert got["ok"] is False and [p["ball"] for p in got["problems"]] == ["1", "2"]
+    # With --json the problems are in the JSON; stderr has their count (README).
+    assert err.splitlines() == [f"shotplan: error: {path}: 2 problems"]
 
 
 def test_console_entry_point_runs():
