@@ -17,8 +17,6 @@ import math
 from collections.abc import Iterable, Mapping, Sequence
 from typing import TYPE_CHECKING, Any
 
-import numpy as np
-
 from ..render.overlays import (
     ghost_ball_shape,
     marker_shape,
@@ -365,11 +363,13 @@ def window_layer(window: Shot, cue: tuple[float, float], table: Table) -> list[S
     # Within the cloth's rectangle shrunk by a radius (inside the noses, away
     # from the pockets' openings) nothing is cut: the plain wedge, as the
     # window of a ball-first shot nearly always is.
-    ang = np.radians(np.linspace(lo, hi, max(2, math.ceil((hi - lo) / 0.5) + 1)))
-    xs, ys = cx + reach * np.cos(ang), cy + reach * np.sin(ang)
+    n = max(2, math.ceil((hi - lo) / 0.5) + 1)
+    ang = [math.radians(lo + (hi - lo) * k / (n - 1)) for k in range(n)]
+    xs = [cx] + [cx + reach * math.cos(a) for a in ang]
+    ys = [cy] + [cy + reach * math.sin(a) for a in ang]
     R = table.ball_radius
-    if min(xs.min(), cx) >= R and max(xs.max(), cx) <= table.length - R and \
-            min(ys.min(), cy) >= R and max(ys.max(), cy) <= table.width - R:
+    if min(xs) >= R and max(xs) <= table.length - R and min(ys) >= R and \
+            max(ys) <= table.width - R:
         return [window_shape((cx, cy), reach, lo, hi)]
     return list(_window_shapes(table, (cx, cy), reach, lo, hi))
 
