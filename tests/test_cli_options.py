@@ -87,6 +87,7 @@ def test_bad_values_elsewhere(capsys, tmp_path, monkeypatch, argv):
     (["position", DEMO, "--ball", "4", "--pocket", "foot-right", "--speeds", "-1,2"],
      "--speeds: speed -1.0 m/s is out of range"),
     (["study", "window", "--step", "-15"], "--step: -15 deg is out of range"),
+    (["study", "window", "--step", "nan"], "--step: nan is not a number of degrees"),
     # A comma list that starts with a negative number is a value, not an
     # unknown option (argparse said "expected at least one argument").
     (["study", "window", "--distances", "-0.3,0.9"], "argument --distances: '-0.3' is not a "

@@ -257,6 +257,8 @@ def _check_sweep(args: argparse.Namespace) -> None:
     """Refuse a sweep too long to be a chart, before any work."""
     step, top = args.step, args.max
     top = 90.0 if top is None else top
+    if not math.isfinite(step):
+        raise InputError(f"--step: {step!r} is not a number of degrees")
     if not 0.0 < step <= 90.0:
         raise InputError(f"--step: {step:g} deg is out of range, must be above 0 and at most 90")
     if step > 0 and math.isfinite(top) and abs(top) / step + 1 > MAX_ANGLES:

@@ -592,7 +592,7 @@ class Panels:
                 if state.problems():
                     texts = ["   (fix the layout's problems first)"]
                 elif not state.proposals_done:
-                    texts = ["   (searching...)"]
+                    texts = ["   (searching\u2026)"]  # one glyph: the font joins "..."
                 else:
                     why = no_shot_text(state.rejections, object_balls=len(state.object_balls))
             self._list_texts = texts
